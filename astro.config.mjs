@@ -1,0 +1,25 @@
+import { defineConfig } from 'astro/config';
+import node from '@astrojs/node';
+import react from '@astrojs/react';
+import tailwind from '@astrojs/tailwind';
+import auth from 'auth-astro';
+
+// Origins the app is reached at. Astro's origin check (on for form POSTs, sign-in included)
+// builds request URLs from the Host header only when the host is allowed here; otherwise it
+// assumes "localhost" and refuses same-origin posts from 127.0.0.1.
+const extraHost = process.env.PUBLIC_ORIGIN ? new URL(process.env.PUBLIC_ORIGIN).hostname : null;
+const allowedHosts = [...new Set(['127.0.0.1', 'localhost', ...(extraHost ? [extraHost] : [])])];
+
+export default defineConfig({
+  output: 'server',
+  adapter: node({ mode: 'standalone' }),
+  integrations: [react(), tailwind({ applyBaseStyles: false }), auth()],
+  server: { host: '127.0.0.1', port: 4321 },
+  security: {
+    checkOrigin: true,
+    allowedDomains: allowedHosts.map((hostname) => ({ hostname })),
+  },
+  devToolbar: { enabled: false },
+  telemetry: false,
+  vite: { resolve: { dedupe: ['react', 'react-dom'] } },
+});

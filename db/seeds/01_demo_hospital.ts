@@ -1,0 +1,70 @@
+import type { Knex } from 'knex';
+import bcrypt from 'bcryptjs';
+import {
+  DEMO_HOSPITAL, DEMO_PASSWORD, demoPatients, demoUnits, demoUsers, generateDemoObservations,
+} from '../../src/lib/demo/scenario.ts';
+
+// The invented demo scenario (PRODUCT.md "Demo scenario"). Refuses to run over existing data:
+// clinical rows are never deleted, so a reseed means a fresh database.
+export async function seed(knex: Knex): Promise<void> {
+  const existing = await knex('units').count<{ n: number }[]>({ n: '*' });
+  if (Number(existing[0].n) > 0) {
+    console.log('seed: units exist already, demo seed skipped');
+    return;
+  }
+  const now = new Date();
+  const hash = await bcrypt.hash(DEMO_PASSWORD, 10);
+
+  await knex.transaction(async (trx) => {
+    const unitIds = new Map<string, number>();
+    const bedIds = new Map<string, number>();
+    for (const unit of demoUnits) {
+      const [unitId] = await trx('units').insert({ code: unit.code, name: unit.name, hospital: DEMO_HOSPITAL, time_zone: unit.timeZone });
+      unitIds.set(unit.code, unitId);
+      for (const [position, label] of unit.beds.entries()) {
+        const [bedId] = await trx('beds').insert({ unit_id: unitId, label, position });
+        bedIds.set(label, bedId);
+      }
+    }
+    const userIds = new Map<string, number>();
+    for (const user of demoUsers) {
+      const [id] = await trx('users').insert({
+        email: user.email, name: user.name, role: user.role,
+        unit_id: user.unitCode ? unitIds.get(user.unitCode) : null, password_hash: hash,
+      });
+      userIds.set(user.email, id);
+    }
+    const chargeId = userIds.get('charge@harbourside.example')!;
+    const intensivistId = userIds.get('intensivist@harbourside.example')!;
+    const nurseId = userIds.get('nurse@harbourside.example')!;
+
+    const patientIds = new Map<string, number>();
+    const bedOf = new Map<string, number>();
+    for (const pt of demoPatients) {
+      const admittedAt = new Date(now.getTime() - pt.admittedHoursAgo * 3_600_000);
+      const [id] = await trx('patients').insert({
+        mrn: pt.mrn, given_name: pt.givenName, family_name: pt.familyName, date_of_birth: pt.dateOfBirth,
+        co2_retention_risk: pt.co2RetentionRisk, created_by: chargeId, created_at: admittedAt,
+      });
+      patientIds.set(pt.mrn, id);
+      bedOf.set(pt.mrn, bedIds.get(pt.bedLabel)!);
+      await trx('bed_stays').insert({ patient_id: id, bed_id: bedIds.get(pt.bedLabel), started_at: admittedAt, started_by: chargeId });
+      if (pt.band) {
+        await trx('target_orders').insert({
+          patient_id: id, low: pt.band.low, high: pt.band.high, news2_scale: pt.band.news2Scale, preset: pt.band.preset,
+          reason: pt.band.reason, ordered_by: intensivistId, ordered_at: new Date(admittedAt.getTime() + 10 * 60_000),
+        });
+      }
+    }
+
+    const rows = generateDemoObservations(now).map((o) => ({
+      patient_id: patientIds.get(o.mrn), bed_id: bedOf.get(o.mrn), taken_at: o.takenAt, source: o.source,
+      spo2: o.spo2, heart_rate: o.heartRate, resp_rate: o.respRate, fio2: o.fio2, fio2_estimated: o.fio2Estimated,
+      device: o.device, flow_lpm: o.flowLpm, trace: o.trace, perfusion_index: o.perfusionIndex,
+      systolic: o.systolic, temperature: o.temperature, consciousness: o.consciousness, probe_site: o.probeSite,
+      recorded_by: o.source === 'charted' ? nurseId : null, recorded_at: o.takenAt,
+    }));
+    for (let i = 0; i < rows.length; i += 2000) await trx('observations').insert(rows.slice(i, i + 2000));
+    console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length} patients, ${rows.length} obs`);
+  });
+}

@@ -1,0 +1,71 @@
+#!/usr/bin/env bash
+# `npm test`: everything the tests need, started here and stopped at the end — a fresh private
+# MariaDB (never the demo's), the built app on a test port — then unit, integration and browser tests.
+set -euo pipefail
+source "$(dirname "$0")/lib.sh"
+
+TEST_DB_PORT="${EBB_TEST_DB_PORT:-3417}"
+TEST_APP_PORT="${EBB_TEST_APP_PORT:-4399}"
+RESULTS="$EBB_ROOT/var/test-results"
+
+apt_install mariadb-server mariadb-client chromium
+ensure_node_modules
+
+export AUTH_SECRET="test-secret-$(node -e 'console.log(require("crypto").randomBytes(16).toString("hex"))')"
+export DB_HOST=127.0.0.1 DB_PORT="$TEST_DB_PORT" DB_USER=ebbwatch_test DB_PASSWORD=ebbwatch_test DB_NAME=ebbwatch_test
+export MIGRATIONS_DB_NAME=ebbwatch_migrations_test
+export APP_URL="http://127.0.0.1:$TEST_APP_PORT"
+export PUBLIC_ORIGIN="$APP_URL"
+export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
+export EBB_SWEEP_INTERVAL_MS="${EBB_SWEEP_INTERVAL_MS:-1000}"
+
+cleanup() {
+  local code=$?
+  trap - EXIT INT TERM
+  [ -n "${APP_PID:-}" ] && kill "$APP_PID" 2>/dev/null || true
+  for pid in ${EXTRA_PIDS:-}; do kill "$pid" 2>/dev/null || true; done
+  stop_mariadb
+  exit $code
+}
+trap cleanup EXIT INT TERM
+
+# A fresh database every run: tests never depend on what an earlier run left.
+if [ -f var/test-db/mysqld.pid ] && kill -0 "$(cat var/test-db/mysqld.pid)" 2>/dev/null; then kill "$(cat var/test-db/mysqld.pid)"; sleep 1; fi
+rm -rf var/test-db "$RESULTS"
+mkdir -p "$RESULTS"
+start_mariadb test-db "$TEST_DB_PORT"
+create_database "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
+create_database "$MIGRATIONS_DB_NAME" "$DB_USER" "$DB_PASSWORD"
+
+log "migrating and seeding the test database"
+npm run --silent migrate
+node --import tsx docker-free-scripts/seed-if-empty.ts
+
+run_project() {
+  local name="$1"
+  log "running $name tests"
+  npx vitest run --project "$name" --reporter=default --reporter=json --outputFile="$RESULTS/$name.json"
+}
+
+status=0
+run_project unit || status=1
+
+log "building the app"
+npx astro build >var/test-build.log 2>&1 || { tail -40 var/test-build.log; die "build failed"; }
+HOST=127.0.0.1 PORT="$TEST_APP_PORT" node dist/server/entry.mjs >var/test-app.log 2>&1 &
+APP_PID=$!
+wait_for_http "$APP_URL/api/health" 60 || { tail -40 var/test-app.log; die "the test app did not start"; }
+
+run_project integration || status=1
+run_project browser || status=1
+
+# One closing line over all projects, in the plain form CI reads.
+node -e '
+  const fs = require("fs"); let passed = 0, failed = 0, skipped = 0;
+  for (const f of fs.readdirSync(process.argv[1]).filter((f) => f.endsWith(".json"))) {
+    const r = JSON.parse(fs.readFileSync(process.argv[1] + "/" + f, "utf8"));
+    passed += r.numPassedTests; failed += r.numFailedTests; skipped += r.numPendingTests + (r.numTodoTests ?? 0);
+  }
+  console.log(`\nebbwatch: ${passed} passed, ${failed} failed, ${skipped} skipped`);
+' "$RESULTS"
+exit $status

@@ -1,0 +1,21 @@
+import { CLINICAL_ROLES, type Role } from './roles.ts';
+
+/**
+ * Which roles may open which pages, checked by the middleware on the server for every page
+ * request. First match wins; a page not listed needs only a signed-in user.
+ */
+const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
+  { prefix: '/admin', roles: ['admin'] },
+];
+
+export const PUBLIC_PATHS = ['/signin', '/api/health', '/api/theme', '/forbidden'];
+
+export function isPublicPath(path: string): boolean {
+  return PUBLIC_PATHS.includes(path) || path.startsWith('/api/auth/') || path.startsWith('/_astro/') || path === '/favicon.svg';
+}
+
+export function pageRolesFor(path: string): readonly Role[] | null {
+  return PAGE_RULES.find((rule) => path === rule.prefix || path.startsWith(`${rule.prefix}/`))?.roles ?? null;
+}
+
+export { CLINICAL_ROLES };

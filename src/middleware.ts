@@ -1,0 +1,48 @@
+import { defineMiddleware } from 'astro:middleware';
+import { getSession } from 'auth-astro/server';
+import { hasRole } from './lib/auth/roles.ts';
+import { isPublicPath, pageRolesFor } from './lib/auth/page-access.ts';
+import { findActiveSessionUser } from './lib/server/queries/users.ts';
+import { errorJson } from './lib/server/http.ts';
+
+const SESSION_COOKIES = ['authjs.session-token', '__Secure-authjs.session-token'];
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+// The one place the session is read: into Astro.locals for every page and endpoint.
+export const onRequest = defineMiddleware(async (ctx, next) => {
+  const path = ctx.url.pathname;
+  const isApi = path.startsWith('/api/');
+  ctx.locals.night = ctx.cookies.get('ebb-theme')?.value === 'night';
+
+  // Astro checks Origin on form posts only; JSON posts are checked here (a cross-site page
+  // could otherwise ride the session cookie).
+  if (isApi && !SAFE_METHODS.has(ctx.request.method) && !path.startsWith('/api/auth/')) {
+    const origin = ctx.request.headers.get('origin');
+    if (origin && origin !== ctx.url.origin) return errorJson(403, 'cross_origin', 'Requests from another site are refused.');
+  }
+
+  if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
+
+  const hasSessionCookie = SESSION_COOKIES.some((name) => ctx.cookies.has(name));
+  if (hasSessionCookie) {
+    const session = await getSession(ctx.request);
+    const id = Number((session?.user as { id?: unknown } | undefined)?.id);
+    if (Number.isInteger(id) && id > 0) ctx.locals.user = await findActiveSessionUser(id);
+  }
+
+  if (isPublicPath(path)) return next();
+
+  const user = ctx.locals.user;
+  if (!user) {
+    if (isApi) return errorJson(401, 'unauthenticated', 'Sign in first.');
+    return ctx.redirect(`/signin?callbackUrl=${encodeURIComponent(path + ctx.url.search)}`);
+  }
+  if (!isApi) {
+    const roles = pageRolesFor(path);
+    if (roles && !hasRole(user.role, roles)) {
+      const page = await ctx.rewrite('/forbidden');
+      return new Response(page.body, { status: 403, headers: page.headers });
+    }
+  }
+  return next();
+});

@@ -1,0 +1,20 @@
+/** Debian's Chromium driven by playwright-core: never a downloaded browser. */
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { APP_URL, DEMO_PASSWORD } from './app.ts';
+
+export async function launchBrowser(): Promise<Browser> {
+  // launch() gives every run a fresh temporary profile; no background networking: there is no network to reach.
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--disable-background-networking', '--disable-component-update',
+      '--disable-sync', '--no-first-run'],
+  });
+}
+
+export async function signInThroughForm(page: Page, email: string, password = DEMO_PASSWORD, base = APP_URL): Promise<void> {
+  await page.goto(`${base}/signin`);
+  await page.getByLabel('Email').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await Promise.all([page.waitForURL((url) => !url.pathname.startsWith('/signin') || url.search.includes('error')), page.getByRole('button', { name: 'Sign in' }).click()]);
+}

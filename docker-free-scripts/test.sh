@@ -44,7 +44,8 @@ node --import tsx docker-free-scripts/seed-if-empty.ts
 run_project() {
   local name="$1"
   log "running $name tests"
-  npx vitest run --project "$name" --reporter=default --reporter=json --outputFile="$RESULTS/$name.json"
+  # One file at a time: integration and browser files share one app and one database.
+  npx vitest run --project "$name" --no-file-parallelism --reporter=default --reporter=json --outputFile="$RESULTS/$name.json"
 }
 
 status=0

@@ -9,3 +9,6 @@ declare namespace App {
     night: boolean;
   }
 }
+
+// auth-astro ships TypeScript source that imports this untyped package.
+declare module 'set-cookie-parser';

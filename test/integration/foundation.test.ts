@@ -21,7 +21,7 @@ describe('demo seed', () => {
     const units = await db('units').orderBy('code').select('code', 'name', 'hospital');
     expect(units.map((u) => u.name)).toEqual(['Level 4 ICU', 'Level 5 HDU']);
     expect(new Set(units.map((u) => u.hospital))).toEqual(new Set(['Harbourside General']));
-    const beds = await db('beds as b').join('units as u', 'u.id', 'b.unit_id').groupBy('u.code').select('u.code').count({ n: '*' });
+    const beds: { code: string; n: number }[] = await db('beds as b').join('units as u', 'u.id', 'b.unit_id').groupBy('u.code').select('u.code').count({ n: '*' });
     expect(Object.fromEntries(beds.map((r) => [r.code, Number(r.n)]))).toEqual({ L4ICU: 12, L5HDU: 8 });
     for (const role of ['nurse', 'charge', 'intensivist', 'outreach', 'admin']) {
       expect(await db('users').where({ email: `${role}@harbourside.example`, role }).first()).toBeTruthy();

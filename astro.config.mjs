@@ -12,6 +12,8 @@ const allowedHosts = [...new Set(['127.0.0.1', 'localhost', ...(extraHost ? [ext
 
 export default defineConfig({
   output: 'server',
+  // Movable so two test suites can build side by side (docker-free-scripts/test.sh).
+  outDir: process.env.EBB_OUT_DIR ?? './dist',
   adapter: node({ mode: 'standalone' }),
   integrations: [react(), tailwind({ applyBaseStyles: false }), auth()],
   server: { host: '127.0.0.1', port: 4321 },

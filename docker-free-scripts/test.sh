@@ -4,9 +4,13 @@
 set -euo pipefail
 source "$(dirname "$0")/lib.sh"
 
+# Ports and folders can be moved so two suites can run side by side on one machine.
+# Extra arguments go to vitest as file filters: `npm test -- test/integration/charting.test.ts`.
 TEST_DB_PORT="${EBB_TEST_DB_PORT:-3417}"
 TEST_APP_PORT="${EBB_TEST_APP_PORT:-4399}"
-RESULTS="$EBB_ROOT/var/test-results"
+TEST_DB_NAME="test-db-$TEST_DB_PORT"
+export EBB_OUT_DIR="${EBB_OUT_DIR:-dist}"
+RESULTS="$EBB_ROOT/var/test-results-$TEST_APP_PORT"
 
 apt_install mariadb-server mariadb-client chromium
 ensure_node_modules
@@ -30,10 +34,11 @@ cleanup() {
 trap cleanup EXIT INT TERM
 
 # A fresh database every run: tests never depend on what an earlier run left.
-if [ -f var/test-db/mysqld.pid ] && kill -0 "$(cat var/test-db/mysqld.pid)" 2>/dev/null; then kill "$(cat var/test-db/mysqld.pid)"; sleep 1; fi
-rm -rf var/test-db "$RESULTS"
+pidfile="var/$TEST_DB_NAME/mysqld.pid"
+if [ -f "$pidfile" ] && kill -0 "$(cat "$pidfile")" 2>/dev/null; then kill "$(cat "$pidfile")"; sleep 1; fi
+rm -rf "var/$TEST_DB_NAME" "$RESULTS"
 mkdir -p "$RESULTS"
-start_mariadb test-db "$TEST_DB_PORT"
+start_mariadb "$TEST_DB_NAME" "$TEST_DB_PORT"
 create_database "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
 create_database "$MIGRATIONS_DB_NAME" "$DB_USER" "$DB_PASSWORD"
 
@@ -45,17 +50,18 @@ run_project() {
   local name="$1"
   log "running $name tests"
   # One file at a time: integration and browser files share one app and one database.
-  npx vitest run --project "$name" --no-file-parallelism --reporter=default --reporter=json --outputFile="$RESULTS/$name.json"
+  npx vitest run --project "$name" --no-file-parallelism --passWithNoTests --reporter=default --reporter=json --outputFile="$RESULTS/$name.json" "${VITEST_FILTERS[@]}"
 }
 
+VITEST_FILTERS=("$@")
 status=0
 run_project unit || status=1
 
 log "building the app"
-npx astro build >var/test-build.log 2>&1 || { tail -40 var/test-build.log; die "build failed"; }
-HOST=127.0.0.1 PORT="$TEST_APP_PORT" node dist/server/entry.mjs >var/test-app.log 2>&1 &
+npx astro build >"var/test-build-$TEST_APP_PORT.log" 2>&1 || { tail -40 "var/test-build-$TEST_APP_PORT.log"; die "build failed"; }
+HOST=127.0.0.1 PORT="$TEST_APP_PORT" node "$EBB_OUT_DIR/server/entry.mjs" >"var/test-app-$TEST_APP_PORT.log" 2>&1 &
 APP_PID=$!
-wait_for_http "$APP_URL/api/health" 60 || { tail -40 var/test-app.log; die "the test app did not start"; }
+wait_for_http "$APP_URL/api/health" 60 || { tail -40 "var/test-app-$TEST_APP_PORT.log"; die "the test app did not start"; }
 
 run_project integration || status=1
 run_project browser || status=1

@@ -6,6 +6,7 @@ import { CLINICAL_ROLES, type Role } from './roles.ts';
  */
 const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
   { prefix: '/admin', roles: ['admin'] },
+  { prefix: '/patients', roles: CLINICAL_ROLES },
 ];
 
 export const PUBLIC_PATHS = ['/signin', '/api/health', '/api/theme', '/forbidden'];
@@ -18,4 +19,3 @@ export function pageRolesFor(path: string): readonly Role[] | null {
   return PAGE_RULES.find((rule) => path === rule.prefix || path.startsWith(`${rule.prefix}/`))?.roles ?? null;
 }
 
-export { CLINICAL_ROLES };

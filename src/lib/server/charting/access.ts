@@ -1,0 +1,32 @@
+/**
+ * Who may do what to which patient, decided on the server from the patient's bed now (or, once
+ * discharged, the unit of their last stay).
+ */
+import { spansUnits } from '../../auth/roles.ts';
+import { ApiError } from '../http.ts';
+import type { SessionUser } from '../queries/users.ts';
+import type { StayRow } from '../queries/patients.ts';
+
+export type PatientAction = 'read' | 'chart' | 'order' | 'admit';
+
+export function patientPermissions(user: SessionUser, latestStay: StayRow | undefined) {
+  const admitted = latestStay !== undefined && latestStay.ended_at === null;
+  const inOwnUnit = latestStay !== undefined && user.unitId !== null && latestStay.unit_id === user.unitId;
+  const read = spansUnits(user.role) || ((user.role === 'nurse' || user.role === 'charge') && inOwnUnit);
+  return {
+    read,
+    chart: admitted && inOwnUnit && (user.role === 'nurse' || user.role === 'charge'),
+    order: admitted && user.role === 'intensivist',
+    admit: admitted && inOwnUnit && user.role === 'charge',
+  };
+}
+
+/** Throws 403 when the role or unit does not allow the action, 409 when the patient is discharged. */
+export function assertPatientAction(user: SessionUser, latestStay: StayRow | undefined, action: PatientAction): void {
+  const can = patientPermissions(user, latestStay);
+  if (!can.read) throw new ApiError(403, 'forbidden', 'This patient is not in your unit, or your role does not read charts.');
+  if (can[action]) return;
+  const admitted = latestStay !== undefined && latestStay.ended_at === null;
+  if (!admitted && action !== 'read') throw new ApiError(409, 'not_admitted', 'This patient has been discharged; their record is read-only.');
+  throw new ApiError(403, 'forbidden', `Your role (${user.role}) cannot do this for this patient.`);
+}

@@ -1,0 +1,103 @@
+/**
+ * Charting obs. Nothing is deleted: a correction is a new row naming the one it replaces, which
+ * is marked superseded; "entered in error" marks the row. Every write is audited in its transaction.
+ */
+import type { Knex } from 'knex';
+import type { ObsPage, ObsView } from '../../charting/api-types.ts';
+import type { ObsInput } from '../../charting/obs-input.ts';
+import { estimateFio2 } from '../../oxygenation/index.ts';
+import { ROOM_AIR_FIO2 } from '../../oxygenation/constants.ts';
+import { ApiError } from '../http.ts';
+import { db } from '../queries/db.ts';
+import { writeAudit } from '../queries/audit.ts';
+import { findObservation, insertObservation, lockObservation, markObservation, observationPage, type NewObservation, type ObservationRow } from '../queries/observations.ts';
+import type { SessionUser } from '../queries/users.ts';
+import { authorisePatient } from './patients.ts';
+import { obsView } from './views.ts';
+
+/** Hooks run inside the obs transaction (the escalation checks register here). */
+type AfterObservation = (trx: Knex.Transaction, patientId: number, now: Date) => Promise<void>;
+const afterObservationHooks: AfterObservation[] = [];
+export function onObservationStored(hook: AfterObservation): void {
+  afterObservationHooks.push(hook);
+}
+
+/** FiO₂ as stored: charted when given; 0.21 on room air; otherwise an estimate, always marked as one. */
+export function resolveFio2(input: Pick<ObsInput, 'fio2' | 'device' | 'flowLpm'>): { fio2: number | null; estimated: boolean } {
+  if (input.fio2 !== undefined) return { fio2: input.fio2, estimated: false };
+  if (input.device === 'room_air') return { fio2: ROOM_AIR_FIO2, estimated: false };
+  const estimate = estimateFio2(input.device, input.flowLpm ?? null);
+  if ('refused' in estimate) return { fio2: null, estimated: false };
+  return { fio2: Math.round(estimate.fio2 * 1000) / 1000, estimated: true };
+}
+
+function rowFromInput(input: ObsInput, patientId: number, bedId: number | null, userId: number): NewObservation {
+  const fio2 = resolveFio2(input);
+  return {
+    patient_id: patientId, bed_id: bedId, taken_at: input.takenAt, source: 'charted', spo2: input.spo2 ?? null,
+    heart_rate: input.heartRate ?? null, resp_rate: input.respRate ?? null, fio2: fio2.fio2, fio2_estimated: fio2.estimated,
+    device: input.device, flow_lpm: input.flowLpm ?? null, trace: input.trace, perfusion_index: input.perfusionIndex ?? null,
+    probe_site: input.probeSite ?? null, systolic: input.systolic ?? null, temperature: input.temperature ?? null,
+    consciousness: input.consciousness ?? null, note: input.note ?? null, replaces_id: null, recorded_by: userId,
+  };
+}
+
+/** Runs the after-store checks for a patient; callers that store readings by other paths (device feed, imports) call this once per batch. */
+export async function runObservationHooks(trx: Knex.Transaction, patientId: number, now: Date) {
+  for (const hook of afterObservationHooks) await hook(trx, patientId, now);
+}
+
+export async function chartObservation(user: SessionUser, patientId: number, input: ObsInput, now = new Date()): Promise<ObsView> {
+  const { stay } = await authorisePatient(user, patientId, 'chart');
+  const id = await db().transaction(async (trx) => {
+    const row = rowFromInput(input, patientId, stay.bed_id, user.id);
+    const obsId = await insertObservation(trx, { ...row, recorded_at: now });
+    await writeAudit(trx, { actorId: user.id, action: 'observation.create', entity: 'observation', entityId: obsId, after: row, at: now });
+    await runObservationHooks(trx, patientId, now);
+    return obsId;
+  });
+  return obsView((await findObservation(id))!);
+}
+
+async function lockForChange(trx: Knex.Transaction, user: SessionUser, obsId: number): Promise<ObservationRow> {
+  const original = await lockObservation(trx, obsId);
+  if (!original) throw new ApiError(404, 'not_found', 'No obs with that id.');
+  await authorisePatient(user, original.patient_id, 'chart');
+  if (original.status !== 'current') {
+    throw new ApiError(409, 'not_current', original.status === 'superseded' ? 'This obs was already corrected; correct the newer version.' : 'This obs is already marked entered in error.');
+  }
+  if (user.role === 'nurse' && original.recorded_by !== user.id) {
+    throw new ApiError(403, 'forbidden', 'A nurse corrects their own entries; ask the charge nurse to correct this one.');
+  }
+  return original;
+}
+
+export async function correctObservation(user: SessionUser, obsId: number, reason: string, input: ObsInput, now = new Date()): Promise<ObsView> {
+  const id = await db().transaction(async (trx) => {
+    const original = await lockForChange(trx, user, obsId);
+    if (original.source !== 'charted') throw new ApiError(409, 'not_charted', 'Only charted obs can be corrected; mark a device reading entered in error instead.');
+    const row = { ...rowFromInput(input, original.patient_id, original.bed_id, user.id), replaces_id: original.id };
+    const newId = await insertObservation(trx, { ...row, recorded_at: now });
+    await markObservation(trx, original.id, { status: 'superseded', status_reason: reason, status_by: user.id, status_at: now });
+    await writeAudit(trx, { actorId: user.id, action: 'observation.correct', entity: 'observation', entityId: original.id, before: original, after: { ...row, id: newId, reason }, at: now });
+    await runObservationHooks(trx, original.patient_id, now);
+    return newId;
+  });
+  return obsView((await findObservation(id))!);
+}
+
+export async function markEnteredInError(user: SessionUser, obsId: number, reason: string, now = new Date()): Promise<ObsView> {
+  await db().transaction(async (trx) => {
+    const original = await lockForChange(trx, user, obsId);
+    await markObservation(trx, original.id, { status: 'entered_in_error', status_reason: reason, status_by: user.id, status_at: now });
+    await writeAudit(trx, { actorId: user.id, action: 'observation.entered_in_error', entity: 'observation', entityId: original.id, before: { status: original.status }, after: { status: 'entered_in_error', reason }, at: now });
+    await runObservationHooks(trx, original.patient_id, now);
+  });
+  return obsView((await findObservation(obsId))!);
+}
+
+export async function listObservations(user: SessionUser, patientId: number, page: number, pageSize: number, includeDevice: boolean): Promise<ObsPage> {
+  await authorisePatient(user, patientId, 'read');
+  const { rows, total } = await observationPage(patientId, page, pageSize, includeDevice ? ['charted', 'device', 'import'] : ['charted']);
+  return { items: rows.map(obsView), page, pageSize, total };
+}

@@ -1,0 +1,42 @@
+/** Target-band orders: a new order supersedes the newest one; a writer who saw an older one gets 409. */
+import type { OrderView } from '../../charting/api-types.ts';
+import type { TargetOrderInput } from '../../charting/target-input.ts';
+import { ApiError } from '../http.ts';
+import { db } from '../queries/db.ts';
+import { writeAudit } from '../queries/audit.ts';
+import { insertOrder, ordersOf } from '../queries/orders.ts';
+import { lockPatient } from '../queries/patients.ts';
+import type { SessionUser } from '../queries/users.ts';
+import { authorisePatient } from './patients.ts';
+import { orderView } from './views.ts';
+
+export async function listOrders(user: SessionUser, patientId: number): Promise<OrderView[]> {
+  await authorisePatient(user, patientId, 'read');
+  return (await ordersOf(patientId)).map(orderView);
+}
+
+export async function orderTarget(user: SessionUser, patientId: number, input: TargetOrderInput, now = new Date()): Promise<OrderView> {
+  await authorisePatient(user, patientId, 'order');
+  const id = await db().transaction(async (trx) => {
+    // The patient row lock serialises concurrent orders, so the stale check below cannot race.
+    await lockPatient(trx, patientId);
+    const [newest] = await ordersOf(patientId, trx);
+    const newestId = newest?.id ?? null;
+    if (newestId !== input.basedOnOrderId) {
+      throw new ApiError(409, 'stale_order', newest
+        ? `A newer band (${newest.low}–${newest.high} %, by ${newest.ordered_by_name}) was ordered after the one you saw. Check the history and order again.`
+        : 'The order history changed while you were editing. Check it and order again.');
+    }
+    const orderId = await insertOrder(trx, {
+      patient_id: patientId, low: input.low, high: input.high, news2_scale: input.news2Scale, preset: input.preset ?? null,
+      reason: input.reason, scale_reason: input.scaleReason ?? null, supersedes_id: newestId, ordered_by: user.id, ordered_at: now,
+    });
+    await writeAudit(trx, {
+      actorId: user.id, action: 'target.order', entity: 'patient', entityId: patientId,
+      before: newest ? { orderId: newest.id, low: newest.low, high: newest.high, news2Scale: newest.news2_scale } : null,
+      after: { orderId, low: input.low, high: input.high, news2Scale: input.news2Scale, reason: input.reason }, at: now,
+    });
+    return orderId;
+  });
+  return orderView((await ordersOf(patientId)).find((o) => o.id === id)!);
+}

@@ -1,0 +1,139 @@
+/** Admit, move, discharge and read patients: each change a bed stay with who and when, audited. */
+import type { PatientDetail, PatientSummary } from '../../charting/api-types.ts';
+import type { AdmitInput } from '../../charting/patient-input.ts';
+import { spansUnits } from '../../auth/roles.ts';
+import { ApiError } from '../http.ts';
+import { db } from '../queries/db.ts';
+import { writeAudit } from '../queries/audit.ts';
+import { latestOrders, ordersOf } from '../queries/orders.ts';
+import { lastChartedObservation } from '../queries/observations.ts';
+import {
+  endStay, findBed, findPatient, findPatientByMrn, insertPatient, insertStay, latestStays, lockPatient,
+  bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
+} from '../queries/patients.ts';
+import { listUnits } from '../queries/units.ts';
+import type { SessionUser } from '../queries/users.ts';
+import { assertPatientAction, patientPermissions } from './access.ts';
+import { obsView, orderView, patientSummary, stayView } from './views.ts';
+
+export async function latestStayOf(patientId: number): Promise<StayRow | undefined> {
+  return (await latestStays([patientId]))[0];
+}
+
+/** Loads the patient and checks the action, or throws 404/403/409. */
+export async function authorisePatient(user: SessionUser, patientId: number, action: 'read' | 'chart' | 'order' | 'admit') {
+  const patient = await findPatient(patientId);
+  if (!patient) throw new ApiError(404, 'not_found', 'No patient with that id.');
+  const stay = await latestStayOf(patientId);
+  assertPatientAction(user, stay, action);
+  return { patient, stay: stay! };
+}
+
+export async function patientDetail(user: SessionUser, patientId: number): Promise<PatientDetail> {
+  const { patient, stay } = await authorisePatient(user, patientId, 'read');
+  const [stays, orders, last] = await Promise.all([staysOf(patientId), ordersOf(patientId), lastChartedObservation(patientId)]);
+  return {
+    ...patientSummary(patient, stay, orders[0]),
+    timeZone: stay.time_zone,
+    stays: stays.map(stayView),
+    orders: orders.map(orderView),
+    lastCharted: last ? obsView(last) : null,
+    can: (({ chart, order, admit }) => ({ chart, order, admit }))(patientPermissions(user, stay)),
+  };
+}
+
+/** Units whose patients the user may list: their own, or every unit for roles that span units. */
+export async function visibleUnits(user: SessionUser, unitCode?: string) {
+  if (user.role === 'admin') throw new ApiError(403, 'forbidden', 'Administrators do not read clinical records.');
+  const units = await listUnits(spansUnits(user.role) ? null : user.unitId);
+  if (!unitCode) return units;
+  const unit = units.find((u) => u.code === unitCode);
+  if (!unit) throw new ApiError(spansUnits(user.role) ? 404 : 403, spansUnits(user.role) ? 'not_found' : 'forbidden', `Unit ${unitCode} is not one you can see.`);
+  return [unit];
+}
+
+export async function listPatients(user: SessionUser, opts: { unit?: string; includeDischarged: boolean }): Promise<PatientSummary[]> {
+  const units = await visibleUnits(user, opts.unit);
+  const patients = await patientsInUnits(units.map((u) => u.id), !opts.includeDischarged);
+  const ids = patients.map((p) => p.id);
+  const [stays, orders] = await Promise.all([latestStays(ids), latestOrders(ids)]);
+  const stayBy = new Map(stays.map((s) => [s.patient_id, s]));
+  const orderBy = new Map(orders.map((o) => [o.patient_id, o]));
+  return patients.map((p) => patientSummary(p, stayBy.get(p.id), orderBy.get(p.id)));
+}
+
+async function assertBedForCharge(user: SessionUser, bedId: number, allowOtherUnit: boolean) {
+  const bed = await findBed(bedId);
+  if (!bed || !bed.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  if (!allowOtherUnit && bed.unit_id !== user.unitId) throw new ApiError(403, 'forbidden', `Bed ${bed.label} is not in your unit.`);
+  return bed;
+}
+
+export async function admitPatient(user: SessionUser, input: AdmitInput, now = new Date()): Promise<PatientSummary> {
+  if (user.role !== 'charge') throw new ApiError(403, 'forbidden', 'Only a charge nurse admits patients.');
+  const bed = await assertBedForCharge(user, input.bedId, false);
+  const patientId = await db().transaction(async (trx) => {
+    if (await openStayInBed(trx, bed.id)) throw new ApiError(409, 'bed_occupied', `Bed ${bed.label} already has a patient.`, { bedId: 'This bed is occupied' });
+    let existing = await findPatientByMrn(input.mrn, trx);
+    if (existing) {
+      existing = await lockPatient(trx, existing.id);
+      const sameName = existing!.given_name.toLowerCase() === input.givenName.toLowerCase() && existing!.family_name.toLowerCase() === input.familyName.toLowerCase();
+      if (!sameName) throw new ApiError(409, 'mrn_mismatch', `MRN ${input.mrn} belongs to another name on record; check the MRN.`, { mrn: 'MRN is on record under another name' });
+      if (await openStayOfPatient(trx, existing!.id)) throw new ApiError(409, 'already_admitted', 'This patient is already in a bed; move them instead.', { mrn: 'Already admitted' });
+    }
+    const id = existing?.id ?? (await insertPatient(trx, {
+      mrn: input.mrn, given_name: input.givenName, family_name: input.familyName, date_of_birth: input.dateOfBirth,
+      co2_retention_risk: input.co2RetentionRisk, created_by: user.id,
+    }));
+    const stayId = await insertStay(trx, { patient_id: id, bed_id: bed.id, started_at: now, started_by: user.id });
+    await writeAudit(trx, { actorId: user.id, action: 'patient.admit', entity: 'patient', entityId: id, after: { stayId, bedId: bed.id, bed: bed.label, mrn: input.mrn, readmission: Boolean(existing) }, at: now });
+    return id;
+  });
+  return (await listSummary(patientId))!;
+}
+
+async function listSummary(patientId: number): Promise<PatientSummary | undefined> {
+  const patient = await findPatient(patientId);
+  if (!patient) return undefined;
+  const [[stay], [order]] = await Promise.all([latestStays([patientId]), latestOrders([patientId])]);
+  return patientSummary(patient, stay, order);
+}
+
+export async function movePatient(user: SessionUser, patientId: number, bedId: number, now = new Date()): Promise<PatientSummary> {
+  await authorisePatient(user, patientId, 'admit');
+  // A charge nurse may transfer out of their unit to any free bed (the receiving unit then owns the patient).
+  const bed = await assertBedForCharge(user, bedId, true);
+  await db().transaction(async (trx) => {
+    await lockPatient(trx, patientId);
+    const open = await openStayOfPatient(trx, patientId);
+    if (!open) throw new ApiError(409, 'not_admitted', 'This patient has been discharged.');
+    if (open.bed_id === bed.id) throw new ApiError(409, 'same_bed', 'The patient is already in that bed.', { bedId: 'Same bed' });
+    if (await openStayInBed(trx, bed.id)) throw new ApiError(409, 'bed_occupied', `Bed ${bed.label} already has a patient.`, { bedId: 'This bed is occupied' });
+    await endStay(trx, open.id, { ended_at: now, end_reason: 'moved', ended_by: user.id });
+    const stayId = await insertStay(trx, { patient_id: patientId, bed_id: bed.id, started_at: now, started_by: user.id });
+    await writeAudit(trx, { actorId: user.id, action: 'patient.move', entity: 'patient', entityId: patientId, before: { stayId: open.id, bedId: open.bed_id }, after: { stayId, bedId: bed.id }, at: now });
+  });
+  return (await listSummary(patientId))!;
+}
+
+export async function dischargePatient(user: SessionUser, patientId: number, note: string | undefined, now = new Date()): Promise<PatientSummary> {
+  await authorisePatient(user, patientId, 'admit');
+  await db().transaction(async (trx) => {
+    await lockPatient(trx, patientId);
+    const open = await openStayOfPatient(trx, patientId);
+    if (!open) throw new ApiError(409, 'not_admitted', 'This patient has already been discharged.');
+    await endStay(trx, open.id, { ended_at: now, end_reason: 'discharged', ended_by: user.id });
+    await writeAudit(trx, { actorId: user.id, action: 'patient.discharge', entity: 'patient', entityId: patientId, before: { stayId: open.id, bedId: open.bed_id }, after: { note: note ?? null }, at: now });
+  });
+  return (await listSummary(patientId))!;
+}
+
+
+/** A unit's beds with occupancy. Charge nurses also see every other unit's free beds (for transfers). */
+export async function unitBeds(user: SessionUser, unitCode: string) {
+  const allowOthers = user.role === 'charge';
+  const units = allowOthers ? await listUnits(null) : await visibleUnits(user);
+  const unit = units.find((u) => u.code === unitCode);
+  if (!unit) throw new ApiError(403, 'forbidden', `Unit ${unitCode} is not one you can see.`);
+  return { unit: { code: unit.code, name: unit.name }, beds: await bedsOfUnit(unit.id) };
+}

@@ -26,6 +26,9 @@ export async function seed(knex: Knex): Promise<void> {
         bedIds.set(label, bedId);
       }
     }
+    for (const unit of demoUnits) {
+      await trx('unit_settings').insert({ unit_id: unitIds.get(unit.code), outreach_emails: 'outreach@harbourside.example, outreach-team@harbourside.example' });
+    }
     const userIds = new Map<string, number>();
     for (const user of demoUsers) {
       const [id] = await trx('users').insert({
@@ -55,6 +58,11 @@ export async function seed(knex: Knex): Promise<void> {
           reason: pt.band.reason, ordered_by: intensivistId, ordered_at: new Date(admittedAt.getTime() + 10 * 60_000),
         });
       }
+    }
+
+    // The demo bedside nurse looks after the first three beds of Level 4.
+    for (const label of ['4-01', '4-02', '4-03']) {
+      await trx('bed_assignments').insert({ bed_id: bedIds.get(label), nurse_id: nurseId, assigned_by: chargeId, assigned_at: now });
     }
 
     const rows = generateDemoObservations(now).map((o) => ({

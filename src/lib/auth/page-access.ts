@@ -7,6 +7,7 @@ import { CLINICAL_ROLES, type Role } from './roles.ts';
 const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
   { prefix: '/admin', roles: ['admin'] },
   { prefix: '/patients', roles: CLINICAL_ROLES },
+  { prefix: '/board', roles: CLINICAL_ROLES },
 ];
 
 export const PUBLIC_PATHS = ['/signin', '/api/health', '/api/theme', '/forbidden'];

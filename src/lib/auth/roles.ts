@@ -21,6 +21,7 @@ export interface NavItem { href: string; label: string; roles: readonly Role[] }
 
 /** The navigation, by role. Add an entry when a screen lands; a role sees only what it may open. */
 export const NAV_ITEMS: readonly NavItem[] = [
+  { href: '/board', label: 'Ward board', roles: CLINICAL_ROLES },
   { href: '/', label: 'Units', roles: CLINICAL_ROLES },
   { href: '/patients', label: 'Patients', roles: CLINICAL_ROLES },
   { href: '/admin/users', label: 'Users', roles: ['admin'] },

@@ -1,0 +1,142 @@
+import { useMemo, useState } from 'react';
+import useSWR from 'swr';
+import type { BoardResponse } from '../../lib/server/board/board.ts';
+import type { BoardTile } from '../../lib/board/tiles.ts';
+import { formatMinutes, stateWords } from '../../lib/board/tiles.ts';
+import { DEVICE_LABELS } from '../../lib/charting/obs-input.ts';
+import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+
+interface Props { initial: BoardResponse; me: { id: number; role: string }; pollMs?: number }
+
+const timeIn = (iso: string | number, zone: string) =>
+  new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false, timeZone: zone }).format(new Date(iso));
+
+/** The ward board: server-rendered first, then kept fresh by polling; stale data is said plainly. */
+export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
+  const key = `/api/board?unit=${encodeURIComponent(initial.unit.code)}`;
+  const { data, error, mutate } = useSWR<BoardResponse>(key, fetchJson, {
+    fallbackData: initial, refreshInterval: pollMs, revalidateOnFocus: true, keepPreviousData: true,
+    // SWR pauses polling while errored and backs off exponentially; a board must come back on its own promptly.
+    onErrorRetry: (_err, _key, _config, revalidate, { retryCount }) => {
+      setTimeout(() => revalidate({ retryCount }), 5_000);
+    },
+  });
+  const board = data ?? initial;
+  const [mine, setMine] = useState(false);
+  const nurses = useSWR<{ nurses: { id: number; name: string }[] }>(me.role === 'charge' ? '/api/nurses' : null, fetchJson);
+  const tiles = useMemo(() => (mine ? board.tiles.filter((t) => t.nurse?.id === me.id) : board.tiles), [board, mine, me.id]);
+  const zone = board.unit.timeZone;
+
+  return (
+    <div>
+      <div className="mb-3 flex flex-wrap items-center gap-4">
+        <p className="text-sm text-ink-600 dark:text-ink-300" data-testid="board-as-of">
+          as of <time dateTime={board.generatedAt}>{timeIn(board.generatedAt, zone)}</time> · refreshes every {Math.round(pollMs / 1000)} s
+        </p>
+        {(me.role === 'nurse' || me.role === 'charge') && (
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" checked={mine} onChange={(e) => setMine(e.target.checked)} data-testid="my-beds" /> my beds only
+          </label>
+        )}
+      </div>
+      {error && (
+        <div role="alert" data-testid="stale-banner" className="mb-4 rounded-md border-2 border-amberline-400 bg-amberline-100 p-3 font-bold text-amberline-700 dark:bg-amberline-700/30 dark:text-amberline-100">
+          Board not updating — showing data from {timeIn(board.generatedAt, zone)}. Retrying on its own; check the bedside if in doubt.
+        </div>
+      )}
+      {tiles.length === 0 && <p className="panel">No beds to show{mine ? ' assigned to you' : ''}.</p>}
+      <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-4" data-testid="board-tiles">
+        {tiles.map((tile) => (
+          <Tile key={tile.bedId} tile={tile} zone={zone} nurses={nurses.data?.nurses ?? null} onAssigned={() => mutate()} />
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+const TONE: Record<string, string> = {
+  below: 'border-coral-500 bg-coral-50 dark:bg-coral-900/25',
+  above: 'border-iris-500 bg-iris-50 dark:bg-iris-900/25',
+  in: 'border-glass-500 bg-white dark:bg-ink-900',
+  untrusted: 'border-ink-400 border-dashed ebb-hatched bg-white dark:bg-ink-900',
+  no_band: 'border-ink-500 border-dashed bg-white dark:bg-ink-900',
+  no_reading: 'border-ink-300 bg-white dark:bg-ink-900',
+};
+
+function StateMark({ name }: { name: string }) {
+  // Shape carries the state as well as colour: chevron down, chevron up, dot, hollow ring.
+  const common = { width: 22, height: 22, viewBox: '0 0 24 24', 'aria-hidden': true } as const;
+  if (name === 'below') return <svg {...common} className="text-coral-600 dark:text-coral-300"><path d="M4 8l8 8 8-8" fill="none" stroke="currentColor" strokeWidth="3.5" strokeLinecap="round" strokeLinejoin="round" /></svg>;
+  if (name === 'above') return <svg {...common} className="text-iris-600 dark:text-iris-300"><path d="M4 16l8-8 8 8" fill="none" stroke="currentColor" strokeWidth="3.5" strokeLinecap="round" strokeLinejoin="round" /></svg>;
+  if (name === 'in') return <svg {...common} className="text-glass-600 dark:text-glass-300"><circle cx="12" cy="12" r="6" fill="currentColor" /></svg>;
+  if (name === 'untrusted') return <svg {...common} className="text-ink-500 dark:text-ink-300"><circle cx="12" cy="12" r="7" fill="none" stroke="currentColor" strokeWidth="2.5" strokeDasharray="3 3" /></svg>;
+  return <svg {...common} className="text-ink-400"><rect x="5" y="11" width="14" height="3" fill="currentColor" /></svg>;
+}
+
+function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: string; nurses: { id: number; name: string }[] | null; onAssigned: () => void }) {
+  const [assignError, setAssignError] = useState<string | null>(null);
+  if (!tile.patient) {
+    return (
+      <li className="rounded-lg border border-dashed border-ink-200 p-3 text-ink-400 dark:border-ink-700" data-testid={`tile-${tile.bedLabel}`} data-concern="empty">
+        <span className="font-mono font-bold">{tile.bedLabel}</span> · empty
+        <span className="sr-only">{tile.sentence}</span>
+      </li>
+    );
+  }
+  const tone = TONE[tile.state.name] ?? TONE.no_reading;
+  const spo2 = tile.latest?.spo2;
+  async function assign(value: string) {
+    setAssignError(null);
+    try {
+      await postJson(`/api/beds/${tile.bedId}/assignment`, { nurseId: value === '' ? null : Number(value) }, 'PUT');
+      onAssigned();
+    } catch (err) {
+      setAssignError((err as Error).message);
+    }
+  }
+  return (
+    <li className={`relative rounded-lg border-2 p-3 shadow-sm ${tone}`} data-testid={`tile-${tile.bedLabel}`} data-concern={tile.concern.key} data-state={tile.state.name}>
+      <span className="sr-only" data-testid="tile-sentence">{tile.sentence}</span>
+      <div aria-hidden="true">
+        <div className="flex items-baseline justify-between gap-2">
+          <a href={`/patients/${tile.patient.id}`} className="font-mono text-lg font-bold underline-offset-2 hover:underline after:absolute after:inset-0" >{tile.bedLabel}</a>
+          <span className="font-bold">{tile.patient.label}</span>
+          <span className="rounded bg-ink-100 px-1.5 text-sm dark:bg-ink-800">{tile.band ? `band ${tile.band.low}–${tile.band.high}${tile.band.news2Scale === 2 ? ' · S2' : ''}` : 'no band ordered'}</span>
+        </div>
+        <div className="mt-1 flex items-center gap-2">
+          <StateMark name={tile.state.name} />
+          <span className="text-4xl font-bold tabular-nums" data-testid="tile-spo2">{spo2 ?? '—'}<span className="text-lg font-normal">{spo2 != null ? ' %' : ''}</span></span>
+          <span className="font-bold" data-testid="tile-state">{stateWords(tile)}</span>
+        </div>
+        {tile.latest?.belowCalibratedRange && <p className="text-sm font-bold">below calibrated range — confirm with arterial blood gas</p>}
+        <p className="mt-1 text-sm" data-testid="tile-reason"><strong>{tile.concern.reason}</strong></p>
+        <dl className="mt-2 grid grid-cols-2 gap-x-3 text-sm">
+          <div><dt className="inline text-ink-500">trace </dt><dd className="inline">{tile.latest ? (tile.latest.trusted ? tile.latest.trace : `${tile.latest.trace} (untrusted)`) : '—'}</dd></div>
+          <div><dt className="inline text-ink-500">HR </dt><dd className="inline">{tile.latest?.heartRate ?? '—'}</dd></div>
+          <div className="col-span-2"><dt className="inline text-ink-500">O₂ </dt><dd className="inline">{tile.oxygen.device ? DEVICE_LABELS[tile.oxygen.device] : '—'}{tile.oxygen.fio2 !== null ? ` · FiO₂ ${tile.oxygen.fio2.toFixed(2)}${tile.oxygen.fio2Estimated ? ' (est.)' : ''}` : ''}</dd></div>
+          <div><dt className="inline text-ink-500">obs </dt><dd className={`inline ${tile.overdue ? 'font-bold underline decoration-amberline-400 decoration-2' : ''}`}>{tile.minutesSinceCharted === null ? 'none' : `${formatMinutes(tile.minutesSinceCharted)} ago`}{tile.overdue ? ' · overdue' : ''}</dd></div>
+          <div><dt className="inline text-ink-500">NEWS2 </dt><dd className="inline">{tile.news2 ? tile.news2.total : 'incomplete'}</dd></div>
+        </dl>
+        {tile.escalation && (
+          <p className="mt-2 rounded bg-ink-900 px-2 py-1 text-sm text-white dark:bg-ink-700" data-testid="tile-escalation">
+            Escalation {tile.escalation.severity === 'urgent' ? 'urgent · ' : ''}{tile.escalation.state}{tile.escalation.claimedBy ? ` by ${tile.escalation.claimedBy}` : ''} · raised {timeIn(tile.escalation.raisedAt, zone).slice(0, 5)}
+          </p>
+        )}
+      </div>
+      <div className="relative z-10 mt-2 text-sm">
+        {nurses ? (
+          <label className="flex items-center gap-2">
+            <span className="text-ink-500">nurse</span>
+            <select className="field py-0.5" value={tile.nurse?.id ?? ''} onChange={(e) => assign(e.target.value)} aria-label={`Nurse for bed ${tile.bedLabel}`}>
+              <option value="">unassigned</option>
+              {nurses.map((n) => <option key={n.id} value={n.id}>{n.name}</option>)}
+            </select>
+          </label>
+        ) : (
+          <span className="text-ink-500">nurse {tile.nurse?.name ?? 'unassigned'}</span>
+        )}
+        {assignError && <p role="alert" className="text-coral-700">{assignError}</p>}
+      </div>
+    </li>
+  );
+}

@@ -1,0 +1,179 @@
+/**
+ * The ward board's tiles: state, concern and sort order for every bed of a unit, from rows the
+ * server has already fetched. Pure — every clinical judgement comes from src/lib/oxygenation.
+ */
+import { bandState, detectConcerns, news2, type BandStateName, type News2Response, type Reading } from '../oxygenation/index.ts';
+import type { EscalationSettings } from '../oxygenation/settings.ts';
+import type { OxygenDevice, TraceQuality } from '../oxygenation/types.ts';
+
+export interface BoardSettings extends EscalationSettings { overdueMin: number }
+
+export interface BedInput {
+  bedId: number; bedLabel: string;
+  patient: null | { id: number; label: string; co2RetentionRisk: boolean };
+  band: null | { low: number; high: number; news2Scale: 1 | 2; orderedAt: number };
+  /** Current readings since (at most) the lookback, oldest first: device, import and charted. */
+  readings: Reading[];
+  lastCharted: null | {
+    at: number; spo2: number | null; heartRate: number | null; respRate: number | null; fio2: number | null; fio2Estimated: boolean;
+    device: OxygenDevice | null; systolic: number | null; temperature: number | null; consciousness: string | null;
+  };
+  escalation: null | { id: number; kind: string; severity: string | null; state: 'raised' | 'claimed'; raisedAt: number; claimedBy: string | null };
+  nurse: null | { id: number; name: string };
+}
+
+/** Most concerning first; the order the brief gives. */
+export const CONCERN_ORDER = ['urgent_escalation', 'below_band', 'cannot_verify', 'no_band', 'overdue', 'above_on_oxygen', 'in_band', 'no_reading', 'empty'] as const;
+export type ConcernKey = (typeof CONCERN_ORDER)[number];
+
+export interface BoardTile {
+  bedId: number; bedLabel: string;
+  patient: BedInput['patient'];
+  band: null | { low: number; high: number; news2Scale: 1 | 2 };
+  state: { name: BandStateName; sinceMin: number | null };
+  latest: null | { at: number; spo2: number | null; trace: TraceQuality; trusted: boolean; heartRate: number | null; belowCalibratedRange: boolean };
+  oxygen: { fio2: number | null; fio2Estimated: boolean; device: OxygenDevice | null };
+  minutesSinceCharted: number | null;
+  overdue: boolean;
+  news2: null | { total: number; response: News2Response | null; scale: 1 | 2 };
+  concerns: {
+    belowBand: null | { severity: 'standard' | 'urgent'; sinceMin: number; nadir: number };
+    cannotVerify: null | { sinceMin: number };
+    aboveOnOxygen: null | { sinceMin: number };
+  };
+  escalation: BedInput['escalation'];
+  nurse: BedInput['nurse'];
+  concern: { key: ConcernKey; rank: number; reason: string };
+  /** One sentence for screen readers: the tile said in words. */
+  sentence: string;
+}
+
+/** Only the keys the computation module knows: it refuses unknown settings rather than ignore them. */
+export function escalationSettingsOf(s: EscalationSettings): EscalationSettings {
+  return {
+    minPerfusionIndexPct: s.minPerfusionIndexPct, consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin,
+    urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct, cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin,
+  };
+}
+
+const minutesBetween = (a: number, b: number) => Math.max(0, Math.floor((b - a) / 60_000));
+
+export function buildTile(bed: BedInput, now: number, settings: BoardSettings): BoardTile {
+  if (!bed.patient) {
+    return {
+      bedId: bed.bedId, bedLabel: bed.bedLabel, patient: null, band: null, state: { name: 'no_reading', sinceMin: null }, latest: null,
+      oxygen: { fio2: null, fio2Estimated: false, device: null }, minutesSinceCharted: null, overdue: false, news2: null,
+      concerns: { belowBand: null, cannotVerify: null, aboveOnOxygen: null }, escalation: null, nurse: bed.nurse,
+      concern: { key: 'empty', rank: CONCERN_ORDER.indexOf('empty'), reason: 'Empty bed' }, sentence: `Bed ${bed.bedLabel}: empty.`,
+    };
+  }
+  const band = bed.band ? { low: bed.band.low, high: bed.band.high } : null;
+  // Judge only readings taken under the band in force now: an older band's readings are not re-judged.
+  const readings = bed.band ? bed.readings.filter((r) => r.at >= bed.band!.orderedAt) : bed.readings;
+  const state = bandState(bed.readings, band, now, { minPerfusionIndexPct: settings.minPerfusionIndexPct });
+  const concerns = detectConcerns(readings, band, now, escalationSettingsOf(settings));
+  const last = state.latest;
+  const lastCharted = bed.lastCharted;
+  const minutesSinceCharted = lastCharted ? minutesBetween(lastCharted.at, now) : null;
+  const overdue = minutesSinceCharted === null || minutesSinceCharted > settings.overdueMin;
+
+  let newsScore: BoardTile['news2'] = null;
+  if (lastCharted) {
+    const scale = bed.band?.news2Scale ?? 1;
+    const n = news2({
+      respRate: lastCharted.respRate, spo2: lastCharted.spo2, onOxygen: lastCharted.device ? lastCharted.device !== 'room_air' : null,
+      systolic: lastCharted.systolic, pulse: lastCharted.heartRate, temperature: lastCharted.temperature,
+      consciousness: lastCharted.consciousness as never,
+    }, scale);
+    if (n.complete && n.total !== null) newsScore = { total: n.total, response: n.response, scale };
+  }
+
+  const tile: BoardTile = {
+    bedId: bed.bedId, bedLabel: bed.bedLabel, patient: bed.patient, band: bed.band ? { ...band!, news2Scale: bed.band.news2Scale } : null,
+    state: { name: state.state, sinceMin: state.sinceMin === null ? null : Math.floor(state.sinceMin) },
+    latest: last ? {
+      at: last.at, spo2: last.spo2, trace: last.trace, trusted: state.state !== 'untrusted', heartRate: last.heartRate ?? null,
+      belowCalibratedRange: last.spo2 !== null && last.spo2 < 70,
+    } : null,
+    oxygen: latestOxygen(bed),
+    minutesSinceCharted, overdue, news2: newsScore,
+    concerns: {
+      belowBand: concerns.belowBand ? { severity: concerns.belowBand.severity, sinceMin: Math.floor(concerns.belowBand.sinceMin), nadir: concerns.belowBand.nadir } : null,
+      cannotVerify: concerns.cannotVerify ? { sinceMin: Math.floor(concerns.cannotVerify.sinceMin) } : null,
+      aboveOnOxygen: concerns.aboveOnOxygen ? { sinceMin: Math.floor(concerns.aboveOnOxygen.sinceMin) } : null,
+    },
+    escalation: bed.escalation, nurse: bed.nurse,
+    concern: { key: 'in_band', rank: 0, reason: '' }, sentence: '',
+  };
+  tile.concern = concernOf(tile);
+  tile.sentence = sentenceFor(tile);
+  return tile;
+}
+
+function latestOxygen(bed: BedInput): BoardTile['oxygen'] {
+  for (let i = bed.readings.length - 1; i >= 0; i--) {
+    const r = bed.readings[i]!;
+    if (r.fio2 !== null && r.fio2 !== undefined) return { fio2: r.fio2, fio2Estimated: Boolean(r.fio2Estimated), device: r.device ?? null };
+  }
+  if (bed.lastCharted) return { fio2: bed.lastCharted.fio2, fio2Estimated: bed.lastCharted.fio2Estimated, device: bed.lastCharted.device };
+  return { fio2: null, fio2Estimated: false, device: null };
+}
+
+export function stateWords(tile: Pick<BoardTile, 'state' | 'band' | 'latest'> & { onOxygen?: boolean }): string {
+  const since = tile.state.sinceMin === null ? '' : ` ${formatMinutes(tile.state.sinceMin)}`;
+  switch (tile.state.name) {
+    case 'below': return `below band${since}`;
+    case 'above': return `above band${since}`;
+    case 'in': return `in band${since}`;
+    case 'untrusted': return `poor trace${since}`;
+    case 'no_band': return 'no band ordered';
+    default: return 'no reading';
+  }
+}
+
+export function formatMinutes(min: number): string {
+  if (min < 60) return `${min} min`;
+  const h = Math.floor(min / 60);
+  const m = min % 60;
+  return m === 0 ? `${h} h` : `${h} h ${m} min`;
+}
+
+function concernOf(t: BoardTile): BoardTile['concern'] {
+  const rank = (key: ConcernKey) => CONCERN_ORDER.indexOf(key);
+  if (t.escalation && t.escalation.kind === 'below_band' && t.escalation.severity === 'urgent') {
+    return { key: 'urgent_escalation', rank: rank('urgent_escalation'), reason: `Urgent escalation ${t.escalation.state}` };
+  }
+  if (t.concerns.belowBand || t.state.name === 'below') {
+    const since = t.concerns.belowBand?.sinceMin ?? t.state.sinceMin;
+    return { key: 'below_band', rank: rank('below_band'), reason: `Below band${since === null ? '' : ` ${formatMinutes(since)}`}${t.concerns.belowBand?.severity === 'urgent' ? ' (urgent)' : ''}` };
+  }
+  if (t.concerns.cannotVerify) return { key: 'cannot_verify', rank: rank('cannot_verify'), reason: `Cannot verify: poor trace ${formatMinutes(t.concerns.cannotVerify.sinceMin)} — check the probe` };
+  if (!t.band) return { key: 'no_band', rank: rank('no_band'), reason: 'No band ordered' };
+  if (t.overdue) return { key: 'overdue', rank: rank('overdue'), reason: t.minutesSinceCharted === null ? 'No obs charted yet' : `Obs overdue: last charted ${formatMinutes(t.minutesSinceCharted)} ago` };
+  if (t.concerns.aboveOnOxygen) return { key: 'above_on_oxygen', rank: rank('above_on_oxygen'), reason: `Above band on O₂ ${formatMinutes(t.concerns.aboveOnOxygen.sinceMin)} — consider weaning` };
+  if (t.state.name === 'no_reading') return { key: 'no_reading', rank: rank('no_reading'), reason: 'No current reading' };
+  return { key: 'in_band', rank: rank('in_band'), reason: t.state.name === 'above' ? 'Above band' : t.state.name === 'untrusted' ? 'Poor trace' : 'In band' };
+}
+
+function sentenceFor(t: BoardTile): string {
+  if (!t.patient) return `Bed ${t.bedLabel}: empty.`;
+  const parts = [`Bed ${t.bedLabel}, patient ${t.patient.label}.`];
+  parts.push(t.band ? `Band ${t.band.low} to ${t.band.high} percent.` : 'No band ordered.');
+  if (t.latest?.spo2 !== null && t.latest?.spo2 !== undefined) parts.push(`Latest SpO₂ ${t.latest.spo2} percent, ${t.latest.trusted ? `${t.latest.trace} trace` : 'poor trace, not trusted'}.`);
+  parts.push(`${capitalise(stateWords(t))}.`);
+  parts.push(`Concern: ${t.concern.reason}.`);
+  if (t.minutesSinceCharted !== null) parts.push(`Last obs charted ${formatMinutes(t.minutesSinceCharted)} ago${t.overdue ? ', overdue' : ''}.`);
+  if (t.news2) parts.push(`NEWS2 ${t.news2.total}.`);
+  if (t.escalation) parts.push(`Escalation ${t.escalation.state}.`);
+  return parts.join(' ');
+}
+
+const capitalise = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
+/** Most concerning first; within a concern, the longest-standing first, then bed order. */
+export function sortTiles(tiles: BoardTile[]): BoardTile[] {
+  return tiles
+    .map((t, i) => ({ t, i }))
+    .sort((a, b) => a.t.concern.rank - b.t.concern.rank || (b.t.state.sinceMin ?? -1) - (a.t.state.sinceMin ?? -1) || a.i - b.i)
+    .map(({ t }) => t);
+}

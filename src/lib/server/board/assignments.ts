@@ -1,0 +1,32 @@
+/** The charge nurse assigns a nurse to a bed (or clears it); history is kept and audited. */
+import { ApiError } from '../http.ts';
+import { db } from '../queries/db.ts';
+import { writeAudit } from '../queries/audit.ts';
+import { activeNursesOfUnit, endAssignment, findActiveUser, insertAssignment, openAssignment } from '../queries/assignments.ts';
+import { findBed } from '../queries/patients.ts';
+import type { SessionUser } from '../queries/users.ts';
+
+export async function assignNurse(charge: SessionUser, bedId: number, nurseId: number | null, now = new Date()) {
+  const bed = await findBed(bedId);
+  if (!bed) throw new ApiError(404, 'not_found', 'No bed with that id.');
+  if (bed.unit_id !== charge.unitId) throw new ApiError(403, 'forbidden', `Bed ${bed.label} is not in your unit.`);
+  if (nurseId !== null) {
+    const nurse = await findActiveUser(nurseId);
+    if (!nurse || !['nurse', 'charge'].includes(nurse.role) || nurse.unit_id !== bed.unit_id) {
+      throw new ApiError(400, 'invalid_input', 'Choose an active nurse of this unit.', { nurseId: 'Not an active nurse of this unit' });
+    }
+  }
+  await db().transaction(async (trx) => {
+    const open = await openAssignment(trx, bedId);
+    if (open?.nurse_id === nurseId) return;
+    if (open) await endAssignment(trx, open.id, charge.id, now);
+    if (nurseId !== null) await insertAssignment(trx, { bed_id: bedId, nurse_id: nurseId, assigned_by: charge.id, assigned_at: now });
+    await writeAudit(trx, { actorId: charge.id, action: 'bed.assign', entity: 'bed', entityId: bedId, before: { nurseId: open?.nurse_id ?? null }, after: { nurseId }, at: now });
+  });
+  return { bedId, nurseId };
+}
+
+export async function unitNurses(charge: SessionUser) {
+  if (charge.unitId === null) return [];
+  return activeNursesOfUnit(charge.unitId);
+}

@@ -1,0 +1,74 @@
+/** GET /api/board: a unit's tiles in a fixed number of queries, whatever the bed count. */
+import { buildTile, sortTiles, type BedInput, type BoardTile } from '../../board/tiles.ts';
+import { patientLabel } from '../../patients/label.ts';
+import { settingsFromRow } from '../../units/settings.ts';
+import { ApiError } from '../http.ts';
+import { boardBeds, lastChartedPerPatient, recentReadings } from '../queries/board.ts';
+import { unitSettingsRow } from '../queries/unit-settings.ts';
+import type { SessionUser } from '../queries/users.ts';
+import { toReading } from '../charting/readings.ts';
+import { visibleUnits } from '../charting/patients.ts';
+import { openEscalationsByPatient } from './escalation-source.ts';
+
+/** Device readings: enough for the dwell, cannot-verify and above-on-oxygen windows and a state duration. */
+export const DEVICE_LOOKBACK_MIN = 60;
+/** Charted obs are hourly: look back far enough to see the last few in a row. */
+export const CHARTED_LOOKBACK_MIN = 6 * 60;
+
+export interface BoardResponse {
+  unit: { code: string; name: string; timeZone: string };
+  units: { code: string; name: string }[];
+  generatedAt: string;
+  settings: { overdueMin: number };
+  tiles: BoardTile[];
+}
+
+export async function unitBoard(user: SessionUser, unitCode: string | undefined, now = new Date()): Promise<BoardResponse> {
+  const units = await visibleUnits(user);
+  const unit = unitCode ? units.find((u) => u.code === unitCode) : units.find((u) => u.id === user.unitId) ?? units[0];
+  if (!unit) throw new ApiError(unitCode ? 403 : 404, unitCode ? 'forbidden' : 'not_found', unitCode ? `Unit ${unitCode} is not one you can see.` : 'No unit to show.');
+  const nowMs = now.getTime();
+
+  const [beds, settingsRow] = await Promise.all([boardBeds(unit.id), unitSettingsRow(unit.id)]);
+  const settings = settingsFromRow(settingsRow);
+  const patientIds = beds.flatMap((b) => (b.patient_id === null ? [] : [b.patient_id]));
+  const [readings, lastCharted, escalations] = await Promise.all([
+    recentReadings(patientIds, new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000)),
+    lastChartedPerPatient(patientIds),
+    openEscalationsByPatient(patientIds),
+  ]);
+
+  const readingsBy = new Map<number, ReturnType<typeof toReading>[]>();
+  for (const row of readings) {
+    let list = readingsBy.get(row.patient_id);
+    if (!list) readingsBy.set(row.patient_id, (list = []));
+    list.push(toReading(row));
+  }
+  const lastBy = new Map(lastCharted.map((r) => [r.patient_id, r]));
+
+  const tiles = beds.map((b) => {
+    const last = b.patient_id === null ? undefined : lastBy.get(b.patient_id);
+    const input: BedInput = {
+      bedId: b.bed_id, bedLabel: b.bed_label,
+      patient: b.patient_id === null ? null : { id: b.patient_id, label: patientLabel(b.given_name!, b.family_name!, b.mrn!), co2RetentionRisk: Boolean(b.co2_retention_risk) },
+      band: b.band_low === null ? null : { low: b.band_low, high: b.band_high!, news2Scale: Number(b.news2_scale) as 1 | 2, orderedAt: new Date(b.ordered_at!).getTime() },
+      readings: b.patient_id === null ? [] : readingsBy.get(b.patient_id) ?? [],
+      lastCharted: last ? {
+        at: new Date(last.taken_at).getTime(), spo2: last.spo2, heartRate: last.heart_rate, respRate: last.resp_rate,
+        fio2: last.fio2 === null ? null : Number(last.fio2), fio2Estimated: Boolean(last.fio2_estimated), device: (last.device as never) ?? null,
+        systolic: last.systolic, temperature: last.temperature === null ? null : Number(last.temperature), consciousness: last.consciousness,
+      } : null,
+      escalation: b.patient_id === null ? null : escalations.get(b.patient_id) ?? null,
+      nurse: b.nurse_id === null ? null : { id: b.nurse_id, name: b.nurse_name! },
+    };
+    return buildTile(input, nowMs, settings);
+  });
+
+  return {
+    unit: { code: unit.code, name: unit.name, timeZone: unit.time_zone },
+    units: units.map((u) => ({ code: u.code, name: u.name })),
+    generatedAt: now.toISOString(),
+    settings: { overdueMin: settings.overdueMin },
+    tiles: sortTiles(tiles),
+  };
+}

@@ -1,0 +1,31 @@
+/** A unit's settings as the app uses them; the defaults apply to a unit no admin has configured yet. */
+import { DEFAULT_ESCALATION_SETTINGS } from '../oxygenation/settings.ts';
+import type { BoardSettings } from '../board/tiles.ts';
+
+export interface UnitSettings extends BoardSettings {
+  renotifyMin: number;
+  outreachEmails: string[];
+}
+
+export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
+  ...DEFAULT_ESCALATION_SETTINGS,
+  overdueMin: 75,
+  renotifyMin: 15,
+  outreachEmails: [],
+};
+
+export interface UnitSettingsColumns {
+  consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
+  cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
+}
+
+export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
+  if (!row) return DEFAULT_UNIT_SETTINGS;
+  return {
+    ...DEFAULT_UNIT_SETTINGS,
+    consecutiveCharted: row.consecutive_charted, deviceDwellMin: row.device_dwell_min, urgentMarginPoints: row.urgent_margin_points,
+    urgentFloorPct: row.urgent_floor_pct, cannotVerifyMin: row.cannot_verify_min, aboveOnOxygenMin: row.above_on_oxygen_min,
+    renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
+    outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
+  };
+}

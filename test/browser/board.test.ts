@@ -1,0 +1,58 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { APP_URL, signedIn } from '../support/app.ts';
+import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { testDb } from '../support/db.ts';
+
+let browser: Browser;
+beforeAll(async () => { browser = await launchBrowser(); });
+afterAll(async () => { await browser?.close(); });
+
+describe('ward board in a real browser', () => {
+  it('shows the charge nurse the below-band bed first with its duration, follows new readings and says when data is stale', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, 'charge@harbourside.example');
+    await page.goto(`${APP_URL}/board`);
+
+    // Server-rendered first paint: tiles are there before any polling.
+    const first = page.getByTestId('board-tiles').locator('li').first();
+    expect(await first.getAttribute('data-concern')).toBe('below_band');
+    expect(await first.getAttribute('data-testid')).toBe('tile-4-01');
+    expect(await first.getByTestId('tile-reason').textContent()).toMatch(/^Below band \d+ (min|h)/);
+    expect(await first.getByTestId('tile-state').textContent()).toMatch(/^below band \d+/);
+    expect(await first.getByTestId('tile-sentence').textContent()).toContain('Bed 4-01');
+
+    // A reading posted through the API shows up without a reload.
+    const db = testDb();
+    const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-06').whereNull('s.ended_at').first('s.patient_id');
+    await db.destroy();
+    const nurse = await signedIn('nurse@harbourside.example');
+    const res = await nurse.post(`/api/patients/${stay.patient_id}/observations`, {
+      takenAt: new Date().toISOString(), spo2: 91, heartRate: 84, respRate: 16, device: 'room_air', trace: 'clean', systolic: 122, temperature: 36.9, consciousness: 'alert',
+    });
+    expect(res.status).toBe(201);
+    const tile = page.getByTestId('tile-4-06');
+    await page.waitForFunction(() => document.querySelector('[data-testid="tile-4-06"] [data-testid="tile-spo2"]')?.textContent?.startsWith('91'), null, { timeout: 30_000 });
+    expect(await tile.getAttribute('data-state')).toBe('below');
+
+    // The API stops answering: the last data stays, with a stale banner; it recovers on its own.
+    await page.route('**/api/board**', (route) => route.abort('connectionrefused'));
+    await page.getByTestId('stale-banner').waitFor({ state: 'visible', timeout: 40_000 });
+    expect(await page.getByTestId('tile-4-01').count()).toBe(1);
+    await page.unroute('**/api/board**');
+    await page.getByTestId('stale-banner').waitFor({ state: 'detached', timeout: 40_000 });
+    await context.close();
+  });
+
+  it('lets a nurse filter to their own beds', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, 'nurse@harbourside.example');
+    await page.goto(`${APP_URL}/board`);
+    await page.getByTestId('my-beds').check();
+    const labels = await page.getByTestId('board-tiles').locator('li').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
+    expect(labels.sort()).toEqual(['tile-4-01', 'tile-4-02', 'tile-4-03']);
+    await context.close();
+  });
+});

@@ -7,10 +7,12 @@ import { CLINICAL_ROLES, type Role } from './roles.ts';
 const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
   { prefix: '/admin', roles: ['admin'] },
   { prefix: '/patients', roles: CLINICAL_ROLES },
+  { prefix: '/pleth', roles: CLINICAL_ROLES },
   { prefix: '/board', roles: CLINICAL_ROLES },
 ];
 
-export const PUBLIC_PATHS = ['/signin', '/api/health', '/api/theme', '/forbidden'];
+// /api/ingest is authenticated by the device key in the endpoint, not by a session.
+export const PUBLIC_PATHS = ['/signin', '/api/health', '/api/theme', '/forbidden', '/api/ingest'];
 
 export function isPublicPath(path: string): boolean {
   return PUBLIC_PATHS.includes(path) || path.startsWith('/api/auth/') || path.startsWith('/_astro/') || path === '/favicon.svg';

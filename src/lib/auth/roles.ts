@@ -24,7 +24,9 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/board', label: 'Ward board', roles: CLINICAL_ROLES },
   { href: '/', label: 'Units', roles: CLINICAL_ROLES },
   { href: '/patients', label: 'Patients', roles: CLINICAL_ROLES },
+  { href: '/pleth', label: 'Strip check', roles: CLINICAL_ROLES },
   { href: '/admin/users', label: 'Users', roles: ['admin'] },
+  { href: '/admin/devices', label: 'Device keys', roles: ['admin'] },
 ];
 
 export function navFor(role: Role): NavItem[] {

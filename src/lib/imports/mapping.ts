@@ -4,6 +4,9 @@
  */
 import { z } from 'zod';
 
+/** A day of one-per-second readings with every column fits well inside this. */
+export const MAX_TREND_FILE_BYTES = 20 * 1024 * 1024;
+
 export const TIME_MODES = ['iso', 'local'] as const;
 export type TimeMode = (typeof TIME_MODES)[number];
 

@@ -9,7 +9,7 @@ import { detectDelimiter, type TrendMapping } from './mapping.ts';
 import { READING_LIMITS, defaultTrace } from './reading.ts';
 import { parseTimeText } from './time-text.ts';
 
-export const MAX_TREND_FILE_BYTES = 20 * 1024 * 1024;
+export { MAX_TREND_FILE_BYTES } from './mapping.ts';
 export const MAX_TREND_ROWS = 200_000;
 
 export interface TrendRow { line: number; at: number; spo2: number | null; heartRate: number | null; perfusionIndex: number | null; trace: TraceQuality }

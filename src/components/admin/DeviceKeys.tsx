@@ -1,0 +1,104 @@
+import { useState } from 'react';
+import useSWR from 'swr';
+import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import type { DeviceKeyView } from '../../lib/server/devices/keys.ts';
+
+interface ListResponse { keys: DeviceKeyView[]; beds: { id: number; label: string; unitCode: string; unitName: string }[] }
+
+const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB') : '—');
+
+/** Admin: device keys for bedside-monitor gateways (one bed each); a new key is shown once. */
+export default function DeviceKeys() {
+  const { data, error, mutate } = useSWR<ListResponse>('/api/admin/device-keys', fetchJson);
+  const [bedId, setBedId] = useState('');
+  const [label, setLabel] = useState('');
+  const [fresh, setFresh] = useState<{ key: string; label: string; bed: string } | null>(null);
+  const [message, setMessage] = useState<string | null>(null);
+  const [revoking, setRevoking] = useState<number | null>(null);
+  const [reason, setReason] = useState('');
+  if (error) return <p role="alert">Could not load device keys: {String((error as Error).message)}</p>;
+  if (!data) return <p>Loading device keys…</p>;
+
+  const units = [...new Set(data.beds.map((b) => b.unitName))];
+
+  async function create(e: React.FormEvent) {
+    e.preventDefault();
+    setMessage(null);
+    try {
+      const res = await postJson<{ key: string; deviceKey: DeviceKeyView }>('/api/admin/device-keys', { bedId: Number(bedId), label });
+      setFresh({ key: res.key, label: res.deviceKey.label, bed: res.deviceKey.bed.label });
+      setLabel('');
+      await mutate();
+    } catch (err) {
+      setMessage((err as Error).message);
+    }
+  }
+
+  async function revoke(id: number) {
+    try {
+      await postJson(`/api/admin/device-keys/${id}/revoke`, { reason });
+      setRevoking(null);
+      setReason('');
+      setMessage(`Key ${id} revoked: its gateway is refused from now on.`);
+      await mutate();
+    } catch (err) {
+      setMessage((err as Error).message);
+    }
+  }
+
+  return (
+    <div className="space-y-4">
+      <form className="flex flex-wrap items-end gap-3" onSubmit={create}>
+        <label className="text-sm font-bold">Bed
+          <select className="field mt-1" value={bedId} onChange={(e) => setBedId(e.target.value)} required>
+            <option value="">choose…</option>
+            {units.map((u) => (
+              <optgroup key={u} label={u}>{data.beds.filter((b) => b.unitName === u).map((b) => <option key={b.id} value={b.id}>{b.label}</option>)}</optgroup>
+            ))}
+          </select>
+        </label>
+        <label className="text-sm font-bold">Gateway or monitor
+          <input className="field mt-1 w-64" value={label} onChange={(e) => setLabel(e.target.value)} required minLength={2} maxLength={80} placeholder="e.g. bay 2 gateway, east wall" />
+        </label>
+        <button type="submit" className="btn-primary">Create key</button>
+      </form>
+
+      {fresh && (
+        <div role="status" className="rounded-md border-2 border-glass-500 bg-glass-50 p-3 dark:bg-glass-900/40">
+          <p className="font-bold">New key for bed {fresh.bed} ({fresh.label}). It is shown this once: put it in the gateway now.</p>
+          <code className="mt-1 block break-all rounded bg-white p-2 font-mono text-sm dark:bg-ink-950" data-testid="new-device-key">{fresh.key}</code>
+          <div className="mt-2 flex gap-2">
+            <button type="button" className="btn-quiet" onClick={() => navigator.clipboard?.writeText(fresh.key)}>Copy</button>
+            <button type="button" className="btn-quiet" onClick={() => setFresh(null)}>Done, hide it</button>
+          </div>
+        </div>
+      )}
+      {message && <p role="status" className="text-sm">{message}</p>}
+
+      <table className="w-full text-sm" data-testid="device-key-table">
+        <thead><tr className="text-left text-ink-500"><th className="py-1">Key</th><th>Bed</th><th>Gateway</th><th>Created</th><th>Last used</th><th>State</th><th /></tr></thead>
+        <tbody>
+          {data.keys.map((k) => (
+            <tr key={k.id} className="border-t border-ink-100 align-top dark:border-ink-800">
+              <td className="py-1.5 font-mono">{k.prefix}…</td>
+              <td>{k.bed.label} <span className="text-ink-500">{k.bed.unitCode}</span></td>
+              <td>{k.label}</td>
+              <td>{when(k.createdAt)}{k.createdBy ? ` by ${k.createdBy}` : ''}</td>
+              <td>{when(k.lastUsedAt)}</td>
+              <td>{k.revokedAt ? <span>revoked {when(k.revokedAt)}{k.revokedBy ? ` by ${k.revokedBy}` : ''}: {k.revokeReason}</span> : 'live'}</td>
+              <td>
+                {!k.revokedAt && revoking !== k.id && <button type="button" className="btn-quiet" onClick={() => { setRevoking(k.id); setReason(''); }}>Revoke</button>}
+                {revoking === k.id && (
+                  <form className="flex flex-col gap-1" onSubmit={(e) => { e.preventDefault(); void revoke(k.id); }}>
+                    <input className="field" aria-label="Reason" placeholder="reason" value={reason} onChange={(e) => setReason(e.target.value)} required minLength={3} maxLength={200} />
+                    <span className="flex gap-1"><button type="submit" className="btn-primary">Revoke key</button><button type="button" className="btn-quiet" onClick={() => setRevoking(null)}>Keep</button></span>
+                  </form>
+                )}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,80 @@
+/**
+ * Device keys: a gateway's credential for one bed. The key is shown once at creation; only its
+ * SHA-256 is stored. Creation and revocation are audited in their transaction.
+ */
+import { createHash, randomBytes } from 'node:crypto';
+import { ApiError } from '../http.ts';
+import { db } from '../queries/db.ts';
+import { writeAudit } from '../queries/audit.ts';
+import { findBed } from '../queries/patients.ts';
+import {
+  activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, type DeviceKeyListRow,
+} from '../queries/devices.ts';
+
+const KEY_PREFIX = 'ebw_';
+
+export interface DeviceKeyView {
+  id: number; label: string; prefix: string; bed: { id: number; label: string; unitCode: string; unitName: string };
+  createdAt: string; createdBy: string | null; lastUsedAt: string | null;
+  revokedAt: string | null; revokedBy: string | null; revokeReason: string | null;
+}
+
+const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+
+export function keyView(r: DeviceKeyListRow): DeviceKeyView {
+  return {
+    id: r.id, label: r.label, prefix: r.key_prefix, bed: { id: r.bed_id, label: r.bed_label, unitCode: r.unit_code, unitName: r.unit_name },
+    createdAt: iso(r.created_at)!, createdBy: r.created_by_name, lastUsedAt: iso(r.last_used_at),
+    revokedAt: iso(r.revoked_at), revokedBy: r.revoked_by_name, revokeReason: r.revoke_reason,
+  };
+}
+
+export function hashDeviceKey(key: string): string {
+  return createHash('sha256').update(key, 'utf8').digest('hex');
+}
+
+/** 256 random bits; the prefix names the key in lists without making it usable. */
+export function newDeviceKey(): { key: string; hash: string; prefix: string } {
+  const key = KEY_PREFIX + randomBytes(32).toString('base64url');
+  return { key, hash: hashDeviceKey(key), prefix: key.slice(0, KEY_PREFIX.length + 6) };
+}
+
+export async function listKeys() {
+  const [keys, beds] = await Promise.all([listDeviceKeys(), activeBeds()]);
+  return { keys: keys.map(keyView), beds: beds.map((b) => ({ id: b.id, label: b.label, unitCode: b.unit_code, unitName: b.unit_name })) };
+}
+
+/** Returns the key itself once; it cannot be read again. `actorId` is null for the demo feeder. */
+export async function createDeviceKey(actorId: number | null, input: { bedId: number; label: string }, now = new Date()): Promise<{ key: string; deviceKey: DeviceKeyView }> {
+  const bed = await findBed(input.bedId);
+  if (!bed || !bed.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  const { key, hash, prefix } = newDeviceKey();
+  const id = await db().transaction(async (trx) => {
+    const keyId = await insertDeviceKey(trx, { bed_id: bed.id, label: input.label, key_hash: hash, key_prefix: prefix, created_by: actorId, created_at: now });
+    await writeAudit(trx, { actorId, action: 'device_key.create', entity: 'device_key', entityId: keyId, after: { bedId: bed.id, bedLabel: bed.label, label: input.label, prefix }, at: now });
+    return keyId;
+  });
+  return { key, deviceKey: keyView((await findDeviceKeyListRow(id))!) };
+}
+
+export async function revokeKey(actorId: number | null, id: number, reason: string, now = new Date()): Promise<DeviceKeyView> {
+  await db().transaction(async (trx) => {
+    const key = await lockDeviceKey(trx, id);
+    if (!key) throw new ApiError(404, 'not_found', 'No device key with that id.');
+    if (key.revoked_at) throw new ApiError(409, 'already_revoked', 'This key was already revoked.');
+    await revokeDeviceKey(trx, id, { revoked_at: now, revoked_by: actorId, revoke_reason: reason });
+    await writeAudit(trx, { actorId, action: 'device_key.revoke', entity: 'device_key', entityId: id, before: { revokedAt: null }, after: { revokedAt: now.toISOString(), reason }, at: now });
+  });
+  return keyView((await findDeviceKeyListRow(id))!);
+}
+
+/** The key behind an `Authorization: Bearer …` header, or 401/403. */
+export async function authenticateDeviceKey(authorization: string | null) {
+  const m = /^Bearer\s+(\S+)\s*$/i.exec(authorization ?? '');
+  if (!m) throw new ApiError(401, 'device_key_required', 'Send the device key as "Authorization: Bearer <key>".');
+  const key = await findKeyByHash(hashDeviceKey(m[1]!));
+  if (!key) throw new ApiError(401, 'invalid_device_key', 'This device key is not known.');
+  if (key.revoked_at) throw new ApiError(401, 'device_key_revoked', 'This device key was revoked; ask an administrator for a new one.');
+  if (!key.bed_active) throw new ApiError(403, 'bed_inactive', `Bed ${key.bed_label} is no longer in use.`);
+  return key;
+}

@@ -1,0 +1,11 @@
+import { idParam } from '../../../../../lib/charting/patient-input.ts';
+import { endpoint, json, parseParams, requireRole } from '../../../../../lib/server/http.ts';
+import { commitTrend } from '../../../../../lib/server/imports/trend.ts';
+import { readTrendUpload } from './_upload.ts';
+
+export const POST = endpoint(async ({ locals, params, request, url }) => {
+  const user = requireRole(locals, ['nurse', 'charge']);
+  const { id } = parseParams(params, idParam);
+  const { mapping, file, expectHash } = await readTrendUpload(request, url);
+  return json(await commitTrend(user, id, file, mapping, expectHash), 201);
+});

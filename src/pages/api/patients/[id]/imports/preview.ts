@@ -1,0 +1,12 @@
+import { idParam } from '../../../../../lib/charting/patient-input.ts';
+import { endpoint, json, parseParams, requireRole } from '../../../../../lib/server/http.ts';
+import { previewTrend } from '../../../../../lib/server/imports/trend.ts';
+import { readTrendUpload } from './_upload.ts';
+
+// Nothing is stored: the answer says what a commit of this file would store, skip and refuse.
+export const POST = endpoint(async ({ locals, params, request, url }) => {
+  const user = requireRole(locals, ['nurse', 'charge']);
+  const { id } = parseParams(params, idParam);
+  const { mapping, file } = await readTrendUpload(request, url);
+  return json({ preview: await previewTrend(user, id, file, mapping) });
+});

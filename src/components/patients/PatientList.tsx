@@ -1,4 +1,4 @@
-import { useState, type FormEvent } from 'react';
+import { useState, type FormEvent, type ReactElement } from 'react';
 import useSWR from 'swr';
 import type { PatientSummary } from '../../lib/charting/api-types.ts';
 import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
@@ -85,7 +85,7 @@ function AdmitForm({ freeBeds, onDone }: { freeBeds: { id: number; label: string
     }
   }
 
-  const field = (name: string, label: string, input: JSX.Element) => (
+  const field = (name: string, label: string, input: ReactElement) => (
     <label className="block">
       <span className="mb-1 block font-bold">{label}</span>
       {input}

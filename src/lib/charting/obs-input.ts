@@ -80,15 +80,18 @@ export const obsFieldsSchema = z.object({
 
 export type ObsFields = z.output<typeof obsFieldsSchema>;
 
+/** A correction keeps the original's time, which may be older than the back-dating limit for new obs. */
+export const CORRECTION_MAX_AGE_HOURS = 14 * 24;
+
 /** Rules across fields and against the clock, shared by new obs and corrections. */
-export function obsInputSchema(now: Date) {
+export function obsInputSchema(now: Date, maxBackdateHours = MAX_BACKDATE_HOURS) {
   return obsFieldsSchema.superRefine((o, ctx) => {
     const t = o.takenAt.getTime();
     if (t > now.getTime() + FUTURE_SLACK_MS) {
       ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['takenAt'], message: 'Time taken cannot be in the future' });
     }
-    if (t < now.getTime() - MAX_BACKDATE_HOURS * 3_600_000) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['takenAt'], message: `Obs can be back-dated by ${MAX_BACKDATE_HOURS} hours at most` });
+    if (t < now.getTime() - maxBackdateHours * 3_600_000) {
+      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['takenAt'], message: maxBackdateHours === MAX_BACKDATE_HOURS ? `Obs can be back-dated by ${MAX_BACKDATE_HOURS} hours at most` : `A correction can reach back ${maxBackdateHours / 24} days at most` });
     }
     if (o.spo2 === undefined && o.trace !== 'absent') {
       ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['spo2'], message: 'Enter SpO₂, or set the trace to "absent" if there is no reading' });
@@ -122,7 +125,7 @@ export function obsNotices(o: Pick<ObsFields, 'spo2'>): string[] {
 export const correctionSchema = (now: Date) =>
   z.object({
     reason: z.string({ required_error: 'Give the reason for the correction' }).trim().min(3, 'Give the reason for the correction').max(500),
-    obs: obsInputSchema(now),
+    obs: obsInputSchema(now, CORRECTION_MAX_AGE_HOURS),
   });
 
 export const enteredInErrorSchema = z.object({

@@ -1,0 +1,301 @@
+/**
+ * The obs record: newest first, 20 a page. Nothing is hidden: a corrected or entered-in-error
+ * row stays, struck through, with who, when and why, and a corrected row links to the row that
+ * replaced it. Current charted rows can be corrected (the entry form, prefilled, with a reason)
+ * or marked entered in error (with a reason) by those who may chart.
+ */
+import { useId, useState, type FormEvent, type ReactNode } from 'react';
+import useSWR from 'swr';
+import type { ObsPage, ObsView, OrderView } from '../../lib/charting/api-types.ts';
+import { CONSCIOUSNESS_LABELS, DEVICE_LABELS, enteredInErrorSchema } from '../../lib/charting/obs-input.ts';
+import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import { isTrusted } from '../../lib/oxygenation/trust.ts';
+import ObsEntryForm from './ObsEntryForm.tsx';
+import {
+  OBS_PAGE_SIZE,
+  POLL_MS,
+  StateBadge,
+  StateIcon,
+  TRACE_WORDS,
+  bandStateOf,
+  chartKeys,
+  errorText,
+  fmtFio2,
+  fmtNum,
+  formatDateTime,
+  orderAt,
+  useRefreshChart,
+} from './chart-shared.tsx';
+
+export interface ObsRecordTableProps {
+  patientId: number;
+  timeZone: string;
+  /** May the signed-in user correct and mark entries (from `patient.can.chart`)? */
+  canChart: boolean;
+  /** Every order, newest first: each SpO₂ is judged against the band in force when taken. */
+  orders?: OrderView[];
+  lastCharted?: ObsView | null;
+  pageSize?: number;
+}
+
+const SOURCE_WORDS: Record<string, string> = { charted: 'charted', device: 'monitor', import: 'imported' };
+
+export function obsTrusted(o: ObsView): boolean {
+  try {
+    return isTrusted({ at: Date.parse(o.takenAt), spo2: o.spo2, trace: o.trace, perfusionIndex: o.perfusionIndex, source: o.source });
+  } catch {
+    return false;
+  }
+}
+
+type Action = { kind: 'correct' | 'error'; obs: ObsView } | null;
+
+export default function ObsRecordTable({ patientId, timeZone, canChart, orders = [], lastCharted = null, pageSize = OBS_PAGE_SIZE }: ObsRecordTableProps) {
+  const [page, setPage] = useState(1);
+  const [action, setAction] = useState<Action>(null);
+  const [message, setMessage] = useState('');
+  const refresh = useRefreshChart(patientId);
+  const key = chartKeys(patientId).observations(page, pageSize);
+  const { data, error, isLoading } = useSWR<ObsPage>(key, fetchJson, { refreshInterval: POLL_MS, keepPreviousData: true });
+
+  const total = data?.total ?? 0;
+  const pages = Math.max(1, Math.ceil(total / pageSize));
+  const items = data?.items ?? [];
+  const onPage = new Set(items.map((o) => o.id));
+  const columns = 12;
+
+  const done = (words: string) => {
+    setAction(null);
+    setMessage(words);
+    void refresh();
+  };
+
+  return (
+    <section aria-labelledby="obs-record-title" data-testid="obs-record">
+      <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
+        <h2 id="obs-record-title" className="text-lg font-bold">Obs record</h2>
+        <p className="text-sm text-ink-500 dark:text-ink-400">Newest first · corrected and entered-in-error rows stay, struck through</p>
+      </div>
+      <p role="status" aria-live="polite" className="mb-1 text-sm font-bold text-glass-700 dark:text-glass-300">{message}</p>
+      {error && (
+        <p role="alert" className="mb-2 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200">
+          Could not load the obs record{data ? ' — showing what was loaded before' : ''}: {errorText(error)}
+        </p>
+      )}
+      {!data && isLoading && <p>Loading obs…</p>}
+      {data && (
+        <div className="overflow-x-auto">
+          <table className="w-full min-w-[60rem] border-collapse text-sm">
+            <caption className="sr-only">Obs record, newest first, page {data.page} of {pages}</caption>
+            <thead>
+              <tr className="border-b border-ink-200 text-left text-xs uppercase tracking-wide text-ink-500 dark:border-ink-700 dark:text-ink-400">
+                <th scope="col" className="py-1 pr-2">Time</th>
+                <th scope="col" className="pr-2">Source</th>
+                <th scope="col" className="pr-2">SpO₂</th>
+                <th scope="col" className="pr-2">HR</th>
+                <th scope="col" className="pr-2">RR</th>
+                <th scope="col" className="pr-2">FiO₂</th>
+                <th scope="col" className="pr-2">Device</th>
+                <th scope="col" className="pr-2">Systolic BP</th>
+                <th scope="col" className="pr-2">Temp</th>
+                <th scope="col" className="pr-2">Consciousness</th>
+                <th scope="col" className="pr-2">Who</th>
+                <th scope="col">Status</th>
+              </tr>
+            </thead>
+            <tbody>
+              {items.length === 0 && (
+                <tr><td colSpan={columns} className="py-3 text-ink-500">No obs charted yet.</td></tr>
+              )}
+              {items.map((o) => (
+                <ObsRow
+                  key={o.id}
+                  o={o}
+                  timeZone={timeZone}
+                  orders={orders}
+                  columns={columns}
+                  linkable={onPage}
+                  canAct={canChart && o.status === 'current' && o.source === 'charted'}
+                  action={action?.obs.id === o.id ? action.kind : null}
+                  onAction={(kind) => { setMessage(''); setAction(kind ? { kind, obs: o } : null); }}
+                  expanded={
+                    action?.obs.id === o.id ? (
+                      action.kind === 'correct' ? (
+                        <ObsEntryForm
+                          patientId={patientId}
+                          lastCharted={lastCharted}
+                          timeZone={timeZone}
+                          correcting={o}
+                          onSaved={() => done('Correction saved; the original stays, struck through')}
+                          onCancel={() => setAction(null)}
+                        />
+                      ) : (
+                        <EnteredInErrorForm obs={o} timeZone={timeZone} onDone={() => done('Marked entered in error')} onCancel={() => setAction(null)} />
+                      )
+                    ) : null
+                  }
+                />
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+      <nav aria-label="Obs record pages" className="mt-2 flex items-center gap-3 text-sm">
+        <button type="button" className="btn-quiet" disabled={page <= 1} onClick={() => setPage((p) => Math.max(1, p - 1))}>Previous</button>
+        <span>Page {page} of {pages} · {total} obs</span>
+        <button type="button" className="btn-quiet" disabled={page >= pages} onClick={() => setPage((p) => p + 1)}>Next</button>
+      </nav>
+    </section>
+  );
+}
+
+interface RowProps {
+  o: ObsView; timeZone: string; orders: OrderView[]; columns: number; linkable: Set<number>;
+  canAct: boolean; action: 'correct' | 'error' | null; onAction: (kind: 'correct' | 'error' | null) => void; expanded: ReactNode;
+}
+
+function ObsRow({ o, timeZone, orders, columns, linkable, canAct, action, onAction, expanded }: RowProps) {
+  const struck = o.status !== 'current';
+  const trusted = obsTrusted(o);
+  const band = orderAt(orders, o.takenAt);
+  const state = bandStateOf(o.spo2, trusted, band);
+  const cell = (content: ReactNode) => (struck ? <s>{content}</s> : content);
+  const tone = struck ? 'text-ink-500 line-through decoration-2 dark:text-ink-400' : '';
+
+  return (
+    <>
+      <tr id={`obs-${o.id}`} data-status={o.status} className={`border-b border-ink-100 align-top dark:border-ink-800 ${struck ? 'bg-ink-50 dark:bg-ink-950/40' : ''}`}>
+        <td className={`py-1.5 pr-2 whitespace-nowrap ${tone}`}>{cell(formatDateTime(o.takenAt, timeZone))}</td>
+        <td className={`pr-2 ${tone}`}>{cell(SOURCE_WORDS[o.source] ?? o.source)}</td>
+        <td className={`pr-2 ${tone}`}>
+          {cell(
+            <span className="inline-flex flex-col">
+              <span className="font-bold">{o.spo2 === null ? '—' : `${o.spo2} %`}</span>
+              {!struck && o.spo2 !== null && state !== 'untrusted' && state !== 'no_band' && <StateBadge state={state} className="text-xs" />}
+              {!trusted ? (
+                <span className="inline-flex items-center gap-1 text-xs font-bold" data-untrusted="true">
+                  <StateIcon state="untrusted" className="h-3 w-3" />
+                  untrusted · {TRACE_WORDS[o.trace] ?? o.trace}
+                </span>
+              ) : (
+                <span className="text-xs">{TRACE_WORDS[o.trace] ?? o.trace}</span>
+              )}
+              {o.notices.map((n) => <span key={n} className="text-xs text-amberline-700 dark:text-amberline-400">{n}</span>)}
+            </span>,
+          )}
+        </td>
+        <td className={`pr-2 ${tone}`}>{cell(fmtNum(o.heartRate))}</td>
+        <td className={`pr-2 ${tone}`}>{cell(fmtNum(o.respRate))}</td>
+        <td className={`pr-2 whitespace-nowrap ${tone}`}>{cell(o.fio2 === null ? '—' : `${fmtFio2(o.fio2)}${o.fio2Estimated ? ' est.' : ''}`)}</td>
+        <td className={`pr-2 ${tone}`}>
+          {cell(o.device ? `${DEVICE_LABELS[o.device]}${o.flowLpm !== null ? ` ${o.flowLpm} L/min` : ''}` : '—')}
+        </td>
+        <td className={`pr-2 ${tone}`}>{cell(fmtNum(o.systolic))}</td>
+        <td className={`pr-2 ${tone}`}>{cell(o.temperature === null ? '—' : o.temperature.toFixed(1))}</td>
+        <td className={`pr-2 ${tone}`}>{cell(o.consciousness ? CONSCIOUSNESS_LABELS[o.consciousness] : '—')}</td>
+        <td className={`pr-2 ${tone}`}>{cell(o.recordedBy ?? '—')}</td>
+        <td className="min-w-[14rem] text-xs">
+          <StatusWords o={o} timeZone={timeZone} linkable={linkable} />
+          {o.note && <p className="mt-0.5 italic">Note: {o.note}</p>}
+          {canAct && (
+            <div className="mt-1 flex flex-wrap gap-1">
+              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" aria-expanded={action === 'correct'} onClick={() => onAction(action === 'correct' ? null : 'correct')}>
+                Correct<span className="sr-only"> obs of {formatDateTime(o.takenAt, timeZone)}</span>
+              </button>
+              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" aria-expanded={action === 'error'} onClick={() => onAction(action === 'error' ? null : 'error')}>
+                Entered in error<span className="sr-only">: obs of {formatDateTime(o.takenAt, timeZone)}</span>
+              </button>
+            </div>
+          )}
+        </td>
+      </tr>
+      {expanded && (
+        <tr className="border-b border-ink-200 dark:border-ink-700">
+          <td colSpan={columns} className="bg-ink-50 p-3 dark:bg-ink-950/40">{expanded}</td>
+        </tr>
+      )}
+    </>
+  );
+}
+
+function StatusWords({ o, timeZone, linkable }: { o: ObsView; timeZone: string; linkable: Set<number> }) {
+  const byWhen = `${o.statusBy ? ` by ${o.statusBy}` : ''}${o.statusAt ? `, ${formatDateTime(o.statusAt, timeZone)}` : ''}`;
+  const link = (id: number, words: string) =>
+    linkable.has(id) ? <a className="underline" href={`#obs-${id}`}>{words}</a> : <span>{words} (on another page)</span>;
+  if (o.status === 'superseded') {
+    return (
+      <p data-testid={`status-${o.id}`}>
+        <strong>Corrected</strong>{byWhen}
+        {o.statusReason && <> — why: “{o.statusReason}”</>}
+        {o.replacedById !== null && <>. {link(o.replacedById, 'See the correcting row')}</>}
+      </p>
+    );
+  }
+  if (o.status === 'entered_in_error') {
+    return (
+      <p data-testid={`status-${o.id}`}>
+        <strong>Entered in error</strong>{byWhen}
+        {o.statusReason && <> — why: “{o.statusReason}”</>}
+      </p>
+    );
+  }
+  return (
+    <p data-testid={`status-${o.id}`}>
+      Current
+      {o.replacesId !== null && <> · {link(o.replacesId, 'corrects an earlier row')}</>}
+    </p>
+  );
+}
+
+function EnteredInErrorForm({ obs, timeZone, onDone, onCancel }: { obs: ObsView; timeZone: string; onDone: () => void; onCancel: () => void }) {
+  const uid = useId();
+  const [reason, setReason] = useState('');
+  const [fieldError, setFieldError] = useState<string | null>(null);
+  const [formError, setFormError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+
+  async function submit(e: FormEvent) {
+    e.preventDefault();
+    if (busy) return;
+    setFormError(null);
+    const parsed = enteredInErrorSchema.safeParse({ reason });
+    if (!parsed.success) {
+      setFieldError(parsed.error.issues[0]?.message ?? 'Give the reason this entry is in error');
+      return;
+    }
+    setFieldError(null);
+    setBusy(true);
+    try {
+      await postJson(`/api/observations/${obs.id}/entered-in-error`, parsed.data);
+      onDone();
+    } catch (err) {
+      if (err instanceof ApiClientError && err.fields.reason) setFieldError(err.fields.reason);
+      setFormError(`Not saved: ${errorText(err)}`);
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  return (
+    <form onSubmit={submit} noValidate aria-label={`Mark obs of ${formatDateTime(obs.takenAt, timeZone)} entered in error`} className="max-w-xl">
+      <p className="mb-2 text-sm">The entry stays in the record, struck through, with your name and reason.</p>
+      <label htmlFor={`${uid}-reason`} className="mb-0.5 block text-sm font-bold">Reason this entry is in error</label>
+      <input
+        id={`${uid}-reason`}
+        className="field"
+        value={reason}
+        autoComplete="off"
+        autoFocus
+        aria-invalid={fieldError ? true : undefined}
+        aria-describedby={fieldError ? `${uid}-reason-error` : undefined}
+        onChange={(e) => setReason(e.target.value)}
+      />
+      {fieldError && <p id={`${uid}-reason-error`} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300">{fieldError}</p>}
+      {formError && <p role="alert" className="mt-1 text-sm text-coral-800 dark:text-coral-200">{formError}</p>}
+      <div className="mt-2 flex gap-2">
+        <button type="submit" className="btn-primary" disabled={busy}>Mark entered in error</button>
+        <button type="button" className="btn-quiet" onClick={onCancel}>Cancel</button>
+      </div>
+    </form>
+  );
+}

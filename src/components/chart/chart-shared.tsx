@@ -1,0 +1,184 @@
+/**
+ * Small pieces shared by the bed chart islands: SWR keys for one patient, the revalidation hook
+ * every write calls, time formatting in the unit's zone, field-error helpers and the band-state
+ * mark (colour is never the only cue: each state has its own shape and word).
+ */
+import { useCallback, useId } from 'react';
+import { useSWRConfig } from 'swr';
+import type { ZodError } from 'zod';
+import type { OrderView } from '../../lib/charting/api-types.ts';
+import { ApiClientError } from '../../lib/client/fetch-json.ts';
+
+export const POLL_MS = 15_000;
+export const OBS_PAGE_SIZE = 20;
+export const WINDOW_HOURS = [6, 12, 24, 72] as const;
+export type WindowHours = (typeof WINDOW_HOURS)[number];
+export const DEFAULT_WINDOW_HOURS: WindowHours = 12;
+
+/** Every GET key of one patient's bed chart, so a write can refresh the whole page. */
+export function chartKeys(patientId: number) {
+  const base = `/api/patients/${patientId}`;
+  return {
+    patient: base,
+    targets: `${base}/targets`,
+    observations: (page: number, pageSize = OBS_PAGE_SIZE) => `${base}/observations?page=${page}&pageSize=${pageSize}`,
+    series: (hours: number) => `${base}/series?hours=${hours}`,
+    /** True for any key of this patient (and not of patient 12 when this is patient 1). */
+    matches: (key: unknown): boolean =>
+      typeof key === 'string' && (key === base || key.startsWith(`${base}/`) || key.startsWith(`${base}?`)),
+  };
+}
+
+/** Revalidates every cached key of the patient: call after any successful write. */
+export function useRefreshChart(patientId: number) {
+  const { mutate } = useSWRConfig();
+  return useCallback(() => mutate((key) => chartKeys(patientId).matches(key)), [mutate, patientId]);
+}
+
+// ── Time in the unit's zone ──────────────────────────────────────────────────────────────────
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function formatter(timeZone: string, kind: 'time' | 'dayTime' | 'full'): Intl.DateTimeFormat {
+  const key = `${timeZone}|${kind}`;
+  let f = formatters.get(key);
+  if (!f) {
+    const opts: Intl.DateTimeFormatOptions =
+      kind === 'time'
+        ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }
+        : kind === 'dayTime'
+          ? { weekday: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }
+          : { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' };
+    try {
+      f = new Intl.DateTimeFormat('en-GB', { ...opts, timeZone });
+    } catch {
+      // An unknown zone name must not blank the chart: fall back to UTC and say so in the label.
+      f = new Intl.DateTimeFormat('en-GB', { ...opts, timeZone: 'UTC' });
+    }
+    formatters.set(key, f);
+  }
+  return f;
+}
+
+const toDate = (t: string | number | Date) => (t instanceof Date ? t : new Date(t));
+/** "14:05" in the unit's zone. */
+export const formatClock = (t: string | number | Date, timeZone: string) => formatter(timeZone, 'time').format(toDate(t));
+/** "Tue 14:05" in the unit's zone (axis labels of long windows). */
+export const formatDayClock = (t: string | number | Date, timeZone: string) => formatter(timeZone, 'dayTime').format(toDate(t));
+/** "12 Mar, 14:05" in the unit's zone. */
+export const formatDateTime = (t: string | number | Date, timeZone: string) => formatter(timeZone, 'full').format(toDate(t));
+
+// ── Numbers ──────────────────────────────────────────────────────────────────────────────────
+export const fmtFio2 = (f: number) => (Math.round(f * 100) / 100).toFixed(2);
+export const fmtNum = (v: number | null | undefined, digits = 0) =>
+  v === null || v === undefined || !Number.isFinite(v) ? '—' : digits === 0 ? String(Math.round(v)) : v.toFixed(digits);
+
+// ── Field errors ─────────────────────────────────────────────────────────────────────────────
+export type FieldErrors = Record<string, string>;
+
+/** First message per top-level field (a path under `obs.` is folded onto the field itself). */
+export function zodFieldErrors(error: ZodError): FieldErrors {
+  const out: FieldErrors = {};
+  for (const issue of error.issues) {
+    const path = issue.path.filter((p) => p !== 'obs');
+    const key = path.length ? String(path[0]) : '_form';
+    if (!(key in out)) out[key] = issue.message;
+  }
+  return out;
+}
+
+/** The API's `fields` map ("spo2", "obs.spo2", "takenAt") onto the form's field names. */
+export function apiFieldErrors(err: ApiClientError): FieldErrors {
+  const out: FieldErrors = {};
+  for (const [path, message] of Object.entries(err.fields ?? {})) {
+    const key = path.replace(/^obs\./, '').split('.')[0] || '_form';
+    if (!(key in out)) out[key] = message;
+  }
+  return out;
+}
+
+// ── Band state ───────────────────────────────────────────────────────────────────────────────
+export type BandState = 'below' | 'in' | 'above' | 'untrusted' | 'no_band' | 'no_reading';
+
+export function bandStateOf(spo2: number | null, trusted: boolean, band: { low: number; high: number } | null): BandState {
+  if (spo2 === null) return 'no_reading';
+  if (!trusted) return 'untrusted';
+  if (!band) return 'no_band';
+  if (spo2 < band.low) return 'below';
+  if (spo2 > band.high) return 'above';
+  return 'in';
+}
+
+/** The order in force at `at` (orders newest first, as the API sends them). */
+export function orderAt(orders: readonly OrderView[], at: string | number): OrderView | null {
+  const t = typeof at === 'number' ? at : Date.parse(at);
+  for (const o of orders) if (Date.parse(o.orderedAt) <= t) return o;
+  return null;
+}
+
+const STATE_WORDS: Record<BandState, string> = {
+  below: 'below band',
+  in: 'in band',
+  above: 'above band',
+  untrusted: 'untrusted',
+  no_band: 'no band ordered',
+  no_reading: 'no reading',
+};
+export const bandStateWord = (s: BandState) => STATE_WORDS[s];
+
+const STATE_CLASSES: Record<BandState, string> = {
+  below: 'text-coral-700 dark:text-coral-300',
+  in: 'text-glass-700 dark:text-glass-300',
+  above: 'text-iris-700 dark:text-iris-300',
+  untrusted: 'text-ink-600 dark:text-ink-300',
+  no_band: 'text-ink-600 dark:text-ink-300',
+  no_reading: 'text-ink-500 dark:text-ink-400',
+};
+
+/** Our own marks: chevron down (below), chevron up (above), dot (in band), hatched ring (untrusted). */
+export function StateIcon({ state, className = 'h-3.5 w-3.5' }: { state: BandState; className?: string }) {
+  const hatchId = `hatch${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
+  const common = { className, viewBox: '0 0 16 16', 'aria-hidden': true as const, focusable: 'false' as const };
+  switch (state) {
+    case 'below':
+      return <svg {...common}><path d="M3 5.5 8 10.5 13 5.5" fill="none" stroke="currentColor" strokeWidth="2.4" strokeLinecap="round" strokeLinejoin="round" /></svg>;
+    case 'above':
+      return <svg {...common}><path d="M3 10.5 8 5.5 13 10.5" fill="none" stroke="currentColor" strokeWidth="2.4" strokeLinecap="round" strokeLinejoin="round" /></svg>;
+    case 'in':
+      return <svg {...common}><circle cx="8" cy="8" r="4" fill="currentColor" /></svg>;
+    case 'untrusted':
+      return (
+        <svg {...common}>
+          <defs>
+            <pattern id={hatchId} width="3" height="3" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
+              <line x1="0" y1="0" x2="0" y2="3" stroke="currentColor" strokeWidth="1" />
+            </pattern>
+          </defs>
+          <circle cx="8" cy="8" r="5" fill={`url(#${hatchId})`} stroke="currentColor" strokeWidth="1.6" />
+        </svg>
+      );
+    default:
+      return <svg {...common}><line x1="4" y1="8" x2="12" y2="8" stroke="currentColor" strokeWidth="2" /></svg>;
+  }
+}
+
+/** Mark + word, e.g. "⌄ below band". */
+export function StateBadge({ state, className = '' }: { state: BandState; className?: string }) {
+  return (
+    <span className={`inline-flex items-center gap-1 font-bold ${STATE_CLASSES[state]} ${className}`} data-state={state}>
+      <StateIcon state={state} />
+      <span>{bandStateWord(state)}</span>
+    </span>
+  );
+}
+
+export const TRACE_WORDS: Record<string, string> = {
+  clean: 'clean trace',
+  weak: 'weak trace',
+  noisy: 'noisy trace',
+  absent: 'no trace',
+};
+
+export function errorText(err: unknown): string {
+  if (err instanceof ApiClientError) return err.message;
+  if (err instanceof Error) return err.message;
+  return String(err);
+}

@@ -1,0 +1,60 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { APP_URL } from '../support/app.ts';
+import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { testDb } from '../support/db.ts';
+
+let browser: Browser;
+let patientId: number;
+beforeAll(async () => {
+  browser = await launchBrowser();
+  const db = testDb();
+  const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-08').whereNull('s.ended_at').first('s.patient_id');
+  patientId = stay.patient_id;
+  await db.destroy();
+});
+afterAll(async () => { await browser?.close(); });
+
+describe('bed chart in a real browser', () => {
+  it('a nurse charts an obs and sees it in the obs record and on the chart', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, 'nurse@harbourside.example');
+    await page.goto(`${APP_URL}/patients/${patientId}`);
+    await page.getByTestId('obs-entry-form').waitFor();
+    const form = page.getByTestId('obs-entry-form');
+    await form.getByLabel('SpO₂ (%)').fill('83');
+    await form.getByLabel('Heart rate (/min)').fill('112');
+    await form.getByLabel('Respiratory rate (/min)').fill('26');
+    await form.getByLabel('FiO₂').fill('45');
+    await form.getByLabel('Systolic BP (mmHg)').fill('104');
+    await form.getByLabel('Temperature (°C)').fill('38.3');
+    await form.getByLabel('Heart rate (/min)').press('Enter'); // Enter saves
+    await page.getByText('Saved', { exact: false }).first().waitFor({ timeout: 15_000 });
+
+    const firstRow = page.getByTestId('obs-record').locator('tbody tr').first();
+    await page.waitForFunction(() => document.querySelector('[data-testid="obs-record"] tbody tr')?.textContent?.includes('83'), null, { timeout: 20_000 });
+    expect(await firstRow.textContent()).toContain('112');
+    await page.waitForFunction(() => document.querySelector('[data-testid="latest-spo2"]')?.textContent?.includes('83'), null, { timeout: 20_000 });
+    expect(await page.getByTestId('chart-area').locator('[data-mark="below"]').count()).toBeGreaterThan(0);
+    await context.close();
+  });
+
+  it('an intensivist orders a new band and the chart\'s band steps', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, 'intensivist@harbourside.example');
+    await page.goto(`${APP_URL}/patients/${patientId}`);
+    await page.getByTestId('order-form').waitFor();
+    const areasBefore = await page.getByTestId('chart-area').locator('.recharts-reference-area').count();
+    const form = page.getByTestId('order-form');
+    await form.getByRole('button', { name: /88–92/ }).first().click();
+    await form.getByLabel('Reason for this band').fill('Hypercapnia on the morning gas');
+    await form.getByLabel('Scale 2').check();
+    await form.getByRole('button', { name: 'Order band' }).click();
+    await page.waitForFunction(() => document.querySelector('[data-testid="current-band"]')?.textContent?.includes('88–92'), null, { timeout: 20_000 });
+    await page.waitForFunction((n) => document.querySelectorAll('[data-testid="chart-area"] .recharts-reference-area').length > n, areasBefore, { timeout: 30_000 });
+    expect(await page.getByTestId('chart-summary').textContent()).toMatch(/band changed/);
+    await context.close();
+  });
+});

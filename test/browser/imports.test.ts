@@ -1,0 +1,85 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import type { Knex } from 'knex';
+import { APP_URL } from '../support/app.ts';
+import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+
+let browser: Browser;
+let db: Knex;
+let nurse: { email: string; password: string };
+let patientId: number;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  db = testDb();
+  const unit = await createUnit(db, 2);
+  nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
+  const [id] = await db('patients').insert({ mrn: unique('BRW').slice(0, 20), given_name: 'Ailsa', family_name: unique('Upload'), date_of_birth: '1959-09-09' });
+  patientId = id;
+  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 8 * 3_600_000) });
+  const intensivist = await createUser(db, { role: 'intensivist' });
+  await db('target_orders').insert({ patient_id: id, low: 92, high: 96, news2_scale: 1, reason: 'Fixture band', ordered_by: intensivist.id, ordered_at: new Date(Date.now() - 8 * 3_600_000) });
+});
+afterAll(async () => { await browser?.close(); await db?.destroy(); });
+
+/** 240 readings a minute apart ending 10 minutes ago, ISO times; line 6 is refused (SpO₂ 140). */
+function trendFile(): Buffer {
+  const end = Date.now() - 10 * 60_000;
+  const lines = ['Time,SpO2,HR,PI,Quality'];
+  for (let i = 0; i < 240; i++) {
+    const at = new Date(end - (239 - i) * 60_000).toISOString();
+    lines.push(`${at},${i === 4 ? 140 : 93 + (i % 3)},${76 + (i % 5)},1.9,clean`);
+  }
+  return Buffer.from(`${lines.join('\n')}\n`);
+}
+
+describe('monitor trend file upload on the bed chart', () => {
+  it('a nurse uploads a trend file, previews, commits, and the chart shows the readings', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, nurse.email, nurse.password);
+    await page.goto(`${APP_URL}/patients/${patientId}`);
+    await page.getByTestId('reading-counts').waitFor({ timeout: 20_000 });
+    expect(await page.getByTestId('reading-counts').textContent()).toMatch(/shown of 0\b/);
+
+    // The island hydrates when visible: scroll to it and wait for Astro to hydrate it.
+    const section = page.getByTestId('trend-upload');
+    await section.scrollIntoViewIfNeeded();
+    await page.locator('astro-island:not([ssr]) [data-testid="trend-upload"]').waitFor({ timeout: 20_000 });
+
+    // A slow uplink so the progress bar is seen (Chromium network emulation, ~60 kB/s).
+    const cdp = await context.newCDPSession(page);
+    await cdp.send('Network.enable');
+    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 60 * 1024 });
+
+    await page.getByTestId('trend-file').setInputFiles({ name: 'monitor-trend.csv', mimeType: 'text/csv', buffer: trendFile() });
+    // Columns were guessed from the header; times carry Z, so ISO 8601 is chosen.
+    expect(await page.getByLabel('SpO₂ column').inputValue()).toBe('SpO2');
+    expect(await page.getByLabel('Heart rate column').inputValue()).toBe('HR');
+    expect(await page.getByRole('radio', { name: /ISO 8601/ }).isChecked()).toBe(true);
+
+    await page.getByRole('button', { name: 'Preview' }).click();
+    await page.getByTestId('upload-progress').waitFor({ timeout: 10_000 });
+    const preview = page.getByTestId('trend-preview');
+    await preview.waitFor({ timeout: 20_000 });
+    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+    expect(await page.getByTestId('preview-rows').textContent()).toBe('240');
+    expect(await page.getByTestId('preview-to-store').textContent()).toBe('239');
+    expect(await page.getByTestId('preview-refused').textContent()).toBe('1');
+    const refused = await page.getByTestId('refused-rows').textContent();
+    expect(refused).toContain('6');
+    expect(refused).toContain('SpO₂ 140 is over 100 %');
+    // Nothing is stored by a preview.
+    expect(await db('observations').where({ patient_id: patientId }).count({ n: '*' }).first()).toEqual({ n: 0 });
+
+    await page.getByRole('button', { name: 'Commit 239 readings' }).click();
+    await page.getByTestId('upload-message').filter({ hasText: 'Stored 239 readings' }).waitFor({ timeout: 20_000 });
+    await page.getByTestId('import-list').filter({ hasText: 'monitor-trend.csv' }).waitFor();
+
+    // The chart island refetches: its count of readings in the window now holds the import.
+    await page.getByTestId('reading-counts').filter({ hasText: /shown of 239\b/ }).waitFor({ timeout: 20_000 });
+    await page.getByTestId('latest-spo2').waitFor();
+    await context.close();
+  });
+});

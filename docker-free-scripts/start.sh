@@ -48,6 +48,12 @@ log "serving on http://127.0.0.1:$APP_PORT"
 HOST=127.0.0.1 PORT="$APP_PORT" node dist/server/entry.mjs &
 APP_PID=$!
 wait_for_http "http://127.0.0.1:$APP_PORT/api/health" 60 || die "the app did not answer"
+
+# The demo feeder plays invented monitor readings into the demo beds through POST /api/ingest.
+if [ "${EBB_FEEDER:-on}" != "off" ]; then
+  APP_URL="http://127.0.0.1:$APP_PORT" node --import tsx docker-free-scripts/feeder.ts &
+  EXTRA_PIDS="${EXTRA_PIDS:-} $!"
+fi
 cat <<MSG
 
   Ebbwatch is running at http://127.0.0.1:$APP_PORT  (also http://localhost:$APP_PORT)

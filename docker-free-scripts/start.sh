@@ -34,6 +34,13 @@ cleanup() {
 }
 trap cleanup EXIT INT TERM
 
+export SMTP_URL="${SMTP_URL:-smtp://127.0.0.1:2525}" SMTP_FAKE_API_URL="${SMTP_FAKE_API_URL:-http://127.0.0.1:2580}"
+export SMTP_FAKE_PORT=2525 SMTP_FAKE_HTTP_PORT=2580 SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake"
+log "starting the development SMTP fake on 127.0.0.1:$SMTP_FAKE_PORT (admins read it at /admin/mail)"
+mkdir -p var
+node --import tsx docker-free-scripts/smtp-fake.ts >var/smtp-fake.log 2>&1 &
+EXTRA_PIDS="${EXTRA_PIDS:-} $!"
+
 start_mariadb demo "$DB_PORT"
 create_database "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
 

@@ -22,6 +22,11 @@ export APP_URL="http://127.0.0.1:$TEST_APP_PORT"
 export PUBLIC_ORIGIN="$APP_URL"
 export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
 export EBB_SWEEP_INTERVAL_MS="${EBB_SWEEP_INTERVAL_MS:-1000}"
+export EBB_OUTBOX_INTERVAL_MS="${EBB_OUTBOX_INTERVAL_MS:-300}" EBB_MAIL_RETRY_BASE_MS="${EBB_MAIL_RETRY_BASE_MS:-1000}"
+# The SMTP fake: ports follow the app port so side-by-side suites never share a mailbox.
+export SMTP_FAKE_PORT=$((TEST_APP_PORT + 1100)) SMTP_FAKE_HTTP_PORT=$((TEST_APP_PORT + 1101))
+export SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake-$TEST_APP_PORT"
+export SMTP_URL="smtp://127.0.0.1:$SMTP_FAKE_PORT" SMTP_FAKE_API_URL="http://127.0.0.1:$SMTP_FAKE_HTTP_PORT"
 
 cleanup() {
   local code=$?
@@ -36,11 +41,15 @@ trap cleanup EXIT INT TERM
 # A fresh database every run: tests never depend on what an earlier run left.
 pidfile="var/$TEST_DB_NAME/mysqld.pid"
 if [ -f "$pidfile" ] && kill -0 "$(cat "$pidfile")" 2>/dev/null; then kill "$(cat "$pidfile")"; sleep 1; fi
-rm -rf "var/$TEST_DB_NAME" "$RESULTS"
+rm -rf "var/$TEST_DB_NAME" "$RESULTS" "$SMTP_FAKE_DIR"
 mkdir -p "$RESULTS"
 start_mariadb "$TEST_DB_NAME" "$TEST_DB_PORT"
 create_database "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
 create_database "$MIGRATIONS_DB_NAME" "$DB_USER" "$DB_PASSWORD"
+
+node --import tsx docker-free-scripts/smtp-fake.ts >"var/smtp-fake-$TEST_APP_PORT.log" 2>&1 &
+EXTRA_PIDS="${EXTRA_PIDS:-} $!"
+wait_for_http "$SMTP_FAKE_API_URL/health" 30 || { cat "var/smtp-fake-$TEST_APP_PORT.log"; die "the SMTP fake did not start"; }
 
 log "migrating and seeding the test database"
 npm run --silent migrate

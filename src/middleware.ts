@@ -4,6 +4,10 @@ import { hasRole } from './lib/auth/roles.ts';
 import { isPublicPath, pageRolesFor } from './lib/auth/page-access.ts';
 import { findActiveSessionUser } from './lib/server/queries/users.ts';
 import { errorJson } from './lib/server/http.ts';
+import { startBackgroundWork } from './lib/server/background.ts';
+
+// The escalation sweep and mail outbox run in every app process (claimed row by row in MariaDB).
+startBackgroundWork();
 
 const SESSION_COOKIES = ['authjs.session-token', '__Secure-authjs.session-token'];
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

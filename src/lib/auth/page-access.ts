@@ -9,6 +9,7 @@ const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
   { prefix: '/patients', roles: CLINICAL_ROLES },
   { prefix: '/pleth', roles: CLINICAL_ROLES },
   { prefix: '/board', roles: CLINICAL_ROLES },
+  { prefix: '/escalations', roles: CLINICAL_ROLES },
 ];
 
 // /api/ingest is authenticated by the device key in the endpoint, not by a session.

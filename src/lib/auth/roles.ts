@@ -25,7 +25,10 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/', label: 'Units', roles: CLINICAL_ROLES },
   { href: '/patients', label: 'Patients', roles: CLINICAL_ROLES },
   { href: '/pleth', label: 'Strip check', roles: CLINICAL_ROLES },
+  { href: '/escalations', label: 'Outreach queue', roles: CLINICAL_ROLES },
   { href: '/admin/users', label: 'Users', roles: ['admin'] },
+  { href: '/admin/settings', label: 'Escalation settings', roles: ['admin'] },
+  { href: '/admin/mail', label: 'Mail', roles: ['admin'] },
   { href: '/admin/devices', label: 'Device keys', roles: ['admin'] },
 ];
 

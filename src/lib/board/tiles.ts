@@ -141,7 +141,9 @@ export function formatMinutes(min: number): string {
 function concernOf(t: BoardTile): BoardTile['concern'] {
   const rank = (key: ConcernKey) => CONCERN_ORDER.indexOf(key);
   if (t.escalation && t.escalation.kind === 'below_band' && t.escalation.severity === 'urgent') {
-    return { key: 'urgent_escalation', rank: rank('urgent_escalation'), reason: `Urgent escalation ${t.escalation.state}` };
+    const since = t.concerns.belowBand?.sinceMin ?? (t.state.name === 'below' ? t.state.sinceMin : null);
+    const below = since === null ? 'Was below band' : `Below band ${formatMinutes(since)}`;
+    return { key: 'urgent_escalation', rank: rank('urgent_escalation'), reason: `${below} — urgent escalation ${t.escalation.state}` };
   }
   if (t.concerns.belowBand || t.state.name === 'below') {
     const since = t.concerns.belowBand?.sinceMin ?? t.state.sinceMin;

@@ -13,14 +13,10 @@ import { writeAudit } from '../queries/audit.ts';
 import { findObservation, insertObservation, lockObservation, markObservation, observationPage, type NewObservation, type ObservationRow } from '../queries/observations.ts';
 import type { SessionUser } from '../queries/users.ts';
 import { authorisePatient } from './patients.ts';
+import { lockPatient } from '../queries/patients.ts';
+import { checkPatientEscalations } from '../escalations/engine.ts';
 import { obsView } from './views.ts';
 
-/** Hooks run inside the obs transaction (the escalation checks register here). */
-type AfterObservation = (trx: Knex.Transaction, patientId: number, now: Date) => Promise<void>;
-const afterObservationHooks: AfterObservation[] = [];
-export function onObservationStored(hook: AfterObservation): void {
-  afterObservationHooks.push(hook);
-}
 
 /** FiO₂ as stored: charted when given; 0.21 on room air; otherwise an estimate, always marked as one. */
 export function resolveFio2(input: Pick<ObsInput, 'fio2' | 'device' | 'flowLpm'>): { fio2: number | null; estimated: boolean } {
@@ -42,14 +38,23 @@ function rowFromInput(input: ObsInput, patientId: number, bedId: number | null, 
   };
 }
 
-/** Runs the after-store checks for a patient; callers that store readings by other paths (device feed, imports) call this once per batch. */
+/**
+ * Runs the escalation checks for a patient inside the transaction that stored their readings;
+ * other paths that store readings (device feed, imports) call this once per batch and patient.
+ */
 export async function runObservationHooks(trx: Knex.Transaction, patientId: number, now: Date) {
-  for (const hook of afterObservationHooks) await hook(trx, patientId, now);
+  // Serialises checks for one patient across instances. Writers should take this lock before
+  // inserting readings (see chartObservation) so the lock order is the same everywhere.
+  await lockPatient(trx, patientId);
+  await checkPatientEscalations(trx, patientId, now);
 }
 
 export async function chartObservation(user: SessionUser, patientId: number, input: ObsInput, now = new Date()): Promise<ObsView> {
   const { stay } = await authorisePatient(user, patientId, 'chart');
   const id = await db().transaction(async (trx) => {
+    // Patient row first, always: inserting an obs takes a shared lock on it (foreign key), and
+    // taking the exclusive lock only afterwards would let two writers deadlock.
+    await lockPatient(trx, patientId);
     const row = rowFromInput(input, patientId, stay.bed_id, user.id);
     const obsId = await insertObservation(trx, { ...row, recorded_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.create', entity: 'observation', entityId: obsId, after: row, at: now });
@@ -60,6 +65,9 @@ export async function chartObservation(user: SessionUser, patientId: number, inp
 }
 
 async function lockForChange(trx: Knex.Transaction, user: SessionUser, obsId: number): Promise<ObservationRow> {
+  const unlocked = await findObservation(obsId, trx);
+  if (!unlocked) throw new ApiError(404, 'not_found', 'No obs with that id.');
+  await lockPatient(trx, unlocked.patient_id); // same lock order as every other obs writer
   const original = await lockObservation(trx, obsId);
   if (!original) throw new ApiError(404, 'not_found', 'No obs with that id.');
   await authorisePatient(user, original.patient_id, 'chart');

@@ -5,6 +5,7 @@ import {
 } from '../../oxygenation/index.ts';
 import { currentReadingsBetween, type ReadingRow } from '../queries/observations.ts';
 import { ordersOf } from '../queries/orders.ts';
+import { escalationsInWindow } from '../queries/escalations.ts';
 import type { SessionUser } from '../queries/users.ts';
 import { authorisePatient } from './patients.ts';
 import { toBandOrders, toReading } from './readings.ts';
@@ -21,9 +22,10 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   const from = to - hours * 3_600_000;
   // Start early by the longest carry-forward so the window's first minutes are counted correctly.
   const lookBackMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * 60_000;
-  const [rows, orderRows] = await Promise.all([
+  const [rows, orderRows, escalationRows] = await Promise.all([
     currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1)),
     ordersOf(patientId),
+    escalationsInWindow(patientId, new Date(from)),
   ]);
   const readings = rows.map(toReading);
   const orders = toBandOrders(orderRows);
@@ -43,7 +45,9 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
     patientId, hours, from, to, generatedAt: now.toISOString(), spo2, heartRate,
     fio2: fio2Steps(readings, from),
     bands: bandSegments(orders, from, to),
-    escalations: [],
+    escalations: escalationRows.map((e) => ({
+      id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
+    })),
     rawCounts: { spo2: withSpo2.length, heartRate: withHr.length },
     derived: derivedFigures(readings, windowRows, orderRows, from, to, hours),
   };

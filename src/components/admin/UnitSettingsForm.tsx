@@ -1,0 +1,71 @@
+import { useEffect, useState, type FormEvent } from 'react';
+import useSWR from 'swr';
+import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+
+interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; outreachEmails: string[] }
+interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
+
+const FIELDS: [keyof Omit<Settings, 'outreachEmails'>, string, string][] = [
+  ['consecutiveCharted', 'Consecutive charted obs below band', 'trusted charted obs in a row that raise a below-band escalation'],
+  ['deviceDwellMin', 'Device dwell (min)', 'minutes of trusted monitor readings below band that raise one'],
+  ['urgentMarginPoints', 'Urgent margin (points)', 'a reading this far under the lower limit makes it urgent'],
+  ['urgentFloorPct', 'Urgent floor (%)', 'a reading under this makes it urgent'],
+  ['cannotVerifyMin', 'Cannot-verify time (min)', 'minutes of poor traces only before a probe check'],
+  ['aboveOnOxygenMin', 'Above band on O₂ (min)', 'minutes above band on oxygen before a wean prompt'],
+  ['renotifyMin', 'Re-notify after (min)', 'unclaimed escalations are e-mailed again after this'],
+  ['overdueMin', 'Obs overdue after (min)', 'the board marks a bed overdue past this'],
+];
+
+/** A unit's escalation settings. Defaults are settings, not clinical advice: each unit decides. */
+export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
+  const { data, mutate } = useSWR<Answer>(`/api/units/${encodeURIComponent(unitCode)}/settings`, fetchJson);
+  const [values, setValues] = useState<Record<string, string>>({});
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [status, setStatus] = useState<string | null>(null);
+  useEffect(() => {
+    if (!data) return;
+    const v: Record<string, string> = Object.fromEntries(FIELDS.map(([k]) => [k, String(data.settings[k])]));
+    v.outreachEmails = data.settings.outreachEmails.join('\n');
+    setValues(v);
+  }, [data]);
+  if (!data) return <p>Loading…</p>;
+
+  async function submit(event: FormEvent) {
+    event.preventDefault();
+    setErrors({});
+    setStatus(null);
+    const body: Record<string, unknown> = Object.fromEntries(FIELDS.map(([k]) => [k, values[k] === '' ? undefined : Number(values[k])]));
+    body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
+    try {
+      await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
+      setStatus('Saved.');
+      await mutate();
+    } catch (err) {
+      if (err instanceof ApiClientError) setErrors({ ...err.fields, _: err.message });
+    }
+  }
+
+  return (
+    <form onSubmit={submit} className="panel grid gap-3 md:grid-cols-2" aria-label={`Settings for ${data.unit.name}`} noValidate>
+      <h2 className="text-lg font-bold md:col-span-2">{data.unit.name}{data.configured ? '' : ' (defaults)'}</h2>
+      {FIELDS.map(([k, label, hint]) => (
+        <label key={k} className="block">
+          <span className="block font-bold">{label}</span>
+          <input className="field" inputMode="numeric" value={values[k] ?? ''} onChange={(e) => setValues({ ...values, [k]: e.target.value })}
+            aria-invalid={errors[k] ? true : undefined} aria-describedby={`${unitCode}-${k}-hint`} />
+          <span id={`${unitCode}-${k}-hint`} className={`text-sm ${errors[k] ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors[k] ?? hint}</span>
+        </label>
+      ))}
+      <label className="block md:col-span-2">
+        <span className="block font-bold">Outreach e-mail addresses (one per line)</span>
+        <textarea className="field font-mono" rows={3} value={values.outreachEmails ?? ''} onChange={(e) => setValues({ ...values, outreachEmails: e.target.value })} />
+        {Object.entries(errors).filter(([k]) => k.startsWith('outreachEmails')).map(([k, v]) => <span key={k} className="block text-sm font-bold text-coral-700">{v}</span>)}
+      </label>
+      <div className="flex items-center gap-3 md:col-span-2">
+        <button className="btn-primary" type="submit">Save settings</button>
+        <span role="status">{status}</span>
+        {errors._ && <span role="alert" className="text-coral-700">{errors._}</span>}
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,32 @@
+import { z } from 'zod';
+import { OUTCOMES } from './decide.ts';
+
+export const listEscalationsQuery = z.object({
+  state: z.enum(['open', 'closed'], { errorMap: () => ({ message: 'state is open or closed' }) }).default('open'),
+  unit: z.string().trim().min(1).max(16).optional(),
+  kind: z.enum(['below_band', 'probe_check', 'wean_prompt']).optional(),
+  patient: z.coerce.number().int().positive().optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(200),
+});
+
+export const closeSchema = z.object({
+  outcome: z.enum(OUTCOMES, { errorMap: () => ({ message: `Choose an outcome: ${OUTCOMES.join(', ')}` }) }),
+  note: z.string().trim().max(1000, 'Note: 1000 characters at most').optional(),
+});
+
+const minutes = (label: string, min: number, max: number) =>
+  z.number({ invalid_type_error: `${label} must be a number`, required_error: `${label} is required` }).int(`${label} must be a whole number`).min(min, `${label}: at least ${min}`).max(max, `${label}: at most ${max}`);
+
+/** Unit settings as an admin edits them. Ranges keep the checks meaningful; values are local decisions. */
+export const unitSettingsSchema = z.object({
+  consecutiveCharted: minutes('Consecutive charted obs', 1, 6),
+  deviceDwellMin: minutes('Device dwell (min)', 1, 60),
+  urgentMarginPoints: minutes('Urgent margin (points)', 1, 15),
+  urgentFloorPct: minutes('Urgent floor (%)', 70, 92),
+  cannotVerifyMin: minutes('Cannot-verify time (min)', 5, 120),
+  aboveOnOxygenMin: minutes('Above band on O₂ time (min)', 10, 240),
+  renotifyMin: minutes('Re-notify after (min)', 5, 120),
+  overdueMin: minutes('Obs overdue after (min)', 30, 240),
+  outreachEmails: z.array(z.string().trim().toLowerCase().email('Not an e-mail address')).min(1, 'Give at least one outreach e-mail address').max(20),
+});
+export type UnitSettingsInput = z.output<typeof unitSettingsSchema>;

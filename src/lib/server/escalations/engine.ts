@@ -1,0 +1,126 @@
+/**
+ * The escalation engine for one patient: runs the computation modules' checks on the patient's
+ * recent readings and applies what `decideEscalations` says, inside the caller's transaction —
+ * the escalation, its timeline event, the audit entry and the outbox mail commit together or not at all.
+ */
+import type { Knex } from 'knex';
+import { bandState, detectConcerns, news2 } from '../../oxygenation/index.ts';
+import { buildEscalationMail } from '../../escalations/mail.ts';
+import { decideEscalations, EMAILED_KINDS, type EscalationAction, type EscalationKind, type OpenEscalation } from '../../escalations/decide.ts';
+import { escalationSettingsOf } from '../../board/tiles.ts';
+import { patientLabel } from '../../patients/label.ts';
+import { settingsFromRow, type UnitSettings } from '../../units/settings.ts';
+import { writeAudit } from '../queries/audit.ts';
+import { insertEscalation, insertEvent, lastClosedRunStarts, openEscalationsOf, updateEscalation, type EscalationRow } from '../queries/escalations.ts';
+import { enqueueMail } from '../queries/outbox.ts';
+import { patientContext, recentReadingsOf, type PatientContext } from '../queries/escalation-context.ts';
+import { toReading } from '../charting/readings.ts';
+import { DEVICE_LOOKBACK_MIN, CHARTED_LOOKBACK_MIN } from '../board/board.ts';
+
+export function publicOrigin(): string {
+  return (process.env.PUBLIC_ORIGIN ?? 'http://127.0.0.1:4321').replace(/\/$/, '');
+}
+
+/** Runs the checks for a patient whose row the caller's transaction has locked. */
+export async function checkPatientEscalations(trx: Knex.Transaction, patientId: number, now: Date): Promise<EscalationAction[]> {
+  const ctx = await patientContext(trx, patientId);
+  if (!ctx) return []; // not in a bed: nothing to watch
+  const settings = settingsFromRow(ctx.settings ?? undefined);
+  const nowMs = now.getTime();
+  const rows = await recentReadingsOf(trx, patientId, new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000));
+  const all = rows.map(toReading);
+  const band = ctx.band ? { low: ctx.band.low, high: ctx.band.high } : null;
+  // Judge only readings taken under the band in force now.
+  const readings = ctx.band ? all.filter((r) => r.at >= ctx.band!.orderedAt.getTime()) : all;
+  const concerns = detectConcerns(readings, band, nowMs, escalationSettingsOf(settings));
+  const state = bandState(readings, band, nowMs, { minPerfusionIndexPct: settings.minPerfusionIndexPct });
+
+  const openRows = await openEscalationsOf(trx, patientId);
+  const open: OpenEscalation[] = openRows.map((e) => ({ id: e.id, kind: e.kind, severity: e.severity, runStart: new Date(e.run_start).getTime(), backInBandNoted: e.back_in_band_at !== null }));
+  const closed = await lastClosedRunStarts(trx, patientId);
+  const lastClosedRunStart = Object.fromEntries(closed.map((c) => [c.kind, new Date(c.run_start).getTime()])) as Partial<Record<EscalationKind, number>>;
+
+  const actions = decideEscalations({ concerns, state, open, lastClosedRunStart });
+  for (const action of actions) {
+    switch (action.type) {
+      case 'raise': {
+        const below = action.kind === 'below_band' ? concerns.belowBand : null;
+        const evidence = {
+          rule: below?.rule ?? null, nadir: below?.nadir ?? null, urgentReasons: below?.urgentReasons ?? [],
+          band, lastReadings: readings.slice(-6).map((r) => ({ at: r.at, spo2: r.spo2, trace: r.trace, heartRate: r.heartRate ?? null, source: r.source })),
+        };
+        const id = await insertEscalation(trx, {
+          patient_id: patientId, unit_id: ctx.unitId, bed_id: ctx.bedId, kind: action.kind, severity: action.severity, state: 'raised',
+          raised_at: now, run_start: new Date(action.runStart), run_end: new Date(action.runEnd), evidence: JSON.stringify(evidence),
+          last_notified_at: null, notify_count: 0,
+        });
+        await insertEvent(trx, { escalation_id: id, type: 'raised', actor_id: null, at: now, detail: { severity: action.severity, runStart: action.runStart, runEnd: action.runEnd } });
+        await writeAudit(trx, { actorId: null, action: 'escalation.raise', entity: 'escalation', entityId: id, after: { patientId, kind: action.kind, severity: action.severity }, at: now });
+        if (EMAILED_KINDS.includes(action.kind)) {
+          await notify(trx, { id, kind: action.kind, severity: action.severity, run_start: new Date(action.runStart), run_end: new Date(action.runEnd), notify_count: 0 }, ctx, settings, readings, `esc:${id}:raised`, 'notified', now, below?.nadir ?? null, below?.rule ?? null);
+        }
+        break;
+      }
+      case 'upgrade': {
+        const row = openRows.find((e) => e.id === action.id)!;
+        await updateEscalation(trx, action.id, { severity: 'urgent' });
+        await insertEvent(trx, { escalation_id: action.id, type: 'severity_raised', actor_id: null, at: now, detail: { from: row.severity, to: 'urgent', reasons: concerns.belowBand?.urgentReasons ?? [] } });
+        await writeAudit(trx, { actorId: null, action: 'escalation.severity_raised', entity: 'escalation', entityId: action.id, before: { severity: row.severity }, after: { severity: 'urgent' }, at: now });
+        if (row.state === 'raised' || row.state === 'claimed') {
+          await notify(trx, { ...row, severity: 'urgent' }, ctx, settings, readings, `esc:${action.id}:urgent`, 'notified', now, concerns.belowBand?.nadir ?? null, concerns.belowBand?.rule ?? null);
+        }
+        break;
+      }
+      case 'auto_close': {
+        await updateEscalation(trx, action.id, { state: 'closed', closed_at: now, outcome: 'condition_cleared', close_note: action.reason });
+        await insertEvent(trx, { escalation_id: action.id, type: 'closed', actor_id: null, at: now, detail: { outcome: 'condition_cleared', note: action.reason } });
+        await writeAudit(trx, { actorId: null, action: 'escalation.auto_close', entity: 'escalation', entityId: action.id, after: { outcome: 'condition_cleared' }, at: now });
+        break;
+      }
+      case 'back_in_band': {
+        await updateEscalation(trx, action.id, { back_in_band_at: now });
+        await insertEvent(trx, { escalation_id: action.id, type: 'back_in_band', actor_id: null, at: now, detail: { inBandSinceMin: state.sinceMin } });
+        break;
+      }
+    }
+  }
+  return actions;
+}
+
+/** Queues the mail for an escalation (first notice, urgent upgrade or reminder) and records it. */
+export async function notify(
+  trx: Knex.Transaction, esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'>, ctx: PatientContext,
+  settings: UnitSettings, readings: ReturnType<typeof toReading>[], key: string, eventType: 'notified' | 'renotified', now: Date,
+  nadir: number | null, rule: string | null,
+): Promise<void> {
+  const lastCharted = [...readings].reverse().find((r) => r.source === 'charted');
+  const oxygenFrom = [...readings].reverse().find((r) => r.fio2 !== null && r.fio2 !== undefined);
+  let news: { total: number; scale: 1 | 2 } | null = null;
+  if (ctx.lastCharted) {
+    const scale = (ctx.band?.news2Scale ?? 1) as 1 | 2;
+    const n = news2({
+      respRate: ctx.lastCharted.resp_rate, spo2: ctx.lastCharted.spo2, onOxygen: ctx.lastCharted.device ? ctx.lastCharted.device !== 'room_air' : null,
+      systolic: ctx.lastCharted.systolic, pulse: ctx.lastCharted.heart_rate, temperature: ctx.lastCharted.temperature === null ? null : Number(ctx.lastCharted.temperature),
+      consciousness: ctx.lastCharted.consciousness as never,
+    }, scale);
+    if (n.complete && n.total !== null) news = { total: n.total, scale };
+  }
+  const renotify = eventType === 'renotified' ? esc.notify_count : 0;
+  const mail = buildEscalationMail({
+    hospital: ctx.hospital, unitName: ctx.unitName, bedLabel: ctx.bedLabel, patientLabel: patientLabel(ctx.givenName, ctx.familyName, ctx.mrn), timeZone: ctx.timeZone,
+    kind: esc.kind, severity: esc.severity, renotify, band: ctx.band ?? { low: 0, high: 0 },
+    run: { start: new Date(esc.run_start).getTime(), end: new Date(esc.run_end).getTime(), nadir, rule },
+    lastReadings: readings.slice(-6).map((r) => ({ at: r.at, spo2: r.spo2, trace: r.trace, heartRate: r.heartRate ?? null, source: r.source })),
+    oxygen: { fio2: oxygenFrom?.fio2 ?? null, fio2Estimated: Boolean(oxygenFrom?.fio2Estimated), device: oxygenFrom?.device ?? lastCharted?.device ?? null },
+    news2: news, link: `${publicOrigin()}/patients/${ctx.patientId}`,
+  });
+  const to = settings.outreachEmails;
+  if (to.length === 0) {
+    // No list configured: the escalation stands on the board and queue; the timeline says why no mail went.
+    await insertEvent(trx, { escalation_id: esc.id, type: eventType, actor_id: null, at: now, detail: { mailed: false, reason: 'No outreach e-mail addresses are set for this unit' } });
+  } else {
+    await enqueueMail(trx, { idempotency_key: key, escalation_id: esc.id, to_addresses: to.join(', '), subject: mail.subject, text_body: mail.text, html_body: mail.html, created_at: now });
+    await insertEvent(trx, { escalation_id: esc.id, type: eventType, actor_id: null, at: now, detail: { mailed: true, to, key } });
+  }
+  await updateEscalation(trx, esc.id, { last_notified_at: now, notify_count: esc.notify_count + 1 });
+}

@@ -1,0 +1,43 @@
+/**
+ * Delivers the mail outbox. Rows are claimed with SKIP LOCKED so two workers never take the same
+ * row; a failed send goes back to pending with a growing delay, so an outage delays mail and
+ * loses none. The Message-ID is derived from the row's idempotency key, so even a send repeated
+ * after a crash between SMTP and the database is recognisable as the same message.
+ */
+import { hostname } from 'node:os';
+import { randomUUID } from 'node:crypto';
+import type { Transporter } from 'nodemailer';
+import { retryDelayMs } from '../../escalations/decide.ts';
+import { claimDueMail, markRetry, markSent } from '../queries/outbox.ts';
+import { mailFrom, mailTransport } from './transport.ts';
+
+export const WORKER_ID = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
+const LEASE_MS = 2 * 60_000;
+
+export function messageIdFor(key: string): string {
+  return `<${key.replace(/[^A-Za-z0-9._-]/g, '.')}@ebbwatch.invalid>`;
+}
+
+export async function deliverDueMail(now = new Date(), opts: { transport?: Transporter; worker?: string; limit?: number } = {}): Promise<{ sent: number; failed: number }> {
+  const worker = opts.worker ?? WORKER_ID;
+  const transport = opts.transport ?? mailTransport();
+  const rows = await claimDueMail(worker, now, LEASE_MS, opts.limit ?? 20);
+  let sent = 0;
+  let failed = 0;
+  for (const row of rows) {
+    const messageId = messageIdFor(row.idempotency_key);
+    try {
+      await transport.sendMail({
+        from: mailFrom(), to: row.to_addresses, subject: row.subject, text: row.text_body, html: row.html_body, messageId,
+        headers: { 'X-Ebbwatch-Key': row.idempotency_key },
+      });
+      await markSent(row.id, worker, messageId, new Date());
+      sent += 1;
+    } catch (err) {
+      const base = Number(process.env.EBB_MAIL_RETRY_BASE_MS ?? 10_000);
+      await markRetry(row.id, worker, (err as Error).message ?? String(err), new Date(Date.now() + retryDelayMs(row.attempts + 1, base)));
+      failed += 1;
+    }
+  }
+  return { sent, failed };
+}

@@ -1,0 +1,44 @@
+import type { Knex } from 'knex';
+import type { UnitSettingsRow } from './unit-settings.ts';
+import type { ReadingRow } from './observations.ts';
+
+export interface PatientContext {
+  patientId: number; givenName: string; familyName: string; mrn: string;
+  bedId: number; bedLabel: string; unitId: number; unitName: string; hospital: string; timeZone: string;
+  band: { low: number; high: number; news2Scale: number; orderedAt: Date } | null;
+  settings: UnitSettingsRow | null;
+  lastCharted: (ReadingRow & { systolic: number | null; temperature: string | number | null; consciousness: string | null }) | null;
+}
+
+/** Everything the escalation engine needs about a patient in a bed, or undefined when not admitted. */
+export async function patientContext(trx: Knex.Transaction, patientId: number): Promise<PatientContext | undefined> {
+  const row = await trx('bed_stays as s')
+    .join('patients as p', 'p.id', 's.patient_id')
+    .join('beds as b', 'b.id', 's.bed_id')
+    .join('units as u', 'u.id', 'b.unit_id')
+    .leftJoin('unit_settings as us', 'us.unit_id', 'u.id')
+    .where('s.patient_id', patientId).whereNull('s.ended_at')
+    .first('p.id as patient_id', 'p.given_name', 'p.family_name', 'p.mrn', 'b.id as bed_id', 'b.label as bed_label', 'u.id as unit_id', 'u.name as unit_name',
+      'u.hospital', 'u.time_zone', 'us.unit_id as settings_unit_id');
+  if (!row) return undefined;
+  const [order, settings, lastCharted] = await Promise.all([
+    trx('target_orders').where({ patient_id: patientId }).orderBy('id', 'desc').first('low', 'high', 'news2_scale', 'ordered_at'),
+    row.settings_unit_id ? trx<UnitSettingsRow>('unit_settings').where({ unit_id: row.unit_id }).first() : Promise.resolve(undefined),
+    trx('observations').where({ patient_id: patientId, source: 'charted', status: 'current' }).orderBy('taken_at', 'desc').orderBy('id', 'desc')
+      .first('taken_at', 'source', 'spo2', 'heart_rate', 'resp_rate', 'fio2', 'fio2_estimated', 'device', 'flow_lpm', 'trace', 'perfusion_index', 'systolic', 'temperature', 'consciousness'),
+  ]);
+  return {
+    patientId, givenName: row.given_name, familyName: row.family_name, mrn: row.mrn, bedId: row.bed_id, bedLabel: row.bed_label,
+    unitId: row.unit_id, unitName: row.unit_name, hospital: row.hospital, timeZone: row.time_zone,
+    band: order ? { low: order.low, high: order.high, news2Scale: Number(order.news2_scale), orderedAt: new Date(order.ordered_at) } : null,
+    settings: settings ?? null, lastCharted: lastCharted ?? null,
+  };
+}
+
+/** One patient's current readings: device/import since `deviceSince`, charted since `chartedSince`, oldest first. */
+export async function recentReadingsOf(trx: Knex.Transaction, patientId: number, deviceSince: Date, chartedSince: Date): Promise<ReadingRow[]> {
+  const cols = ['taken_at', 'source', 'spo2', 'heart_rate', 'resp_rate', 'fio2', 'fio2_estimated', 'device', 'flow_lpm', 'trace', 'perfusion_index'];
+  const charted = trx('observations').select(cols).where({ patient_id: patientId, source: 'charted', status: 'current' }).andWhere('taken_at', '>=', chartedSince);
+  const streamed = trx('observations').select(cols).where({ patient_id: patientId, status: 'current' }).whereIn('source', ['device', 'import']).andWhere('taken_at', '>=', deviceSince);
+  return trx.select('*').from(charted.unionAll(streamed, true).as('r')).orderBy('taken_at');
+}

@@ -157,6 +157,9 @@ describe('trend file upload: unit local time across daylight-saving changes (Eur
   let patientId: number;
   beforeAll(async () => { patientId = await patientInBed(2, new Date('2026-03-01T00:00:00Z')); });
   const local = { time: 'Time', spo2: 'SpO2', heartRate: 'HR', timeMode: 'local' };
+  // An unmapped column unique to this run, so rerunning against the same database is not "the same file twice".
+  const run = unique('run');
+  const tag = (csv: string) => csv.split('\n').map((l, i) => (l === '' ? l : `${l},${i === 0 ? 'Monitor' : run}`)).join('\n');
 
   it('reads the repeated autumn hour in file order: every minute once, in time order', async () => {
     // 25 Oct 2026: 00:30 to 02:29 on the wall clock, a reading a minute; 01:00–01:59 comes twice.
@@ -165,7 +168,7 @@ describe('trend file upload: unit local time across daylight-saving changes (Eur
     for (let m = 30; m < 60; m++) lines.push(`2026-10-25 00:${pad(m)}:00,95,80`);
     for (let pass = 0; pass < 2; pass++) for (let m = 0; m < 60; m++) lines.push(`2026-10-25 01:${pad(m)}:00,${pass === 0 ? 95 : 93},80`);
     for (let m = 0; m < 30; m++) lines.push(`2026-10-25 02:${pad(m)}:00,95,80`);
-    const csv = `${lines.join('\n')}\n`;
+    const csv = tag(`${lines.join('\n')}\n`);
     const { preview } = await (await upload(s.nurse, patientId, 'preview', csv, local)).json();
     expect(preview).toMatchObject({ rowCount: 180, toStore: 180, refused: { count: 0 } });
     // BST is UTC+1 until 01:00 UTC; GMT after. So 00:30 BST = 23:30 UTC the day before, 02:29 GMT = 02:29 UTC.
@@ -180,7 +183,7 @@ describe('trend file upload: unit local time across daylight-saving changes (Eur
   });
 
   it('refuses the spring hour that does not exist, with line numbers, and stores the rest', async () => {
-    const csv = 'Time,SpO2,HR\n29/03/2026 00:58:00,96,70\n29/03/2026 00:59:00,96,70\n29/03/2026 01:00:00,96,70\n29/03/2026 01:59:00,96,70\n29/03/2026 02:00:00,96,70\n';
+    const csv = tag('Time,SpO2,HR\n29/03/2026 00:58:00,96,70\n29/03/2026 00:59:00,96,70\n29/03/2026 01:00:00,96,70\n29/03/2026 01:59:00,96,70\n29/03/2026 02:00:00,96,70\n');
     const { preview } = await (await upload(s.nurse, patientId, 'preview', csv, local)).json();
     expect(preview.refused.rows).toEqual([
       { line: 4, reason: 'time 2026-03-29 01:00:00 does not exist in Europe/London (the clocks went forward)' },

@@ -68,6 +68,13 @@ describe('trend file parsing', () => {
     expect(() => parseTrendCsv('\n\n', mapping(), 'UTC')).toThrow(/header/);
   });
 
+  it('counts lines through quoted line breaks and blank lines', () => {
+    const csv = 'Time,SpO2,HR\n2026-12-01T10:00:00Z,95,"80"\n\n"2026-12-01T10:00:01Z",x,"a\nb"\n2026-12-01T10:00:02Z,101,80\n';
+    const p = parseTrendCsv(csv, mapping({ perfusionIndex: null, quality: null }), 'UTC');
+    expect(p.rowCount).toBe(3);
+    expect(p.refused.map((r) => r.line)).toEqual([4, 6]);
+  });
+
   it('reads semicolon files and a byte-order mark', () => {
     const p = parseTrendCsv('\uFEFFTime;SpO2;HR\n2026-12-01T10:00:00+01:00;97;70\n', mapping({ perfusionIndex: null, quality: null }), 'UTC');
     expect(p.rows[0]!.at).toBe(Date.UTC(2026, 11, 1, 9));

@@ -71,9 +71,10 @@ export interface DeviceObservationRow {
 export async function insertDeviceReadings(trx: Knex.Transaction, rows: DeviceObservationRow[]): Promise<number> {
   let stored = 0;
   for (let i = 0; i < rows.length; i += 5000) {
-    const { sql, bindings } = trx('observations').insert(rows.slice(i, i + 5000)).onConflict().ignore().toSQL().toNative();
-    const [result] = await trx.raw(sql, bindings as readonly Knex.Value[]);
-    stored += Number((result as { affectedRows: number }).affectedRows);
+    await trx('observations').insert(rows.slice(i, i + 5000)).onConflict().ignore();
+    // Same connection (the transaction's): rows the last INSERT IGNORE actually added.
+    const [[{ n }]] = await trx.raw('SELECT ROW_COUNT() AS n');
+    stored += Number(n);
   }
   return stored;
 }

@@ -17,7 +17,8 @@ describe('ward board in a real browser', () => {
 
     // Server-rendered first paint: tiles are there before any polling.
     const first = page.getByTestId('board-tiles').locator('li').first();
-    expect(await first.getAttribute('data-concern')).toBe('below_band');
+    // Below band — or, once the sweep has raised it, an urgent escalation of that same run.
+    expect(['below_band', 'urgent_escalation']).toContain(await first.getAttribute('data-concern'));
     expect(await first.getAttribute('data-testid')).toBe('tile-4-01');
     expect(await first.getByTestId('tile-reason').textContent()).toMatch(/^Below band \d+ (min|h)/);
     expect(await first.getByTestId('tile-state').textContent()).toMatch(/^below band \d+/);

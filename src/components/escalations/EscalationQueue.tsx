@@ -71,7 +71,7 @@ function Row({ e, now, canClaim, canClose, onChange }: { e: EscalationView; now:
         {canClose && !closing && <button className="btn-quiet" onClick={() => setClosing(true)}>Close…</button>}
       </div>
       {closing && (
-        <form className="mt-3 grid max-w-xl gap-2" aria-label={`Close escalation ${e.id}`} onSubmit={(ev) => { ev.preventDefault(); void act(`/api/escalations/${e.id}/close`, { outcome: outcome || undefined, note: note || undefined }); }}>
+        <form noValidate className="mt-3 grid max-w-xl gap-2" aria-label={`Close escalation ${e.id}`} onSubmit={(ev) => { ev.preventDefault(); void act(`/api/escalations/${e.id}/close`, { outcome: outcome || undefined, note: note || undefined }); }}>
           <label className="block">
             <span className="mb-1 block font-bold">Outcome</span>
             <select className="field" value={outcome} onChange={(ev) => setOutcome(ev.target.value as Outcome)} required>

@@ -10,7 +10,7 @@ export const listEscalationsQuery = z.object({
 });
 
 export const closeSchema = z.object({
-  outcome: z.enum(OUTCOMES, { errorMap: () => ({ message: `Choose an outcome: ${OUTCOMES.join(', ')}` }) }),
+  outcome: z.enum(OUTCOMES, { errorMap: () => ({ message: 'Choose the outcome of this escalation' }) }),
   note: z.string().trim().max(1000, 'Note: 1000 characters at most').optional(),
 });
 

@@ -1,0 +1,51 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { APP_URL } from '../support/app.ts';
+import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { testDb } from '../support/db.ts';
+
+let browser: Browser;
+beforeAll(async () => { browser = await launchBrowser(); });
+afterAll(async () => { await browser?.close(); });
+
+describe('outreach queue in a real browser', () => {
+  it('outreach claims and closes the demo desaturation with an outcome, and the board tile follows', async () => {
+    // The app's sweep raises the demo bed 4-01's sustained desaturation on its own; wait for it.
+    const db = testDb();
+    let esc: { id: number } | undefined;
+    const until = Date.now() + 30_000;
+    while (!esc && Date.now() < until) {
+      esc = await db('escalations as e').join('beds as b', 'b.id', 'e.bed_id').where({ 'b.label': '4-01', 'e.kind': 'below_band', 'e.state': 'raised' }).first('e.id');
+      if (!esc) await new Promise((r) => setTimeout(r, 500));
+    }
+    await db.destroy();
+    expect(esc).toBeDefined();
+
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, 'outreach@harbourside.example');
+    await page.goto(`${APP_URL}/escalations`);
+    const row = page.getByTestId(`escalation-${esc!.id}`);
+    await row.waitFor();
+    expect(await row.textContent()).toContain('bed 4-01');
+    await row.getByRole('button', { name: 'Claim' }).click();
+    await page.waitForFunction((id) => document.querySelector(`[data-testid="escalation-${id}"]`)?.getAttribute('data-state') === 'claimed', esc!.id, { timeout: 15_000 });
+    expect(await row.getByTestId('escalation-state').textContent()).toBe('claimed by Kofi Ashgrove');
+
+    await page.goto(`${APP_URL}/board?unit=L4ICU`);
+    expect(await page.getByTestId('tile-4-01').getByTestId('tile-escalation').textContent()).toContain('claimed by Kofi Ashgrove');
+
+    await page.goto(`${APP_URL}/escalations`);
+    await row.getByRole('button', { name: 'Close…' }).click();
+    await row.getByRole('button', { name: 'Close escalation' }).click();
+    await page.getByRole('alert').filter({ hasText: 'outcome' }).first().waitFor(); // outcome is required
+    await row.getByLabel('Outcome').selectOption('reviewed_by_outreach');
+    await row.getByLabel('Note (optional)').fill('Reviewed at the bedside; FiO₂ increased, ABG sent');
+    await row.getByRole('button', { name: 'Close escalation' }).click();
+    await row.waitFor({ state: 'detached', timeout: 15_000 });
+
+    await page.goto(`${APP_URL}/board?unit=L4ICU`);
+    expect(await page.getByTestId('tile-4-01').getByTestId('tile-escalation').count()).toBe(0);
+    await context.close();
+  });
+});

@@ -68,7 +68,8 @@ describe('trend file upload: who may', () => {
 
 describe('trend file upload: preview and commit', () => {
   let patientId: number;
-  const admittedAt = Date.now() - 10 * 3_600_000;
+  // Whole seconds, so "the same second as a stored reading" below does not depend on the clock's milliseconds.
+  const admittedAt = Math.floor(Date.now() / 1000) * 1000 - 10 * 3_600_000;
   beforeAll(async () => { patientId = await patientInBed(1, new Date(admittedAt)); });
 
   it('previews with the chosen mapping without storing anything, then commits exactly what it previewed as one import', async () => {

@@ -63,7 +63,7 @@ export async function readingSecondsBetween(patientId: number, from: Date, to: D
     .whereIn('source', ['device', 'import'])
     .andWhere('taken_at', '>=', new Date(Math.floor(from.getTime() / 1000) * 1000))
     .andWhere('taken_at', '<', new Date(Math.floor(to.getTime() / 1000) * 1000 + 1000))
-    .select(conn.raw('FLOOR(UNIX_TIMESTAMP(taken_at)) as s'));
+    .select(conn.raw("TIMESTAMPDIFF(SECOND, '1970-01-01 00:00:00', taken_at) as s")); // independent of the session time zone
   return new Set(rows.map((r) => Number(r.s)));
 }
 

@@ -119,8 +119,8 @@ try {
   line('POST /api/ingest, 24 × 3,600, one client', ingestMs, floorAMs);
   line('  floor: 24 multi-row INSERTs of 3,600 from a script', floorAMs);
   line('trend-file commit, 86,400-row CSV (one request)', commitMs, floorBMs);
-  line('  floor: one transaction, multi-row INSERTs of 5,000 (mean of 2)', floorBMs);
-  line('(trend-file preview of the same file, nothing stored)', previewMs);
+  line('  floor: 1 transaction, INSERTs of 5,000 (mean of 2)', floorBMs);
+  line('  (preview of the same file, nothing stored)', previewMs);
   console.log('\nWanted: each path within 2× of its floor (× floor ≤ 2).');
 } finally {
   await db.destroy();

@@ -83,3 +83,32 @@ describe('monitor trend file upload on the bed chart', () => {
     await context.close();
   });
 });
+
+describe('device keys page', () => {
+  it('an admin makes a key for a bed, sees it once, and revokes it', async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, 'admin@harbourside.example');
+    await page.getByTestId('main-nav').getByRole('link', { name: 'Device keys' }).click();
+    await page.waitForURL(`${APP_URL}/admin/devices`);
+    await page.locator('astro-island:not([ssr])').first().waitFor();
+    const label = unique('east wall gateway ');
+    await page.getByLabel('Bed').selectOption({ label: '4-12' });
+    await page.getByLabel('Gateway or monitor').fill(label);
+    await page.getByRole('button', { name: 'Create key' }).click();
+    const key = (await page.getByTestId('new-device-key').textContent())!;
+    expect(key).toMatch(/^ebw_/);
+    await page.getByRole('button', { name: 'Done, hide it' }).click();
+    expect(await page.getByTestId('new-device-key').count()).toBe(0);
+    const row = page.getByTestId('device-key-table').locator('tr', { hasText: label });
+    expect(await row.textContent()).toContain(`${key.slice(0, 10)}…`);
+    expect(await page.content()).not.toContain(key);
+    await row.getByRole('button', { name: 'Revoke' }).click();
+    await row.getByLabel('Reason').fill('gateway moved to bay 3');
+    await row.getByRole('button', { name: 'Revoke key' }).click();
+    await row.filter({ hasText: 'revoked' }).waitFor();
+    const res = await fetch(`${APP_URL}/api/ingest`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` }, body: JSON.stringify({ readings: [{ at: new Date().toISOString(), spo2: 95 }] }) });
+    expect(res.status).toBe(401);
+    await context.close();
+  });
+});

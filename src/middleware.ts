@@ -1,15 +1,14 @@
 import { defineMiddleware } from 'astro:middleware';
-import { getSession } from 'auth-astro/server';
 import { hasRole } from './lib/auth/roles.ts';
 import { isPublicPath, pageRolesFor } from './lib/auth/page-access.ts';
 import { findActiveSessionUser } from './lib/server/queries/users.ts';
 import { errorJson } from './lib/server/http.ts';
+import { sessionUserId } from './lib/server/session.ts';
 import { startBackgroundWork } from './lib/server/background.ts';
 
 // The escalation sweep and mail outbox run in every app process (claimed row by row in MariaDB).
 startBackgroundWork();
 
-const SESSION_COOKIES = ['authjs.session-token', '__Secure-authjs.session-token'];
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 // The one place the session is read: into Astro.locals for every page and endpoint.
@@ -25,14 +24,12 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
     if (origin && origin !== ctx.url.origin) return errorJson(403, 'cross_origin', 'Requests from another site are refused.');
   }
 
-  if (path.startsWith('/api/auth/') || path.startsWith('/_astro/')) return next();
+  // Auth.js's own routes, static assets and the load balancer's health check need no user.
+  if (path.startsWith('/api/auth/') || path.startsWith('/_astro/') || path === '/api/health') return next();
 
-  const hasSessionCookie = SESSION_COOKIES.some((name) => ctx.cookies.has(name));
-  if (hasSessionCookie) {
-    const session = await getSession(ctx.request);
-    const id = Number((session?.user as { id?: unknown } | undefined)?.id);
-    if (Number.isInteger(id) && id > 0) ctx.locals.user = await findActiveSessionUser(id);
-  }
+  // The user is read from the database on every request, so a deactivated account stops at once.
+  const id = await sessionUserId((name) => ctx.cookies.get(name)?.value);
+  if (id !== null) ctx.locals.user = await findActiveSessionUser(id);
 
   if (isPublicPath(path)) return next();
 

@@ -18,22 +18,23 @@ describe('GET /api/health', () => {
 
 describe('demo seed', () => {
   it('holds the invented hospital: two units with 12 and 8 beds, one account per role', async () => {
-    const units = await db('units').orderBy('code').select('code', 'name', 'hospital');
+    // Other test files add fixture units of their own; the demo is the Harbourside units.
+    const units = await db('units').where({ hospital: 'Harbourside General' }).orderBy('code').select('code', 'name', 'hospital');
     expect(units.map((u) => u.name)).toEqual(['Level 4 ICU', 'Level 5 HDU']);
     expect(new Set(units.map((u) => u.hospital))).toEqual(new Set(['Harbourside General']));
-    const beds: { code: string; n: number }[] = await db('beds as b').join('units as u', 'u.id', 'b.unit_id').groupBy('u.code').select('u.code').count({ n: '*' });
+    const beds: { code: string; n: number }[] = await db('beds as b').join('units as u', 'u.id', 'b.unit_id').where('u.hospital', 'Harbourside General').groupBy('u.code').select('u.code').count({ n: '*' });
     expect(Object.fromEntries(beds.map((r) => [r.code, Number(r.n)]))).toEqual({ L4ICU: 12, L5HDU: 8 });
     for (const role of ['nurse', 'charge', 'intensivist', 'outreach', 'admin']) {
       expect(await db('users').where({ email: `${role}@harbourside.example`, role }).first()).toBeTruthy();
     }
     expect(demoUnits.length).toBe(2);
-    expect(await db('patients').count({ n: '*' }).first()).toEqual({ n: demoPatients.length });
+    expect(await db('patients').where('mrn', 'like', 'HG%').count({ n: '*' }).first()).toEqual({ n: demoPatients.length });
   });
 
   it('holds about 48 h of obs, charted and device', async () => {
-    const span = await db('observations').select(db.raw('TIMESTAMPDIFF(HOUR, MIN(taken_at), MAX(taken_at)) as hours')).first();
+    const span = await db('observations as o').join('patients as p', 'p.id', 'o.patient_id').where('p.mrn', 'like', 'HG%').select(db.raw('TIMESTAMPDIFF(HOUR, MIN(o.taken_at), MAX(o.taken_at)) as hours')).first();
     expect(Number(span.hours)).toBeGreaterThanOrEqual(47);
-    const sources = await db('observations').distinct('source').pluck('source');
+    const sources = await db('observations as o').join('patients as p', 'p.id', 'o.patient_id').where('p.mrn', 'like', 'HG%').whereIn('o.source', ['charted', 'device']).distinct('o.source').pluck('o.source');
     expect(sources.sort()).toEqual(['charted', 'device']);
   });
 });

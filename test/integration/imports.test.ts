@@ -36,7 +36,7 @@ const MAPPING = { time: 'Recorded', spo2: 'Sat %', heartRate: 'Pulse', perfusion
 
 function upload(session: HttpSession, patientId: number, step: 'preview' | 'commit', csv: string | Buffer, mapping: Record<string, string> = MAPPING, extra: Record<string, string> = {}) {
   const q = new URLSearchParams({ ...mapping, fileName: 'bed-monitor-export.csv', ...extra });
-  return session.request(`/api/patients/${patientId}/imports/${step}?${q}`, { method: 'POST', headers: { 'content-type': 'text/csv' }, body: csv });
+  return session.request(`/api/patients/${patientId}/imports/${step}?${q}`, { method: 'POST', headers: { 'content-type': 'text/csv' }, body: typeof csv === 'string' ? csv : new Uint8Array(csv) });
 }
 
 /** A trend file with its columns in an unusual order and names, one row a minute from `start` (ms). */

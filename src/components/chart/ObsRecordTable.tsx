@@ -231,10 +231,10 @@ function StatusWords({ o, timeZone, linkable }: { o: ObsView; timeZone: string; 
       </p>
     );
   }
-  if (o.status === 'entered_in_error') {
+  if (o.status === 'entered_in_error' || o.status === 'withdrawn') {
     return (
       <p data-testid={`status-${o.id}`}>
-        <strong>Entered in error</strong>{byWhen}
+        <strong>{o.status === 'withdrawn' ? 'Import withdrawn' : 'Entered in error'}</strong>{byWhen}
         {o.statusReason && <> — why: “{o.statusReason}”</>}
       </p>
     );

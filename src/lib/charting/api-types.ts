@@ -34,7 +34,7 @@ export interface PatientDetail extends PatientSummary {
   can: { chart: boolean; order: boolean; admit: boolean };
 }
 
-export type ObsStatus = 'current' | 'superseded' | 'entered_in_error';
+export type ObsStatus = 'current' | 'superseded' | 'entered_in_error' | 'withdrawn';
 
 export interface ObsView {
   id: number; takenAt: string; source: ReadingSource;

@@ -7,6 +7,7 @@ import type { z } from 'zod';
 import { runObservationHooks } from '../charting/observations.ts';
 import { toDeviceReading, type ingestBatchSchema } from '../../imports/reading.ts';
 import { db } from '../queries/db.ts';
+import { lockPatient } from '../queries/patients.ts';
 import { insertDeviceReadings, staysInBedBetween, touchDeviceKey, type DeviceObservationRow } from '../queries/devices.ts';
 import type { authenticateDeviceKey } from './keys.ts';
 
@@ -45,6 +46,9 @@ export async function ingestBatch(key: Key, batch: Batch, now = new Date()): Pro
     }
     let stored = 0;
     for (const [patientId, rows] of byPatient) {
+      // Patient row lock before inserting, the same order as every obs writer (no deadlock with
+      // the foreign key's shared lock); it also serialises this patient's escalation checks.
+      await lockPatient(trx, patientId);
       const n = await insertDeviceReadings(trx, rows);
       stored += n;
       // The escalation checks, once per patient per batch, in the same transaction as the readings.

@@ -3,11 +3,14 @@
  * notes patients back in band. Safe on any number of instances: each patient and each escalation
  * is claimed with a row lock (SKIP LOCKED), and one open escalation per kind is a unique index.
  */
-import { renotifyDue } from '../../escalations/decide.ts';
+import { decideEscalations, renotifyDue } from '../../escalations/decide.ts';
+import { bandState, detectConcerns, type Reading } from '../../oxygenation/index.ts';
+import { escalationSettingsOf } from '../../board/tiles.ts';
+import { recentReadings } from '../queries/board.ts';
 import { settingsFromRow } from '../../units/settings.ts';
 import { db } from '../queries/db.ts';
-import { lockUnclaimedForRenotify, patientsToSweep, tryLockPatient, insertEvent } from '../queries/escalations.ts';
-import { patientContext, recentReadingsOf } from '../queries/escalation-context.ts';
+import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '../queries/escalations.ts';
+import { patientContext, recentReadingsOf, sweepContexts } from '../queries/escalation-context.ts';
 import { toReading } from '../charting/readings.ts';
 import { CHARTED_LOOKBACK_MIN, DEVICE_LOOKBACK_MIN } from '../board/board.ts';
 import { checkPatientEscalations, notify } from './engine.ts';
@@ -16,19 +19,55 @@ export interface SweepResult { patientsChecked: number; patientsSkipped: number;
 
 export async function runSweep(now = new Date()): Promise<SweepResult> {
   const result: SweepResult = { patientsChecked: 0, patientsSkipped: 0, actions: 0, renotified: 0 };
-  const ids = await patientsToSweep(new Date(now.getTime() - CHARTED_LOOKBACK_MIN * 60_000));
-  for (const id of ids) {
+  const nowMs = now.getTime();
+  const ids = await patientsToSweep(new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000));
+  // First pass, read-only and batched: which patients would change at all? Only those get a
+  // transaction and a row lock, where the engine decides again on fresh data.
+  const due = await patientsWithActions(ids, nowMs);
+  result.patientsChecked = ids.length;
+  for (const id of due) {
     await db().transaction(async (trx) => {
       if (!(await tryLockPatient(trx, id))) {
         result.patientsSkipped += 1; // another instance is on it
         return;
       }
-      result.patientsChecked += 1;
       result.actions += (await checkPatientEscalations(trx, id, now)).length;
     });
   }
   result.renotified = await renotifyUnclaimed(now);
   return result;
+}
+
+async function patientsWithActions(ids: number[], nowMs: number): Promise<number[]> {
+  if (ids.length === 0) return [];
+  const [contexts, readings, open, closed] = await Promise.all([
+    sweepContexts(db(), ids),
+    recentReadings(ids, new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000)),
+    openForPatients(ids),
+    lastClosedRunStartsFor(ids),
+  ]);
+  const readingsBy = new Map<number, Reading[]>();
+  for (const row of readings) {
+    let list = readingsBy.get(row.patient_id);
+    if (!list) readingsBy.set(row.patient_id, (list = []));
+    list.push(toReading(row));
+  }
+  const due: number[] = [];
+  for (const c of contexts) {
+    const settings = settingsFromRow(c.outreach_emails === null ? undefined : (c as never));
+    const band = c.band_low === null ? null : { low: c.band_low, high: c.band_high! };
+    const all = readingsBy.get(c.patient_id) ?? [];
+    const judged = band ? all.filter((r) => r.at >= new Date(c.ordered_at!).getTime()) : all;
+    const concerns = detectConcerns(judged, band, nowMs, escalationSettingsOf(settings));
+    const state = bandState(judged, band, nowMs, { minPerfusionIndexPct: settings.minPerfusionIndexPct });
+    const actions = decideEscalations({
+      concerns, state,
+      open: open.filter((e) => e.patient_id === c.patient_id).map((e) => ({ id: e.id, kind: e.kind, severity: e.severity, runStart: new Date(e.run_start).getTime(), backInBandNoted: e.back_in_band_at !== null })),
+      lastClosedRunStart: Object.fromEntries(closed.filter((x) => x.patient_id === c.patient_id).map((x) => [x.kind, new Date(x.run_start).getTime()])),
+    });
+    if (actions.length > 0) due.push(c.patient_id);
+  }
+  return due;
 }
 
 /** Re-notifies unclaimed below-band escalations whose unit's re-notify time has passed (optionally one unit only). */

@@ -7,6 +7,7 @@
 import type { TrendMapping } from '../../imports/mapping.ts';
 import { TrendFileError, parseTrendCsv, type RowProblem, type TrendRow } from '../../imports/trend-csv.ts';
 import { runObservationHooks } from '../charting/observations.ts';
+import { lockPatient } from '../queries/patients.ts';
 import { authorisePatient } from '../charting/patients.ts';
 import { ApiError } from '../http.ts';
 import { db } from '../queries/db.ts';
@@ -125,6 +126,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
   let id: number;
   try {
     id = await db().transaction(async (trx) => {
+      await lockPatient(trx, patientId); // same lock order as every obs writer
       const importId = await insertImport(trx, {
         patient_id: patientId, unit_id: stay.unit_id, file_name: file.name, file_hash: file.hash, file_bytes: file.bytes.length,
         rows_in_file: preview.rowCount, rows_stored: store.length, rows_skipped: preview.outsideAdmission.count + preview.overlapping.count,
@@ -157,6 +159,8 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
 
 export async function withdrawImport(user: SessionUser, importId: number, reason: string, now = new Date()): Promise<ImportView & { readingsWithdrawn: number }> {
   const marked = await db().transaction(async (trx) => {
+    const unlocked = await findImport(importId);
+    if (unlocked) await lockPatient(trx, unlocked.patient_id); // patient first, as every obs writer
     const imp = await lockImport(trx, importId);
     if (!imp) throw new ApiError(404, 'not_found', 'No import with that id.');
     await authorisePatient(user, imp.patient_id, 'chart');

@@ -42,3 +42,23 @@ export async function recentReadingsOf(trx: Knex.Transaction, patientId: number,
   const streamed = trx('observations').select(cols).where({ patient_id: patientId, status: 'current' }).whereIn('source', ['device', 'import']).andWhere('taken_at', '>=', deviceSince);
   return trx.select('*').from(charted.unionAll(streamed, true).as('r')).orderBy('taken_at');
 }
+
+export interface SweepContextRow {
+  patient_id: number; unit_id: number; band_low: number | null; band_high: number | null; ordered_at: Date | null;
+  consecutive_charted: number | null; device_dwell_min: number | null; urgent_margin_points: number | null; urgent_floor_pct: number | null;
+  cannot_verify_min: number | null; above_on_oxygen_min: number | null; renotify_min: number | null; overdue_min: number | null; outreach_emails: string | null;
+}
+
+/** Band and unit settings of many admitted patients in one query (the sweep's read-only first pass). */
+export async function sweepContexts(conn: Knex, patientIds: number[]): Promise<SweepContextRow[]> {
+  if (patientIds.length === 0) return [];
+  const latest = conn('target_orders').whereIn('patient_id', patientIds).groupBy('patient_id').select('patient_id').max('id as id').as('lo');
+  return conn('bed_stays as s')
+    .join('beds as b', 'b.id', 's.bed_id')
+    .leftJoin('unit_settings as us', 'us.unit_id', 'b.unit_id')
+    .leftJoin(latest, 'lo.patient_id', 's.patient_id')
+    .leftJoin('target_orders as o', 'o.id', 'lo.id')
+    .whereIn('s.patient_id', patientIds).whereNull('s.ended_at')
+    .select('s.patient_id', 'b.unit_id', 'o.low as band_low', 'o.high as band_high', 'o.ordered_at', 'us.consecutive_charted', 'us.device_dwell_min',
+      'us.urgent_margin_points', 'us.urgent_floor_pct', 'us.cannot_verify_min', 'us.above_on_oxygen_min', 'us.renotify_min', 'us.overdue_min', 'us.outreach_emails');
+}

@@ -101,3 +101,10 @@ export async function tryLockPatient(trx: Knex.Transaction, patientId: number): 
   const row = await trx('patients').where({ id: patientId }).forUpdate().skipLocked().first('id');
   return row !== undefined;
 }
+
+/** Run start of the newest closed escalation of each kind, for many patients in one query. */
+export async function lastClosedRunStartsFor(patientIds: number[]): Promise<{ patient_id: number; kind: EscalationKind; run_start: Date }[]> {
+  if (patientIds.length === 0) return [];
+  return db()('escalations').whereIn('patient_id', patientIds).andWhere('state', 'closed').groupBy('patient_id', 'kind')
+    .select('patient_id', 'kind').max('run_start as run_start');
+}

@@ -7,7 +7,7 @@ export interface ObservationRow {
   spo2: number | null; heart_rate: number | null; resp_rate: number | null; fio2: string | number | null; fio2_estimated: number | boolean;
   device: string | null; flow_lpm: string | number | null; trace: 'clean' | 'weak' | 'noisy' | 'absent'; perfusion_index: string | number | null;
   probe_site: string | null; systolic: number | null; temperature: string | number | null; consciousness: string | null; note: string | null;
-  status: 'current' | 'superseded' | 'entered_in_error'; replaces_id: number | null; status_reason: string | null; status_by: number | null;
+  status: 'current' | 'superseded' | 'entered_in_error' | 'withdrawn'; replaces_id: number | null; status_reason: string | null; status_by: number | null;
   status_at: Date | null; recorded_by: number | null; recorded_at: Date;
 }
 

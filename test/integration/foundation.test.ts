@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { HttpSession, signedIn } from '../support/app.ts';
+import { startInstance } from '../support/instance.ts';
 import { createUnit, createUser, testDb } from '../support/db.ts';
 import { demoPatients, demoUnits, demoUsers } from '../../src/lib/demo/scenario.ts';
 
@@ -13,6 +14,22 @@ describe('GET /api/health', () => {
     const res = await new HttpSession().get('/api/health');
     expect(res.status).toBe(200);
     expect(await res.json()).toEqual({ db: 'ok' });
+  });
+});
+
+describe('GET /api/health when the database is down', () => {
+  it('answers 503 with a clear message', async () => {
+    // An instance of the same build pointed at a port where no MariaDB listens.
+    const instance = await startInstance(Number(new URL(process.env.APP_URL!).port) + 7, { DB_PORT: '9' });
+    try {
+      const res = await fetch(`${instance.url}/api/health`);
+      expect(res.status).toBe(503);
+      const body = await res.json();
+      expect(body.error.code).toBe('database_unavailable');
+      expect(body.error.message).toMatch(/database is not answering/);
+    } finally {
+      await instance.stop();
+    }
   });
 });
 

@@ -72,12 +72,15 @@ stop_mariadb() {
   for _ in $(seq 1 100); do kill -0 "$MARIADB_PID" 2>/dev/null || return 0; sleep 0.1; done
 }
 
-# create_database NAME USER PASSWORD: idempotent, over the root socket.
+# create_database NAME USER PASSWORD: idempotent, over the root socket; sets the password every time.
 create_database() {
   mariadb --no-defaults --socket="$DB_SOCKET" -uroot <<SQL
 CREATE DATABASE IF NOT EXISTS \`$1\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
 CREATE USER IF NOT EXISTS '$2'@'127.0.0.1' IDENTIFIED BY '$3';
 CREATE USER IF NOT EXISTS '$2'@'localhost' IDENTIFIED BY '$3';
+-- The password always follows .env, even when .env was made anew for an existing data folder.
+ALTER USER '$2'@'127.0.0.1' IDENTIFIED BY '$3';
+ALTER USER '$2'@'localhost' IDENTIFIED BY '$3';
 GRANT ALL PRIVILEGES ON \`$1\`.* TO '$2'@'127.0.0.1';
 GRANT ALL PRIVILEGES ON \`$1\`.* TO '$2'@'localhost';
 SQL

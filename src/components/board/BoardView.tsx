@@ -5,6 +5,7 @@ import type { BoardTile } from '../../lib/board/tiles.ts';
 import { formatMinutes, stateWords } from '../../lib/board/tiles.ts';
 import { DEVICE_LABELS } from '../../lib/charting/obs-input.ts';
 import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import { KIND_LABELS, type EscalationKind } from '../../lib/escalations/decide.ts';
 
 interface Props { initial: BoardResponse; me: { id: number; role: string }; pollMs?: number }
 
@@ -119,7 +120,7 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
         </dl>
         {tile.escalation && (
           <p className="mt-2 rounded bg-ink-900 px-2 py-1 text-sm text-white dark:bg-ink-700" data-testid="tile-escalation">
-            Escalation {tile.escalation.severity === 'urgent' ? 'urgent · ' : ''}{tile.escalation.state}{tile.escalation.claimedBy ? ` by ${tile.escalation.claimedBy}` : ''} · raised {timeIn(tile.escalation.raisedAt, zone).slice(0, 5)}
+            {KIND_LABELS[tile.escalation.kind as EscalationKind] ?? 'Escalation'}{tile.escalation.severity === 'urgent' ? ' · urgent' : ''} · {tile.escalation.state}{tile.escalation.claimedBy ? ` by ${tile.escalation.claimedBy}` : ''} · raised {timeIn(tile.escalation.raisedAt, zone).slice(0, 5)}
           </p>
         )}
       </div>

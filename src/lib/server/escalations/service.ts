@@ -39,7 +39,9 @@ async function unitsFor(user: SessionUser, unitCode?: string) {
 
 export async function listForUser(user: SessionUser, q: { state: 'open' | 'closed'; unit?: string; kind?: EscalationKind; patient?: number; limit: number }) {
   const units = await unitsFor(user, q.unit);
-  const rows = await listEscalations({ unitIds: units.map((u) => u.id), open: q.state === 'open', kinds: q.kind ? [q.kind] : undefined, patientId: q.patient, limit: q.limit });
+  // Wean prompts belong to the board; the queue holds what someone must act on, unless asked by kind.
+  const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check'];
+  const rows = await listEscalations({ unitIds: units.map((u) => u.id), open: q.state === 'open', kinds, patientId: q.patient, limit: q.limit });
   return rows.map(escalationView);
 }
 

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import type { HttpSession } from '../support/app.ts';
+import { countRows, createUnit, testDb, unique } from '../support/db.ts';
+import { signInPeople } from '../support/people.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
@@ -13,20 +14,12 @@ beforeAll(async () => {
   db = testDb();
   unit = await createUnit(db, 4);
   other = await createUnit(db, 2);
-  const make = async (key: string, role: string, unitId: number | null) => {
-    const u = await createUser(db, { role, unitId });
-    ids[key] = u.id;
-    s[key] = await signedIn(u.email, u.password);
-  };
-  await make('charge', 'charge', unit.unitId);
-  await make('nurse', 'nurse', unit.unitId);
-  await make('nurse2', 'nurse', unit.unitId);
-  await make('otherNurse', 'nurse', other.unitId);
-  await make('otherCharge', 'charge', other.unitId);
-  await make('intensivist', 'intensivist', null);
-  await make('outreach', 'outreach', null);
-  await make('admin', 'admin', null);
-  s.anon = new HttpSession();
+  const people = await signInPeople(db, {
+    charge: ['charge', unit.unitId], nurse: ['nurse', unit.unitId], nurse2: ['nurse', unit.unitId], otherNurse: ['nurse', other.unitId],
+    otherCharge: ['charge', other.unitId], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
+  });
+  Object.assign(s, people.sessions);
+  Object.assign(ids, people.ids);
 });
 afterAll(async () => { await db.destroy(); });
 

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import type { HttpSession } from '../support/app.ts';
+import { countRows, createUnit, testDb, unique } from '../support/db.ts';
+import { signInPeople } from '../support/people.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
@@ -13,16 +14,11 @@ beforeAll(async () => {
   db = testDb();
   unit = await createUnit(db, 6);
   other = await createUnit(db, 1);
-  const make = async (k: string, role: string, unitId: number | null) => {
-    const u = await createUser(db, { role, unitId });
-    ids[k] = u.id;
-    s[k] = await signedIn(u.email, u.password);
-  };
-  await make('nurse', 'nurse', unit.unitId);
-  await make('charge', 'charge', unit.unitId);
-  await make('otherNurse', 'nurse', other.unitId);
-  await make('intensivist', 'intensivist', null);
-  s.anon = new HttpSession();
+  const people = await signInPeople(db, {
+    nurse: ['nurse', unit.unitId], charge: ['charge', unit.unitId], otherNurse: ['nurse', other.unitId], intensivist: ['intensivist', null],
+  });
+  Object.assign(s, people.sessions);
+  Object.assign(ids, people.ids);
 });
 afterAll(async () => { await db.destroy(); });
 

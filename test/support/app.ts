@@ -74,3 +74,4 @@ export async function signedIn(email: string, password = DEMO_PASSWORD): Promise
   if (!result.ok) throw new Error(`sign-in as ${email} failed: ${result.url}`);
   return session;
 }
+

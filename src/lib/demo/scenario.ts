@@ -1,3 +1,5 @@
+import { seededRandom } from '../random.ts';
+
 /**
  * The invented demo hospital, "Harbourside General": units, beds, staff, patients and 48 h of
  * generated obs. Pure and deterministic (seeded random numbers) so the seed and its tests agree.
@@ -71,7 +73,7 @@ export const demoPatients: DemoPatient[] = [
 
 /** Obs for every demo patient from admission (at most 48 h) to `now`: hourly charted, per-minute device. */
 export function generateDemoObservations(now: Date, seed = 20261202): DemoObservation[] {
-  const rand = mulberry32(seed);
+  const rand = seededRandom(seed);
   const out: DemoObservation[] = [];
   const nowMs = Math.floor(now.getTime() / 60_000) * 60_000;
   for (const pt of demoPatients) {
@@ -144,15 +146,3 @@ function p(mrn: string, givenName: string, familyName: string, dateOfBirth: stri
 
 function range(n: number) { return Array.from({ length: n }, (_, i) => i); }
 function pad(n: number) { return String(n).padStart(2, '0'); }
-
-/** Small seeded generator (mulberry32) so the demo is the same on every machine. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}

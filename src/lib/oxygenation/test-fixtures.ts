@@ -5,17 +5,9 @@
  */
 import { beerLambertCurve, type PlethStrip } from './pleth';
 
-/** mulberry32: a small, fast, seedable PRNG so generated data are the same on every run. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededRandom } from '../random';
+
+export { seededRandom };
 
 /**
  * Arterial blood-volume pulse over one cycle (phase 0–1), peak 1: a sharp systolic wave and a

@@ -50,18 +50,22 @@ function assertCanSee(user: SessionUser, e: EscalationListRow) {
   if (!spansUnits(user.role) && e.unit_id !== user.unitId) throw new ApiError(403, 'forbidden', 'This escalation is in another unit.');
 }
 
-export async function escalationDetail(user: SessionUser, id: number) {
+/** The escalation if this user may see it; 404 or 403 otherwise. */
+async function visibleEscalation(user: SessionUser, id: number): Promise<EscalationListRow> {
   const e = await findEscalation(id);
   if (!e) throw new ApiError(404, 'not_found', 'No escalation with that id.');
   assertCanSee(user, e);
+  return e;
+}
+
+export async function escalationDetail(user: SessionUser, id: number) {
+  const e = await visibleEscalation(user, id);
   const events = await eventsOf(id);
   return { ...escalationView(e), events: events.map((v) => ({ id: Number(v.id), type: v.type, at: iso(v.at)!, actor: v.actor_name ?? 'Ebbwatch', detail: parse(v.detail) })) };
 }
 
 export async function claimEscalation(user: SessionUser, id: number, now = new Date()) {
-  const e = await findEscalation(id);
-  if (!e) throw new ApiError(404, 'not_found', 'No escalation with that id.');
-  assertCanSee(user, e);
+  const e = await visibleEscalation(user, id);
   await db().transaction(async (trx) => {
     const row = (await lockEscalation(trx, id))!;
     if (row.state === 'closed') throw new ApiError(409, 'closed', 'This escalation is already closed.');
@@ -74,9 +78,7 @@ export async function claimEscalation(user: SessionUser, id: number, now = new D
 }
 
 export async function closeEscalation(user: SessionUser, id: number, outcome: Outcome, note: string | undefined, now = new Date()) {
-  const e = await findEscalation(id);
-  if (!e) throw new ApiError(404, 'not_found', 'No escalation with that id.');
-  assertCanSee(user, e);
+  await visibleEscalation(user, id);
   await db().transaction(async (trx) => {
     const row = (await lockEscalation(trx, id))!;
     if (row.state === 'closed') throw new ApiError(409, 'closed', 'This escalation is already closed.');

@@ -78,7 +78,7 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
   const [assignError, setAssignError] = useState<string | null>(null);
   if (!tile.patient) {
     return (
-      <li className="rounded-lg border border-dashed border-ink-200 p-3 text-ink-400 dark:border-ink-700" data-testid={`tile-${tile.bedLabel}`} data-concern="empty">
+      <li className="rounded-lg border border-dashed border-ink-200 p-3 text-ink-500 dark:border-ink-700 dark:text-ink-400" data-testid={`tile-${tile.bedLabel}`} data-concern="empty">
         <span className="font-mono font-bold">{tile.bedLabel}</span> · empty
         <span className="sr-only">{tile.sentence}</span>
       </li>
@@ -112,11 +112,11 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
         {tile.latest?.belowCalibratedRange && <p className="text-sm font-bold">below calibrated range — confirm with arterial blood gas</p>}
         <p className="mt-1 text-sm" data-testid="tile-reason"><strong>{tile.concern.reason}</strong></p>
         <dl className="mt-2 grid grid-cols-2 gap-x-3 text-sm">
-          <div><dt className="inline text-ink-500">trace </dt><dd className="inline">{tile.latest ? (tile.latest.trusted ? tile.latest.trace : `${tile.latest.trace} (untrusted)`) : '—'}</dd></div>
-          <div><dt className="inline text-ink-500">HR </dt><dd className="inline">{tile.latest?.heartRate ?? '—'}</dd></div>
-          <div className="col-span-2"><dt className="inline text-ink-500">O₂ </dt><dd className="inline">{tile.oxygen.device ? DEVICE_LABELS[tile.oxygen.device] : '—'}{tile.oxygen.fio2 !== null ? ` · FiO₂ ${tile.oxygen.fio2.toFixed(2)}${tile.oxygen.fio2Estimated ? ' (est.)' : ''}` : ''}</dd></div>
-          <div><dt className="inline text-ink-500">obs </dt><dd className={`inline ${tile.overdue ? 'font-bold underline decoration-amberline-400 decoration-2' : ''}`}>{tile.minutesSinceCharted === null ? 'none' : `${formatMinutes(tile.minutesSinceCharted)} ago`}{tile.overdue ? ' · overdue' : ''}</dd></div>
-          <div><dt className="inline text-ink-500">NEWS2 </dt><dd className="inline">{tile.news2 ? tile.news2.total : 'incomplete'}</dd></div>
+          <div><dt className="inline text-ink-500 dark:text-ink-300">trace </dt><dd className="inline">{tile.latest ? (tile.latest.trusted ? tile.latest.trace : `${tile.latest.trace} (untrusted)`) : '—'}</dd></div>
+          <div><dt className="inline text-ink-500 dark:text-ink-300">HR </dt><dd className="inline">{tile.latest?.heartRate ?? '—'}</dd></div>
+          <div className="col-span-2"><dt className="inline text-ink-500 dark:text-ink-300">O₂ </dt><dd className="inline">{tile.oxygen.device ? DEVICE_LABELS[tile.oxygen.device] : '—'}{tile.oxygen.fio2 !== null ? ` · FiO₂ ${tile.oxygen.fio2.toFixed(2)}${tile.oxygen.fio2Estimated ? ' (est.)' : ''}` : ''}</dd></div>
+          <div><dt className="inline text-ink-500 dark:text-ink-300">obs </dt><dd className={`inline ${tile.overdue ? 'font-bold underline decoration-amberline-400 decoration-2' : ''}`}>{tile.minutesSinceCharted === null ? 'none' : `${formatMinutes(tile.minutesSinceCharted)} ago`}{tile.overdue ? ' · overdue' : ''}</dd></div>
+          <div><dt className="inline text-ink-500 dark:text-ink-300">NEWS2 </dt><dd className="inline">{tile.news2 ? tile.news2.total : 'incomplete'}</dd></div>
         </dl>
         {tile.escalation && (
           <p className="mt-2 rounded bg-ink-900 px-2 py-1 text-sm text-white dark:bg-ink-700" data-testid="tile-escalation">
@@ -127,14 +127,14 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
       <div className="relative z-10 mt-2 text-sm">
         {nurses ? (
           <label className="flex items-center gap-2">
-            <span className="text-ink-500">nurse</span>
+            <span className="text-ink-500 dark:text-ink-300">nurse</span>
             <select className="field py-0.5" value={tile.nurse?.id ?? ''} onChange={(e) => assign(e.target.value)} aria-label={`Nurse for bed ${tile.bedLabel}`}>
               <option value="">unassigned</option>
               {nurses.map((n) => <option key={n.id} value={n.id}>{n.name}</option>)}
             </select>
           </label>
         ) : (
-          <span className="text-ink-500">nurse {tile.nurse?.name ?? 'unassigned'}</span>
+          <span className="text-ink-500 dark:text-ink-300">nurse {tile.nurse?.name ?? 'unassigned'}</span>
         )}
         {assignError && <p role="alert" className="text-coral-700">{assignError}</p>}
       </div>

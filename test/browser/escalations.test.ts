@@ -32,8 +32,12 @@ describe('outreach queue in a real browser', () => {
     await page.waitForFunction((id) => document.querySelector(`[data-testid="escalation-${id}"]`)?.getAttribute('data-state') === 'claimed', esc!.id, { timeout: 15_000 });
     expect(await row.getByTestId('escalation-state').textContent()).toBe('claimed by Kofi Ashgrove');
 
+    const chartHref = await row.getByRole('link').first().getAttribute('href');
     await page.goto(`${APP_URL}/board?unit=L4ICU`);
     expect(await page.getByTestId('tile-4-01').getByTestId('tile-escalation').textContent()).toContain('claimed by Kofi Ashgrove');
+    await page.goto(`${APP_URL}${chartHref}`);
+    await page.getByTestId('patient-escalations').waitFor();
+    expect(await page.getByTestId('patient-escalations').textContent()).toContain('claimed by Kofi Ashgrove');
 
     await page.goto(`${APP_URL}/escalations`);
     await row.getByRole('button', { name: 'Close…' }).click();

@@ -1,0 +1,28 @@
+import useSWR from 'swr';
+import type { EscalationView } from '../../lib/server/escalations/service.ts';
+import { fetchJson } from '../../lib/client/fetch-json.ts';
+
+type List = { escalations: EscalationView[] };
+
+/** The patient's open escalations and prompts, above the bed chart; refreshed with it. */
+export default function PatientEscalations({ patientId, timeZone }: { patientId: number; timeZone: string }) {
+  const opts = { refreshInterval: 15_000 };
+  const acting = useSWR<List>(`/api/escalations?state=open&patient=${patientId}`, fetchJson, opts);
+  const wean = useSWR<List>(`/api/escalations?state=open&patient=${patientId}&kind=wean_prompt`, fetchJson, opts);
+  const list = [...(acting.data?.escalations ?? []), ...(wean.data?.escalations ?? [])];
+  if (list.length === 0) return null;
+  const time = (iso: string) => new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', hour12: false, timeZone }).format(new Date(iso));
+  return (
+    <section aria-label="Open escalations" className="mb-4 space-y-2" data-testid="patient-escalations">
+      {list.map((e) => (
+        <p key={e.id} className={`rounded-md border-l-8 bg-white p-3 shadow-sm dark:bg-ink-900 ${e.kind === 'below_band' ? 'border-coral-500' : e.kind === 'wean_prompt' ? 'border-iris-500' : 'border-ink-400'}`}>
+          <strong>{e.severity === 'urgent' ? 'URGENT · ' : ''}{e.kindLabel}</strong>
+          {' · '}raised {time(e.raisedAt)} · {e.state === 'claimed' ? `claimed by ${e.claimedBy}` : 'not yet claimed'}
+          {e.backInBandAt ? ` · back in band since ${time(e.backInBandAt)}` : ''}
+          {e.kind !== 'wean_prompt' && <> · <a className="underline" href="/escalations">outreach queue</a></>}
+          {e.kind === 'wean_prompt' && ' — above band on oxygen: consider weaning, per the treating team'}
+        </p>
+      ))}
+    </section>
+  );
+}

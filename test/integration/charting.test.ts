@@ -291,6 +291,14 @@ describe('series for the bed chart', () => {
     expect(body.derived.latest.spo2).toBe(94);
   });
 
+  it('scores NEWS2 from the newest full charted obs (RCP 2017 chart)', async () => {
+    const res = await s.otherNurse.post(`/api/patients/${patientId}/observations`, obs({ spo2: 94, device: 'simple_mask', flowLpm: 6, fio2: 0.4 }));
+    expect(res.status).toBe(201);
+    const body = await (await s.otherNurse.get(`/api/patients/${patientId}/series?hours=6`)).json();
+    // SpO₂ 94 % on Scale 1 scores 1, supplemental oxygen 2; RR 18, SBP 124, pulse 88, alert, 37.1 °C score 0.
+    expect(body.derived.latest.news2).toMatchObject({ total: 3, complete: true, missing: [], response: 'low', scale: 1 });
+  });
+
   it('refuses a window that is not 6, 12, 24 or 72 h', async () => {
     const res = await s.otherNurse.get(`/api/patients/${patientId}/series?hours=5`);
     expect(res.status).toBe(400);

@@ -3,7 +3,7 @@ import type { DerivedFigures, SeriesResponse, Spo2Point } from '../../charting/a
 import {
   bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, imputedPf, keepBelowBandRunEdges, isTrusted, lttb, news2, roxIndex, sfRatio, type Reading,
 } from '../../oxygenation/index.ts';
-import { currentReadingsBetween, type ReadingRow } from '../queries/observations.ts';
+import { currentReadingsBetween, lastChartedObservation, type ObservationListRow } from '../queries/observations.ts';
 import { ordersOf } from '../queries/orders.ts';
 import { escalationsInWindow } from '../queries/escalations.ts';
 import type { SessionUser } from '../queries/users.ts';
@@ -22,16 +22,18 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   const from = to - hours * 3_600_000;
   // Start early by the longest carry-forward so the window's first minutes are counted correctly.
   const lookBackMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * 60_000;
-  const [rows, orderRows, escalationRows] = await Promise.all([
+  const [rows, orderRows, escalationRows, newestCharted] = await Promise.all([
     currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1)),
     ordersOf(patientId),
     escalationsInWindow(patientId, new Date(from)),
+    lastChartedObservation(patientId),
   ]);
   const readings = rows.map(toReading);
   const orders = toBandOrders(orderRows);
   const inWindow = firstIndexAtOrAfter(readings, from);
   const windowReadings = readings.slice(inWindow);
-  const windowRows = rows.slice(inWindow);
+  // NEWS2 and ROX need a full charted set: the newest charted obs, when it falls in the window.
+  const chartedInWindow = newestCharted && new Date(newestCharted.taken_at).getTime() >= from ? newestCharted : undefined;
 
   const withSpo2 = windowReadings.filter((r) => r.spo2 !== null);
   const keep = keepBelowBandRunEdges(withSpo2, orders);
@@ -49,7 +51,7 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
       id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
     })),
     rawCounts: { spo2: withSpo2.length, heartRate: withHr.length },
-    derived: derivedFigures(readings, windowRows, orderRows, from, to, hours),
+    derived: derivedFigures(readings, chartedInWindow, orderRows, from, to, hours),
   };
 }
 
@@ -88,7 +90,7 @@ function bandSegments(orders: { from: number; low: number; high: number }[], fro
   return segments;
 }
 
-function derivedFigures(readings: Reading[], windowRows: ReadingRow[], orderRows: Awaited<ReturnType<typeof ordersOf>>, from: number, to: number, hours: number): DerivedFigures {
+function derivedFigures(readings: Reading[], lastCharted: ObservationListRow | undefined, orderRows: Awaited<ReturnType<typeof ordersOf>>, from: number, to: number, hours: number): DerivedFigures {
   const c = bandCompliance(readings, toBandOrders(orderRows), { from, to });
   const currentOrder = orderRows[0];
   const scale = (currentOrder ? Number(currentOrder.news2_scale) : 1) as 1 | 2;
@@ -113,9 +115,6 @@ function derivedFigures(readings: Reading[], windowRows: ReadingRow[], orderRows
     else pf = { pao2: round(r.pao2, 1), pf: round(r.pf) };
   } else pfNote = 'Needs a trusted SpO₂ and a known FiO₂';
 
-  // NEWS2 and ROX need a full charted set: the newest charted obs in the window.
-  const chartedRows = windowRows.filter((r) => r.source === 'charted');
-  const lastCharted = chartedRows[chartedRows.length - 1];
   let rox: number | null = null;
   let roxNote: string | null = null;
   let news: DerivedFigures['latest']['news2'] = null;
@@ -129,11 +128,10 @@ function derivedFigures(readings: Reading[], windowRows: ReadingRow[], orderRows
         else rox = round(r.rox, 2);
       } else roxNote = 'Needs SpO₂, FiO₂ and respiratory rate charted together';
     }
-    const full = lastCharted as ReadingRow & { systolic?: number | null; temperature?: string | number | null; consciousness?: string | null };
     const result = news2({
       respRate: lastCharted.resp_rate, spo2, onOxygen: lastCharted.device ? lastCharted.device !== 'room_air' : null,
-      systolic: full.systolic ?? null, pulse: lastCharted.heart_rate, temperature: full.temperature === null || full.temperature === undefined ? null : Number(full.temperature),
-      consciousness: (full.consciousness as never) ?? null,
+      systolic: lastCharted.systolic, pulse: lastCharted.heart_rate, temperature: lastCharted.temperature === null ? null : Number(lastCharted.temperature),
+      consciousness: (lastCharted.consciousness as never) ?? null,
     }, scale);
     news = { total: result.total, complete: result.complete, missing: result.missing, response: result.response, scale, takenAt: new Date(lastCharted.taken_at).toISOString() };
   }

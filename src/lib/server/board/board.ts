@@ -6,14 +6,10 @@ import { ApiError } from '../http.ts';
 import { boardBeds, lastChartedPerPatient, recentReadings } from '../queries/board.ts';
 import { unitSettingsRow } from '../queries/unit-settings.ts';
 import type { SessionUser } from '../queries/users.ts';
-import { toReading } from '../charting/readings.ts';
+import { readingsByPatient, recentWindow } from '../charting/readings.ts';
 import { visibleUnits } from '../charting/patients.ts';
 import { openEscalationsByPatient } from './escalation-source.ts';
 
-/** Device readings: enough for the dwell, cannot-verify and above-on-oxygen windows and a state duration. */
-export const DEVICE_LOOKBACK_MIN = 60;
-/** Charted obs are hourly: look back far enough to see the last few in a row. */
-export const CHARTED_LOOKBACK_MIN = 6 * 60;
 
 export interface BoardResponse {
   unit: { code: string; name: string; timeZone: string };
@@ -33,17 +29,12 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
   const settings = settingsFromRow(settingsRow);
   const patientIds = beds.flatMap((b) => (b.patient_id === null ? [] : [b.patient_id]));
   const [readings, lastCharted, escalations] = await Promise.all([
-    recentReadings(patientIds, new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000)),
+    recentReadings(patientIds, recentWindow(nowMs)),
     lastChartedPerPatient(patientIds),
     openEscalationsByPatient(patientIds),
   ]);
 
-  const readingsBy = new Map<number, ReturnType<typeof toReading>[]>();
-  for (const row of readings) {
-    let list = readingsBy.get(row.patient_id);
-    if (!list) readingsBy.set(row.patient_id, (list = []));
-    list.push(toReading(row));
-  }
+  const readingsBy = readingsByPatient(readings);
   const lastBy = new Map(lastCharted.map((r) => [r.patient_id, r]));
 
   const tiles = beds.map((b) => {

@@ -3,6 +3,27 @@ import type { BandOrder, OxygenDevice, Reading } from '../../oxygenation/types.t
 import type { ReadingRow } from '../queries/observations.ts';
 import type { OrderRow } from '../queries/orders.ts';
 
+/** Device readings: enough for the dwell, cannot-verify and above-on-oxygen windows and a state duration. */
+export const DEVICE_LOOKBACK_MIN = 60;
+/** Charted obs are hourly: look back far enough to see the last few in a row. */
+export const CHARTED_LOOKBACK_MIN = 6 * 60;
+
+/** The "recent readings" window the board, the escalation engine and the sweep all judge from. */
+export function recentWindow(nowMs: number): { device: Date; charted: Date } {
+  return { device: new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), charted: new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000) };
+}
+
+/** Rows of many patients (ordered by patient, then time) → each patient's readings. */
+export function readingsByPatient(rows: (ReadingRow & { patient_id: number })[]): Map<number, Reading[]> {
+  const out = new Map<number, Reading[]>();
+  for (const row of rows) {
+    let list = out.get(row.patient_id);
+    if (!list) out.set(row.patient_id, (list = []));
+    list.push(toReading(row));
+  }
+  return out;
+}
+
 export function toReading(r: ReadingRow): Reading {
   return {
     at: new Date(r.taken_at).getTime(), spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate,

@@ -11,11 +11,11 @@ import { escalationSettingsOf } from '../../board/tiles.ts';
 import { patientLabel } from '../../patients/label.ts';
 import { settingsFromRow, type UnitSettings } from '../../units/settings.ts';
 import { writeAudit } from '../queries/audit.ts';
-import { insertEscalation, insertEvent, lastClosedRunStarts, openEscalationsOf, updateEscalation, type EscalationRow } from '../queries/escalations.ts';
+import { insertEscalation, insertEvent, lastClosedRunStartsFor, openEscalationsOf, updateEscalation, type EscalationRow } from '../queries/escalations.ts';
 import { enqueueMail } from '../queries/outbox.ts';
-import { patientContext, recentReadingsOf, type PatientContext } from '../queries/escalation-context.ts';
-import { toReading } from '../charting/readings.ts';
-import { DEVICE_LOOKBACK_MIN, CHARTED_LOOKBACK_MIN } from '../board/board.ts';
+import { patientContext, type PatientContext } from '../queries/escalation-context.ts';
+import { recentReadings } from '../queries/board.ts';
+import { recentWindow, toReading } from '../charting/readings.ts';
 
 export function publicOrigin(): string {
   return (process.env.PUBLIC_ORIGIN ?? 'http://127.0.0.1:4321').replace(/\/$/, '');
@@ -27,8 +27,7 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
   if (!ctx) return []; // not in a bed: nothing to watch
   const settings = settingsFromRow(ctx.settings ?? undefined);
   const nowMs = now.getTime();
-  const rows = await recentReadingsOf(trx, patientId, new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000));
-  const all = rows.map(toReading);
+  const all = (await recentReadings([patientId], recentWindow(nowMs), trx)).map(toReading);
   const band = ctx.band ? { low: ctx.band.low, high: ctx.band.high } : null;
   // Judge only readings taken under the band in force now.
   const readings = ctx.band ? all.filter((r) => r.at >= ctx.band!.orderedAt.getTime()) : all;
@@ -37,7 +36,7 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
 
   const openRows = await openEscalationsOf(trx, patientId);
   const open: OpenEscalation[] = openRows.map((e) => ({ id: e.id, kind: e.kind, severity: e.severity, runStart: new Date(e.run_start).getTime(), backInBandNoted: e.back_in_band_at !== null }));
-  const closed = await lastClosedRunStarts(trx, patientId);
+  const closed = await lastClosedRunStartsFor([patientId], trx);
   const lastClosedRunStart = Object.fromEntries(closed.map((c) => [c.kind, new Date(c.run_start).getTime()])) as Partial<Record<EscalationKind, number>>;
 
   const actions = decideEscalations({ concerns, state, open, lastClosedRunStart });

@@ -4,15 +4,14 @@
  * is claimed with a row lock (SKIP LOCKED), and one open escalation per kind is a unique index.
  */
 import { decideEscalations, renotifyDue } from '../../escalations/decide.ts';
-import { bandState, detectConcerns, type Reading } from '../../oxygenation/index.ts';
+import { bandState, detectConcerns } from '../../oxygenation/index.ts';
 import { escalationSettingsOf } from '../../board/tiles.ts';
 import { recentReadings } from '../queries/board.ts';
 import { settingsFromRow } from '../../units/settings.ts';
 import { db } from '../queries/db.ts';
 import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '../queries/escalations.ts';
-import { patientContext, recentReadingsOf, sweepContexts } from '../queries/escalation-context.ts';
-import { toReading } from '../charting/readings.ts';
-import { CHARTED_LOOKBACK_MIN, DEVICE_LOOKBACK_MIN } from '../board/board.ts';
+import { patientContext, sweepContexts } from '../queries/escalation-context.ts';
+import { readingsByPatient, recentWindow, toReading } from '../charting/readings.ts';
 import { checkPatientEscalations, notify } from './engine.ts';
 
 export interface SweepResult { patientsChecked: number; patientsSkipped: number; actions: number; renotified: number }
@@ -20,10 +19,11 @@ export interface SweepResult { patientsChecked: number; patientsSkipped: number;
 export async function runSweep(now = new Date()): Promise<SweepResult> {
   const result: SweepResult = { patientsChecked: 0, patientsSkipped: 0, actions: 0, renotified: 0 };
   const nowMs = now.getTime();
-  const ids = await patientsToSweep(new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000));
+  const window = recentWindow(nowMs);
+  const ids = await patientsToSweep(window.charted);
   // First pass, read-only and batched: which patients would change at all? Only those get a
   // transaction and a row lock, where the engine decides again on fresh data.
-  const due = await patientsWithActions(ids, nowMs);
+  const due = await patientsWithActions(ids, nowMs, window);
   result.patientsChecked = ids.length;
   for (const id of due) {
     await db().transaction(async (trx) => {
@@ -38,20 +38,15 @@ export async function runSweep(now = new Date()): Promise<SweepResult> {
   return result;
 }
 
-async function patientsWithActions(ids: number[], nowMs: number): Promise<number[]> {
+async function patientsWithActions(ids: number[], nowMs: number, window: { device: Date; charted: Date }): Promise<number[]> {
   if (ids.length === 0) return [];
   const [contexts, readings, open, closed] = await Promise.all([
     sweepContexts(db(), ids),
-    recentReadings(ids, new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000)),
+    recentReadings(ids, window),
     openForPatients(ids),
     lastClosedRunStartsFor(ids),
   ]);
-  const readingsBy = new Map<number, Reading[]>();
-  for (const row of readings) {
-    let list = readingsBy.get(row.patient_id);
-    if (!list) readingsBy.set(row.patient_id, (list = []));
-    list.push(toReading(row));
-  }
+  const readingsBy = readingsByPatient(readings);
   const due: number[] = [];
   for (const c of contexts) {
     const settings = settingsFromRow(c.outreach_emails === null ? undefined : (c as never));
@@ -82,7 +77,7 @@ export async function renotifyUnclaimed(now: Date, onlyUnitId?: number): Promise
         await insertEvent(trx, { escalation_id: esc.id, type: 'renotified', actor_id: null, at: now, detail: { mailed: false, reason: 'Patient no longer in a bed' } });
         continue;
       }
-      const rows = await recentReadingsOf(trx, esc.patient_id, new Date(now.getTime() - DEVICE_LOOKBACK_MIN * 60_000), new Date(now.getTime() - CHARTED_LOOKBACK_MIN * 60_000));
+      const rows = await recentReadings([esc.patient_id], recentWindow(now.getTime()), trx);
       const evidence = (typeof esc.evidence === 'string' ? JSON.parse(esc.evidence) : esc.evidence) as { nadir?: number | null; rule?: string | null };
       await notify(trx, esc, ctx, settings, rows.map(toReading), `esc:${esc.id}:renotify:${esc.notify_count}`, 'renotified', now, evidence.nadir ?? null, evidence.rule ?? null);
       count += 1;

@@ -12,6 +12,3 @@ export async function writeAudit(trx: Knex.Transaction, entry: AuditEntry): Prom
   });
 }
 
-export async function auditFor(trx: Knex, entity: string, entityId: string | number) {
-  return trx('audit_log').where({ entity, entity_id: String(entityId) }).orderBy('id');
-}

@@ -1,3 +1,4 @@
+import type { Knex } from 'knex';
 import { db } from './db.ts';
 import type { ReadingRow } from './observations.ts';
 
@@ -33,13 +34,12 @@ const readingColumns = ['patient_id', 'taken_at', 'source', 'spo2', 'heart_rate'
  * `deviceSince`, charted obs since `chartedSince` (hourly obs need a longer look back for the
  * consecutive-charted rule). Ordered by patient, then time.
  */
-export async function recentReadings(patientIds: number[], deviceSince: Date, chartedSince: Date): Promise<BoardReadingRow[]> {
+export async function recentReadings(patientIds: number[], since: { device: Date; charted: Date }, k: Knex | Knex.Transaction = db()): Promise<BoardReadingRow[]> {
   if (patientIds.length === 0) return [];
-  const k = db();
   const charted = k('observations').select(readingColumns)
-    .whereIn('patient_id', patientIds).andWhere({ source: 'charted', status: 'current' }).andWhere('taken_at', '>=', chartedSince);
+    .whereIn('patient_id', patientIds).andWhere({ source: 'charted', status: 'current' }).andWhere('taken_at', '>=', since.charted);
   const streamed = k('observations').select(readingColumns)
-    .whereIn('patient_id', patientIds).whereIn('source', ['device', 'import']).andWhere('status', 'current').andWhere('taken_at', '>=', deviceSince);
+    .whereIn('patient_id', patientIds).whereIn('source', ['device', 'import']).andWhere('status', 'current').andWhere('taken_at', '>=', since.device);
   return k.select('*').from(charted.unionAll(streamed, true).as('r')).orderBy([{ column: 'patient_id' }, { column: 'taken_at' }]);
 }
 

@@ -35,14 +35,6 @@ export async function patientContext(trx: Knex.Transaction, patientId: number): 
   };
 }
 
-/** One patient's current readings: device/import since `deviceSince`, charted since `chartedSince`, oldest first. */
-export async function recentReadingsOf(trx: Knex.Transaction, patientId: number, deviceSince: Date, chartedSince: Date): Promise<ReadingRow[]> {
-  const cols = ['taken_at', 'source', 'spo2', 'heart_rate', 'resp_rate', 'fio2', 'fio2_estimated', 'device', 'flow_lpm', 'trace', 'perfusion_index'];
-  const charted = trx('observations').select(cols).where({ patient_id: patientId, source: 'charted', status: 'current' }).andWhere('taken_at', '>=', chartedSince);
-  const streamed = trx('observations').select(cols).where({ patient_id: patientId, status: 'current' }).whereIn('source', ['device', 'import']).andWhere('taken_at', '>=', deviceSince);
-  return trx.select('*').from(charted.unionAll(streamed, true).as('r')).orderBy('taken_at');
-}
-
 export interface SweepContextRow {
   patient_id: number; unit_id: number; band_low: number | null; band_high: number | null; ordered_at: Date | null;
   consecutive_charted: number | null; device_dwell_min: number | null; urgent_margin_points: number | null; urgent_floor_pct: number | null;

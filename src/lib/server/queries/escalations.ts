@@ -18,11 +18,6 @@ export async function openEscalationsOf(trx: Knex.Transaction, patientId: number
   return trx<EscalationRow>('escalations').where({ patient_id: patientId }).whereNot('state', 'closed').forUpdate();
 }
 
-/** Run start of the newest closed escalation of each kind for a patient. */
-export async function lastClosedRunStarts(trx: Knex.Transaction, patientId: number): Promise<{ kind: EscalationKind; run_start: Date }[]> {
-  return trx('escalations').where({ patient_id: patientId, state: 'closed' }).groupBy('kind').select('kind').max('run_start as run_start');
-}
-
 export async function insertEscalation(trx: Knex.Transaction, row: Omit<EscalationRow, 'id' | 'claimed_by' | 'claimed_at' | 'closed_by' | 'closed_at' | 'outcome' | 'close_note' | 'back_in_band_at' | 'evidence'> & { evidence: string }): Promise<number> {
   const [id] = await trx('escalations').insert(row);
   return id;
@@ -103,8 +98,8 @@ export async function tryLockPatient(trx: Knex.Transaction, patientId: number): 
 }
 
 /** Run start of the newest closed escalation of each kind, for many patients in one query. */
-export async function lastClosedRunStartsFor(patientIds: number[]): Promise<{ patient_id: number; kind: EscalationKind; run_start: Date }[]> {
+export async function lastClosedRunStartsFor(patientIds: number[], conn: Knex | Knex.Transaction = db()): Promise<{ patient_id: number; kind: EscalationKind; run_start: Date }[]> {
   if (patientIds.length === 0) return [];
-  return db()('escalations').whereIn('patient_id', patientIds).andWhere('state', 'closed').groupBy('patient_id', 'kind')
+  return conn('escalations').whereIn('patient_id', patientIds).andWhere('state', 'closed').groupBy('patient_id', 'kind')
     .select('patient_id', 'kind').max('run_start as run_start');
 }

@@ -77,10 +77,6 @@ export async function findBed(id: number, conn: Conn = db()): Promise<BedRow | u
     .first('b.id', 'b.label', 'b.unit_id', 'u.code as unit_code', 'u.name as unit_name', 'b.active');
 }
 
-export async function findUnitByCode(code: string, conn: Conn = db()): Promise<{ id: number; code: string; name: string; time_zone: string } | undefined> {
-  return conn('units').where({ code }).first('id', 'code', 'name', 'time_zone');
-}
-
 /** Patients whose latest stay is in one of the units; with `admittedOnly`, only those still in a bed. */
 export async function patientsInUnits(unitIds: number[], admittedOnly: boolean, conn: Conn = db()): Promise<(PatientRow & { stay_id: number })[]> {
   if (unitIds.length === 0) return [];

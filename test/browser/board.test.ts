@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { APP_URL, signedIn } from '../support/app.ts';
-import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -51,6 +51,7 @@ describe('ward board in a real browser', () => {
     const page = await context.newPage();
     await signInThroughForm(page, 'nurse@harbourside.example');
     await page.goto(`${APP_URL}/board`);
+    await waitForIsland(page, 'my-beds');
     await page.getByTestId('my-beds').check();
     const labels = await page.getByTestId('board-tiles').locator('li').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
     expect(labels.sort()).toEqual(['tile-4-01', 'tile-4-02', 'tile-4-03']);

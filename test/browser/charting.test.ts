@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -21,7 +21,7 @@ describe('bed chart in a real browser', () => {
     const page = await context.newPage();
     await signInThroughForm(page, 'nurse@harbourside.example');
     await page.goto(`${APP_URL}/patients/${patientId}`);
-    await page.getByTestId('obs-entry-form').waitFor();
+    await waitForIsland(page, 'obs-entry-form');
     const form = page.getByTestId('obs-entry-form');
     await form.getByLabel('SpO₂ (%)').fill('83');
     await form.getByLabel('Heart rate (/min)').fill('112');
@@ -45,7 +45,7 @@ describe('bed chart in a real browser', () => {
     const page = await context.newPage();
     await signInThroughForm(page, 'intensivist@harbourside.example');
     await page.goto(`${APP_URL}/patients/${patientId}`);
-    await page.getByTestId('order-form').waitFor();
+    await waitForIsland(page, 'order-form');
     const areasBefore = await page.getByTestId('chart-area').locator('.recharts-reference-area').count();
     const form = page.getByTestId('order-form');
     await form.getByRole('button', { name: /88–92/ }).first().click();

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -26,7 +26,7 @@ describe('outreach queue in a real browser', () => {
     await signInThroughForm(page, 'outreach@harbourside.example');
     await page.goto(`${APP_URL}/escalations`);
     const row = page.getByTestId(`escalation-${esc!.id}`);
-    await row.waitFor();
+    await waitForIsland(page, `escalation-${esc!.id}`);
     expect(await row.textContent()).toContain('bed 4-01');
     await row.getByRole('button', { name: 'Claim' }).click();
     await page.waitForFunction((id) => document.querySelector(`[data-testid="escalation-${id}"]`)?.getAttribute('data-state') === 'claimed', esc!.id, { timeout: 15_000 });
@@ -40,6 +40,7 @@ describe('outreach queue in a real browser', () => {
     expect(await page.getByTestId('patient-escalations').textContent()).toContain('claimed by Kofi Ashgrove');
 
     await page.goto(`${APP_URL}/escalations`);
+    await waitForIsland(page, `escalation-${esc!.id}`);
     await row.getByRole('button', { name: 'Close…' }).click();
     await row.getByRole('button', { name: 'Close escalation' }).click();
     await page.getByRole('alert').filter({ hasText: 'outcome' }).first().waitFor(); // outcome is required

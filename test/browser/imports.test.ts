@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let browser: Browser;
@@ -46,7 +46,7 @@ describe('monitor trend file upload on the bed chart', () => {
     // The island hydrates when visible: scroll to it and wait for Astro to hydrate it.
     const section = page.getByTestId('trend-upload');
     await section.scrollIntoViewIfNeeded();
-    await page.locator('astro-island:not([ssr]) [data-testid="trend-upload"]').waitFor({ timeout: 20_000 });
+    await waitForIsland(page, 'trend-upload');
 
     // A slow uplink so the progress bar is seen (Chromium network emulation, ~60 kB/s).
     const cdp = await context.newCDPSession(page);

@@ -18,3 +18,15 @@ export async function signInThroughForm(page: Page, email: string, password = DE
   await page.getByLabel('Password').fill(password);
   await Promise.all([page.waitForURL((url) => !url.pathname.startsWith('/signin') || url.search.includes('error')), page.getByRole('button', { name: 'Sign in' }).click()]);
 }
+
+/**
+ * Waits until the island holding `testId` has hydrated. Islands are server-rendered first, so
+ * their forms exist before React has attached to them; acting earlier would race the page.
+ */
+export async function waitForIsland(page: Page, testId: string, timeout = 20_000): Promise<void> {
+  await page.getByTestId(testId).first().waitFor({ timeout });
+  await page.waitForFunction((id) => {
+    const island = document.querySelector(`[data-testid="${id}"]`)?.closest('astro-island');
+    return island !== null && island !== undefined && !island.hasAttribute('ssr');
+  }, testId, { timeout });
+}

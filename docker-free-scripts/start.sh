@@ -34,8 +34,10 @@ cleanup() {
 }
 trap cleanup EXIT INT TERM
 
-export SMTP_URL="${SMTP_URL:-smtp://127.0.0.1:2525}" SMTP_FAKE_API_URL="${SMTP_FAKE_API_URL:-http://127.0.0.1:2580}"
-export SMTP_FAKE_PORT=2525 SMTP_FAKE_HTTP_PORT=2580 SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake"
+# The SMTP fake's ports can move (EBB_SMTP_PORT) so a second demo can run beside the first.
+export SMTP_FAKE_PORT="${EBB_SMTP_PORT:-2525}"
+export SMTP_FAKE_HTTP_PORT=$((SMTP_FAKE_PORT + 55)) SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake"
+export SMTP_URL="${SMTP_URL:-smtp://127.0.0.1:$SMTP_FAKE_PORT}" SMTP_FAKE_API_URL="${SMTP_FAKE_API_URL:-http://127.0.0.1:$SMTP_FAKE_HTTP_PORT}"
 log "starting the development SMTP fake on 127.0.0.1:$SMTP_FAKE_PORT (admins read it at /admin/mail)"
 mkdir -p var
 node --import tsx docker-free-scripts/smtp-fake.ts >var/smtp-fake.log 2>&1 &

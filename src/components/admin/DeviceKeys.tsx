@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
-import type { DeviceKeyView } from '../../lib/server/devices/keys.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import type { DeviceKeyView } from '~/lib/server/devices/keys.ts';
 
 interface ListResponse { keys: DeviceKeyView[]; beds: { id: number; label: string; unitCode: string; unitName: string }[] }
 

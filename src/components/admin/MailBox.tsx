@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson } from '../../lib/client/fetch-json.ts';
+import { fetchJson } from '~/lib/client/fetch-json.ts';
 
 interface OutboxItem { id: number; key: string; to: string; subject: string; status: string; attempts: number; lastError: string | null; createdAt: string; sentAt: string | null; nextAttemptAt: string; text: string }
 interface Received { id: number; receivedAt: string; messageId: string | null; key: string | null; from: string; to: string[]; subject: string; text: string; html: string }

@@ -1,6 +1,6 @@
 import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
-import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
 interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; outreachEmails: string[] }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }

@@ -1,6 +1,6 @@
 import useSWR from 'swr';
 import { useState } from 'react';
-import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
 interface UserListItem {
   id: number; email: string; name: string; role: string; unit_code: string | null; active: boolean;

@@ -1,11 +1,11 @@
 import { useMemo, useState } from 'react';
 import useSWR from 'swr';
-import type { BoardResponse } from '../../lib/server/board/board.ts';
-import type { BoardTile } from '../../lib/board/tiles.ts';
-import { formatMinutes, stateWords } from '../../lib/board/tiles.ts';
-import { DEVICE_LABELS } from '../../lib/charting/obs-input.ts';
-import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
-import { KIND_LABELS, type EscalationKind } from '../../lib/escalations/decide.ts';
+import type { BoardResponse } from '~/lib/server/board/board.ts';
+import type { BoardTile } from '~/lib/board/tiles.ts';
+import { formatMinutes, stateWords } from '~/lib/board/tiles.ts';
+import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { KIND_LABELS, type EscalationKind } from '~/lib/escalations/decide.ts';
 
 interface Props { initial: BoardResponse; me: { id: number; role: string }; pollMs?: number }
 

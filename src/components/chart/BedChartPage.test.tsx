@@ -4,7 +4,7 @@ import { cleanup, fireEvent, render, screen, waitFor } from '@testing-library/re
 import BedChartPage from './BedChartPage.tsx';
 import { chartKeys } from './chart-shared.tsx';
 import { Fresh, T0, iso, obs, patient, series, stubFetch } from './fixtures.tsx';
-import type { PatientDetail } from '../../lib/charting/api-types.ts';
+import type { PatientDetail } from '~/lib/charting/api-types.ts';
 
 afterEach(() => {
   cleanup();

@@ -10,8 +10,8 @@
  */
 import { useState } from 'react';
 import useSWR from 'swr';
-import type { PatientDetail, SeriesResponse } from '../../lib/charting/api-types.ts';
-import { ApiClientError, fetchJson } from '../../lib/client/fetch-json.ts';
+import type { PatientDetail, SeriesResponse } from '~/lib/charting/api-types.ts';
+import { ApiClientError, fetchJson } from '~/lib/client/fetch-json.ts';
 import DerivedFigures from './DerivedFigures.tsx';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import ObsRecordTable from './ObsRecordTable.tsx';

@@ -4,8 +4,8 @@
  * shows them; it computes nothing a second way. An estimated FiO₂ is always called estimated.
  */
 import type { ReactNode } from 'react';
-import type { DerivedFigures as Derived } from '../../lib/charting/api-types.ts';
-import { DEVICE_LABELS } from '../../lib/charting/obs-input.ts';
+import type { DerivedFigures as Derived } from '~/lib/charting/api-types.ts';
+import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { StateIcon, fmtFio2, formatClock } from './chart-shared.tsx';
 
 export interface DerivedFiguresProps {

@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen, waitFor } from '@testing-library/react';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import { Fresh, T0, iso, obs, stubFetch, type StubCall } from './fixtures.tsx';
-import type { ObsView } from '../../lib/charting/api-types.ts';
+import type { ObsView } from '~/lib/charting/api-types.ts';
 
 afterEach(() => {
   cleanup();

@@ -16,7 +16,7 @@
  */
 import { useId, useMemo, useRef, useState, type FormEvent, type KeyboardEvent, type ReactNode, type Ref } from 'react';
 import { format, subHours } from 'date-fns';
-import type { ObsView } from '../../lib/charting/api-types.ts';
+import type { ObsView } from '~/lib/charting/api-types.ts';
 import {
   CONSCIOUSNESS,
   CONSCIOUSNESS_LABELS,
@@ -27,9 +27,9 @@ import {
   correctionSchema,
   obsInputSchema,
   obsNotices,
-} from '../../lib/charting/obs-input.ts';
-import { ApiClientError, postJson } from '../../lib/client/fetch-json.ts';
-import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '../../lib/oxygenation/types.ts';
+} from '~/lib/charting/obs-input.ts';
+import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '~/lib/oxygenation/types.ts';
 import { apiFieldErrors, errorText, formatClock, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
 
 export interface ObsEntryFormProps {

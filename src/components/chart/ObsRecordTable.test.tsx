@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import ObsRecordTable from './ObsRecordTable.tsx';
 import { Fresh, T0, iso, obs, order, stubFetch, type StubCall } from './fixtures.tsx';
-import type { ObsPage } from '../../lib/charting/api-types.ts';
+import type { ObsPage } from '~/lib/charting/api-types.ts';
 
 afterEach(() => {
   cleanup();

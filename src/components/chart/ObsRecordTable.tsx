@@ -6,10 +6,10 @@
  */
 import { useId, useState, type FormEvent, type ReactNode } from 'react';
 import useSWR from 'swr';
-import type { ObsPage, ObsView, OrderView } from '../../lib/charting/api-types.ts';
-import { CONSCIOUSNESS_LABELS, DEVICE_LABELS, enteredInErrorSchema } from '../../lib/charting/obs-input.ts';
-import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
-import { isTrusted } from '../../lib/oxygenation/trust.ts';
+import type { ObsPage, ObsView, OrderView } from '~/lib/charting/api-types.ts';
+import { CONSCIOUSNESS_LABELS, DEVICE_LABELS, enteredInErrorSchema } from '~/lib/charting/obs-input.ts';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import {
   OBS_PAGE_SIZE,

@@ -9,8 +9,8 @@
  */
 import { useMemo } from 'react';
 import { ComposedChart, Line, ReferenceArea, ReferenceLine, ResponsiveContainer, Scatter, XAxis, YAxis, CartesianGrid } from 'recharts';
-import type { BandSegment, SeriesPoint, SeriesResponse, Spo2Point } from '../../lib/charting/api-types.ts';
-import { CALIBRATED_FLOOR_PCT } from '../../lib/charting/obs-input.ts';
+import type { BandSegment, SeriesPoint, SeriesResponse, Spo2Point } from '~/lib/charting/api-types.ts';
+import { CALIBRATED_FLOOR_PCT } from '~/lib/charting/obs-input.ts';
 import {
   StateBadge,
   StateIcon,

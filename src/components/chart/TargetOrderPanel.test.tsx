@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import TargetOrderPanel, { STALE_ORDER_MESSAGE } from './TargetOrderPanel.tsx';
 import { Fresh, T0, iso, order, stubFetch, type StubCall } from './fixtures.tsx';
-import type { OrderView } from '../../lib/charting/api-types.ts';
+import type { OrderView } from '~/lib/charting/api-types.ts';
 
 afterEach(() => {
   cleanup();

@@ -9,9 +9,9 @@
  */
 import { useId, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
-import type { OrderView } from '../../lib/charting/api-types.ts';
-import { SCALE2_MAX_HIGH, TARGET_PRESETS, targetOrderSchema } from '../../lib/charting/target-input.ts';
-import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import type { OrderView } from '~/lib/charting/api-types.ts';
+import { SCALE2_MAX_HIGH, TARGET_PRESETS, targetOrderSchema } from '~/lib/charting/target-input.ts';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { POLL_MS, apiFieldErrors, chartKeys, errorText, formatDateTime, useRefreshChart, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
 
 export interface TargetOrderPanelProps {

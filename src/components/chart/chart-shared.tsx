@@ -6,8 +6,8 @@
 import { useCallback, useId } from 'react';
 import { useSWRConfig } from 'swr';
 import type { ZodError } from 'zod';
-import type { OrderView } from '../../lib/charting/api-types.ts';
-import { ApiClientError } from '../../lib/client/fetch-json.ts';
+import type { OrderView } from '~/lib/charting/api-types.ts';
+import { ApiClientError } from '~/lib/client/fetch-json.ts';
 
 export const POLL_MS = 15_000;
 export const OBS_PAGE_SIZE = 20;

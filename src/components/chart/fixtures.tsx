@@ -4,7 +4,7 @@
  */
 import type { ReactNode } from 'react';
 import { SWRConfig } from 'swr';
-import type { ObsView, OrderView, PatientDetail, SeriesResponse } from '../../lib/charting/api-types.ts';
+import type { ObsView, OrderView, PatientDetail, SeriesResponse } from '~/lib/charting/api-types.ts';
 
 export const T0 = Date.parse('2025-03-12T12:00:00Z');
 export const iso = (ms: number) => new Date(ms).toISOString();

@@ -1,9 +1,9 @@
 import { useState } from 'react';
 import useSWR from 'swr';
-import type { EscalationView } from '../../lib/server/escalations/service.ts';
-import { OUTCOME_LABELS, OUTCOMES, type Outcome } from '../../lib/escalations/decide.ts';
-import { formatMinutes } from '../../lib/board/tiles.ts';
-import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import type { EscalationView } from '~/lib/server/escalations/service.ts';
+import { OUTCOME_LABELS, OUTCOMES, type Outcome } from '~/lib/escalations/decide.ts';
+import { formatMinutes } from '~/lib/board/tiles.ts';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
 interface Props { initial: { escalations: EscalationView[]; generatedAt: string }; me: { role: string }; unit?: string; pollMs?: number }
 

@@ -1,6 +1,6 @@
 import useSWR from 'swr';
-import type { EscalationView } from '../../lib/server/escalations/service.ts';
-import { fetchJson } from '../../lib/client/fetch-json.ts';
+import type { EscalationView } from '~/lib/server/escalations/service.ts';
+import { fetchJson } from '~/lib/client/fetch-json.ts';
 
 type List = { escalations: EscalationView[] };
 

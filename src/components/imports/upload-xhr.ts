@@ -1,5 +1,5 @@
 /** Sends a file as the request body with upload progress (fetch cannot report it), answering like fetch-json. */
-import { ApiClientError } from '../../lib/client/fetch-json.ts';
+import { ApiClientError } from '~/lib/client/fetch-json.ts';
 
 export function uploadFile<T>(url: string, file: Blob, onProgress: (fraction: number) => void): Promise<T> {
   return new Promise((resolve, reject) => {

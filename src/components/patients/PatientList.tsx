@@ -1,7 +1,7 @@
 import { useState, type FormEvent, type ReactElement } from 'react';
 import useSWR from 'swr';
-import type { PatientSummary } from '../../lib/charting/api-types.ts';
-import { ApiClientError, fetchJson, postJson } from '../../lib/client/fetch-json.ts';
+import type { PatientSummary } from '~/lib/charting/api-types.ts';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
 interface Props { unitCode: string; units: { code: string; name: string }[]; canAdmit: boolean }
 interface BedsResponse { unit: { code: string; name: string }; beds: { id: number; label: string; occupied: boolean }[] }

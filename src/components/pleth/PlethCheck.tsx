@@ -1,10 +1,10 @@
 import { useMemo, useState } from 'react';
 import useSWR from 'swr';
 import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
-import { fetchJson, postJson } from '../../lib/client/fetch-json.ts';
-import type { PatientSummary } from '../../lib/charting/api-types.ts';
-import type { StripResult } from '../../lib/server/imports/pleth.ts';
-import { uploadFile } from '../imports/upload-xhr.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import type { PatientSummary } from '~/lib/charting/api-types.ts';
+import type { StripResult } from '~/lib/server/imports/pleth.ts';
+import { uploadFile } from '~/components/imports/upload-xhr.ts';
 
 interface Props { patientId: number | null }
 interface Loaded { name: string; text: string; result: StripResult }

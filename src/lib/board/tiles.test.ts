@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import type { Reading } from '../oxygenation/types.ts';
-import { DEFAULT_UNIT_SETTINGS } from '../units/settings.ts';
+import type { Reading } from '~/lib/oxygenation/types.ts';
+import { DEFAULT_UNIT_SETTINGS } from '~/lib/units/settings.ts';
 import { buildTile, sortTiles, type BedInput } from './tiles.ts';
 
 const now = Date.UTC(2026, 11, 2, 12, 0);

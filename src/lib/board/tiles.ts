@@ -2,9 +2,9 @@
  * The ward board's tiles: state, concern and sort order for every bed of a unit, from rows the
  * server has already fetched. Pure — every clinical judgement comes from src/lib/oxygenation.
  */
-import { bandState, detectConcerns, news2, type BandStateName, type News2Response, type Reading } from '../oxygenation/index.ts';
-import type { EscalationSettings } from '../oxygenation/settings.ts';
-import type { OxygenDevice, TraceQuality } from '../oxygenation/types.ts';
+import { bandState, detectConcerns, news2, type BandStateName, type News2Response, type Reading } from '~/lib/oxygenation/index.ts';
+import type { EscalationSettings } from '~/lib/oxygenation/settings.ts';
+import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
 
 export interface BoardSettings extends EscalationSettings { overdueMin: number }
 

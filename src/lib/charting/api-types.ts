@@ -2,7 +2,7 @@
  * JSON shapes of the charting API (what the endpoints send and the islands read).
  * Times are ISO 8601 strings in UTC; islands show them in `timeZone` of the unit.
  */
-import type { OxygenDevice, ReadingSource, TraceQuality } from '../oxygenation/types.ts';
+import type { OxygenDevice, ReadingSource, TraceQuality } from '~/lib/oxygenation/types.ts';
 import type { Consciousness } from './obs-input.ts';
 
 export interface OrderView {

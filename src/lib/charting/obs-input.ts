@@ -3,7 +3,7 @@
  * API on the server, so a nurse sees the same words in both places. Pure: `now` is passed in.
  */
 import { z } from 'zod';
-import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '../oxygenation/types.ts';
+import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '~/lib/oxygenation/types.ts';
 
 export const CONSCIOUSNESS = ['alert', 'new_confusion', 'voice', 'pain', 'unresponsive'] as const;
 export type Consciousness = (typeof CONSCIOUSNESS)[number];

@@ -1,6 +1,6 @@
 /** The target-band order as the intensivist writes it: one schema for form and API. */
 import { z } from 'zod';
-import { PUBLISHED_TARGET_BANDS } from '../oxygenation/constants.ts';
+import { PUBLISHED_TARGET_BANDS } from '~/lib/oxygenation/constants.ts';
 
 export const BAND_MIN = 80;
 export const BAND_MAX = 100;

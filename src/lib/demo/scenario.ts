@@ -1,4 +1,4 @@
-import { seededRandom } from '../random.ts';
+import { seededRandom } from '~/lib/random.ts';
 
 /**
  * The invented demo hospital, "Harbourside General": units, beds, staff, patients and 48 h of

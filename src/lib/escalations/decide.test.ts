@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { BandStateResult, Concerns } from '../oxygenation/index.ts';
+import type { BandStateResult, Concerns } from '~/lib/oxygenation/index.ts';
 import { decideEscalations, renotifyDue, retryDelayMs, type OpenEscalation } from './decide.ts';
 
 const none: Concerns = { belowBand: null, cannotVerify: null, aboveOnOxygen: null };

@@ -2,7 +2,7 @@
  * What the escalation engine should do for one patient now, from the computation modules'
  * findings and the patient's escalations. Pure: the server runs the actions in one transaction.
  */
-import type { BandStateResult, Concerns } from '../oxygenation/index.ts';
+import type { BandStateResult, Concerns } from '~/lib/oxygenation/index.ts';
 
 export type EscalationKind = 'below_band' | 'probe_check' | 'wean_prompt';
 export const EMAILED_KINDS: readonly EscalationKind[] = ['below_band'];

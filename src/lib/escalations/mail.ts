@@ -2,8 +2,8 @@
  * The escalation e-mail: minimum necessary patient data (initials and last 3 of the MRN only),
  * the band, the run, the last readings, oxygen, NEWS2 when complete, a link, and the caution.
  */
-import { DEVICE_LABELS } from '../charting/obs-input.ts';
-import type { OxygenDevice, TraceQuality } from '../oxygenation/types.ts';
+import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
+import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
 import { KIND_LABELS, type EscalationKind } from './decide.ts';
 
 export interface EscalationMailInput {

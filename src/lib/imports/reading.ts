@@ -3,7 +3,7 @@
  * (POST /api/ingest) and the trend-file upload, so both refuse the same things the same way.
  */
 import { z } from 'zod';
-import { TRACE_QUALITIES, type TraceQuality } from '../oxygenation/types.ts';
+import { TRACE_QUALITIES, type TraceQuality } from '~/lib/oxygenation/types.ts';
 
 /** Plausibility limits: the same as charted obs for SpO₂ and heart rate (deliberately wide). */
 export const READING_LIMITS = {

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { analysePlethStrip } from '../oxygenation/index.ts';
+import { analysePlethStrip } from '~/lib/oxygenation/index.ts';
 import { StripFileError, parseStripCsv } from './strip-csv.ts';
 import { EXAMPLE_STRIPS, exampleStripCsv } from './strip-synth.ts';
 

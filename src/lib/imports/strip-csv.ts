@@ -3,7 +3,7 @@
  * column, and the red, infrared and dark channels (raw detector counts). Pure.
  */
 import { parse } from 'csv-parse/sync';
-import type { PlethStrip } from '../oxygenation/pleth.ts';
+import type { PlethStrip } from '~/lib/oxygenation/pleth.ts';
 import { detectDelimiter } from './mapping.ts';
 
 export const MAX_STRIP_BYTES = 2 * 1024 * 1024;

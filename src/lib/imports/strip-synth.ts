@@ -5,7 +5,7 @@
  * coefficients give at the chosen saturation (beerLambertCurve.rFromSpo2), plus ambient light
  * and a detector offset that the dark channel also sees. Deterministic (seeded).
  */
-import { beerLambertCurve } from '../oxygenation/pleth.ts';
+import { beerLambertCurve } from '~/lib/oxygenation/pleth.ts';
 
 export interface ExampleStripSpec {
   name: 'clean' | 'motion' | 'low-perfusion';

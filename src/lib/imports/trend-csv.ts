@@ -3,7 +3,7 @@
  * lists every row it refuses with its line number and reason. Pure: no IO, no clock.
  */
 import { parse } from 'csv-parse/sync';
-import { TRACE_QUALITIES, type TraceQuality } from '../oxygenation/types.ts';
+import { TRACE_QUALITIES, type TraceQuality } from '~/lib/oxygenation/types.ts';
 import { isValidWallTime, resolveRepeated, wallTimeText, zoneResolver } from './local-time.ts';
 import { detectDelimiter, type TrendMapping } from './mapping.ts';
 import { READING_LIMITS, defaultTrace } from './reading.ts';

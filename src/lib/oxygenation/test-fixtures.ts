@@ -5,7 +5,7 @@
  */
 import { beerLambertCurve, type PlethStrip } from './pleth';
 
-import { seededRandom } from '../random';
+import { seededRandom } from '~/lib/random';
 
 export { seededRandom };
 

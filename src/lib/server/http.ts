@@ -1,6 +1,6 @@
 import type { APIContext, APIRoute } from 'astro';
 import { ZodError, type ZodType, type ZodTypeDef } from 'zod';
-import { hasRole, type Role } from '../auth/roles.ts';
+import { hasRole, type Role } from '~/lib/auth/roles.ts';
 import type { SessionUser } from './queries/users.ts';
 
 /** The one error type endpoints throw; `errorResponse` turns it into the one JSON error shape. */

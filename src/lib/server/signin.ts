@@ -1,5 +1,5 @@
 import bcrypt from 'bcryptjs';
-import { afterFailedSignin, isLocked } from '../auth/lockout.ts';
+import { afterFailedSignin, isLocked } from '~/lib/auth/lockout.ts';
 import { updateSigninState, withLockedUser, type UserRow } from './queries/users.ts';
 
 export type SigninOutcome = { kind: 'ok'; user: UserRow } | { kind: 'locked'; until: Date } | { kind: 'wrong' };

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import tailwind from '../../../tailwind.config.mjs';
+import { palette } from './palette.mjs';
 import { contrastRatio } from './contrast.ts';
 
-const c = tailwind.theme!.extend!.colors as Record<string, Record<string, string>>;
+const c = palette as Record<string, Record<string, string>>;
 const white = '#ffffff';
 
 // WCAG 2.1 AA: 4.5:1 for text, 3:1 for large text and for shapes that carry meaning (1.4.3, 1.4.11).

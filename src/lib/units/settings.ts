@@ -1,6 +1,6 @@
 /** A unit's settings as the app uses them; the defaults apply to a unit no admin has configured yet. */
-import { DEFAULT_ESCALATION_SETTINGS } from '../oxygenation/settings.ts';
-import type { BoardSettings } from '../board/tiles.ts';
+import { DEFAULT_ESCALATION_SETTINGS } from '~/lib/oxygenation/settings.ts';
+import type { BoardSettings } from '~/lib/board/tiles.ts';
 
 export interface UnitSettings extends BoardSettings {
   renotifyMin: number;

@@ -1,6 +1,6 @@
 import type { APIRoute } from 'astro';
-import { json, errorJson } from '../../lib/server/http.ts';
-import { databaseAnswers } from '../../lib/server/queries/health.ts';
+import { json, errorJson } from '~/lib/server/http.ts';
+import { databaseAnswers } from '~/lib/server/queries/health.ts';
 
 /** For load balancers and the start script: 200 when the database answers, 503 when not. */
 export const GET: APIRoute = async () => {

@@ -1,8 +1,8 @@
 import { ZodError } from 'zod';
-import { ingestBatchSchema } from '../../lib/imports/reading.ts';
-import { authenticateDeviceKey } from '../../lib/server/devices/keys.ts';
-import { ingestBatch } from '../../lib/server/devices/ingest.ts';
-import { ApiError, endpoint, json, parseBody, zodFields } from '../../lib/server/http.ts';
+import { ingestBatchSchema } from '~/lib/imports/reading.ts';
+import { authenticateDeviceKey } from '~/lib/server/devices/keys.ts';
+import { ingestBatch } from '~/lib/server/devices/ingest.ts';
+import { ApiError, endpoint, json, parseBody, zodFields } from '~/lib/server/http.ts';
 
 /** A batch of 3,600 bad readings would otherwise answer with 3,600 reasons; the first ones say enough. */
 const MAX_FIELDS = 100;

@@ -1,5 +1,5 @@
-import { endpoint, json, requireRole } from '../../lib/server/http.ts';
-import { ROLES } from '../../lib/auth/roles.ts';
+import { endpoint, json, requireRole } from '~/lib/server/http.ts';
+import { ROLES } from '~/lib/auth/roles.ts';
 
 export const GET = endpoint(async ({ locals }) => {
   const user = requireRole(locals, ROLES);

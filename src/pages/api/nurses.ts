@@ -1,5 +1,5 @@
-import { endpoint, json, requireRole } from '../../lib/server/http.ts';
-import { unitNurses } from '../../lib/server/board/assignments.ts';
+import { endpoint, json, requireRole } from '~/lib/server/http.ts';
+import { unitNurses } from '~/lib/server/board/assignments.ts';
 
 /** The charge nurse's unit's nurses, for assigning beds. */
 export const GET = endpoint(async ({ locals }) => {

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { endpoint } from '../../lib/server/http.ts';
+import { endpoint } from '~/lib/server/http.ts';
 
 // Only same-site paths, so the toggle cannot be used to bounce a user to another site.
 const formSchema = z.object({ back: z.string().regex(/^\/(?!\/)/, 'must be a path on this site').max(500).default('/') });

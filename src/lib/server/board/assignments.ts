@@ -1,10 +1,10 @@
 /** The charge nurse assigns a nurse to a bed (or clears it); history is kept and audited. */
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { activeNursesOfUnit, endAssignment, findActiveUser, insertAssignment, openAssignment } from '../queries/assignments.ts';
-import { findBed } from '../queries/patients.ts';
-import type { SessionUser } from '../queries/users.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { activeNursesOfUnit, endAssignment, findActiveUser, insertAssignment, openAssignment } from '~/lib/server/queries/assignments.ts';
+import { findBed } from '~/lib/server/queries/patients.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 
 export async function assignNurse(charge: SessionUser, bedId: number, nurseId: number | null, now = new Date()) {
   const bed = await findBed(bedId);

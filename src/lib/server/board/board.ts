@@ -1,13 +1,13 @@
 /** GET /api/board: a unit's tiles in a fixed number of queries, whatever the bed count. */
-import { buildTile, sortTiles, type BedInput, type BoardTile } from '../../board/tiles.ts';
-import { patientLabel } from '../../patients/label.ts';
-import { settingsFromRow } from '../../units/settings.ts';
-import { ApiError } from '../http.ts';
-import { boardBeds, lastChartedPerPatient, recentReadings } from '../queries/board.ts';
-import { unitSettingsRow } from '../queries/unit-settings.ts';
-import type { SessionUser } from '../queries/users.ts';
-import { readingsByPatient, recentWindow } from '../charting/readings.ts';
-import { visibleUnits } from '../charting/patients.ts';
+import { buildTile, sortTiles, type BedInput, type BoardTile } from '~/lib/board/tiles.ts';
+import { patientLabel } from '~/lib/patients/label.ts';
+import { settingsFromRow } from '~/lib/units/settings.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { boardBeds, lastChartedPerPatient, recentReadings } from '~/lib/server/queries/board.ts';
+import { unitSettingsRow } from '~/lib/server/queries/unit-settings.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
+import { readingsByPatient, recentWindow } from '~/lib/server/charting/readings.ts';
+import { visibleUnits } from '~/lib/server/charting/patients.ts';
 import { openEscalationsByPatient } from './escalation-source.ts';
 
 

@@ -1,6 +1,6 @@
 /** The open escalation of each patient that matters most on a board tile: urgent below band, then below band, then the rest. */
-import type { BedInput } from '../../board/tiles.ts';
-import { openForPatients } from '../queries/escalations.ts';
+import type { BedInput } from '~/lib/board/tiles.ts';
+import { openForPatients } from '~/lib/server/queries/escalations.ts';
 
 const weight = (e: { kind: string; severity: string | null }) => (e.kind === 'below_band' ? (e.severity === 'urgent' ? 0 : 1) : e.kind === 'probe_check' ? 2 : 3);
 

@@ -2,10 +2,10 @@
  * Who may do what to which patient, decided on the server from the patient's bed now (or, once
  * discharged, the unit of their last stay).
  */
-import { spansUnits } from '../../auth/roles.ts';
-import { ApiError } from '../http.ts';
-import type { SessionUser } from '../queries/users.ts';
-import type { StayRow } from '../queries/patients.ts';
+import { spansUnits } from '~/lib/auth/roles.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
+import type { StayRow } from '~/lib/server/queries/patients.ts';
 
 export type PatientAction = 'read' | 'chart' | 'order' | 'admit';
 

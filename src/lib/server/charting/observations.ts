@@ -3,18 +3,18 @@
  * is marked superseded; "entered in error" marks the row. Every write is audited in its transaction.
  */
 import type { Knex } from 'knex';
-import type { ObsPage, ObsView } from '../../charting/api-types.ts';
-import type { ObsInput } from '../../charting/obs-input.ts';
-import { estimateFio2 } from '../../oxygenation/index.ts';
-import { ROOM_AIR_FIO2 } from '../../oxygenation/constants.ts';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { findObservation, insertObservation, lockObservation, markObservation, observationPage, type NewObservation, type ObservationRow } from '../queries/observations.ts';
-import type { SessionUser } from '../queries/users.ts';
+import type { ObsPage, ObsView } from '~/lib/charting/api-types.ts';
+import type { ObsInput } from '~/lib/charting/obs-input.ts';
+import { estimateFio2 } from '~/lib/oxygenation/index.ts';
+import { ROOM_AIR_FIO2 } from '~/lib/oxygenation/constants.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { findObservation, insertObservation, lockObservation, markObservation, observationPage, type NewObservation, type ObservationRow } from '~/lib/server/queries/observations.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
-import { lockPatient } from '../queries/patients.ts';
-import { checkPatientEscalations } from '../escalations/engine.ts';
+import { lockPatient } from '~/lib/server/queries/patients.ts';
+import { checkPatientEscalations } from '~/lib/server/escalations/engine.ts';
 import { obsView } from './views.ts';
 
 

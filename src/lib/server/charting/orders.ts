@@ -1,12 +1,12 @@
 /** Target-band orders: a new order supersedes the newest one; a writer who saw an older one gets 409. */
-import type { OrderView } from '../../charting/api-types.ts';
-import type { TargetOrderInput } from '../../charting/target-input.ts';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { insertOrder, ordersOf } from '../queries/orders.ts';
-import { lockPatient } from '../queries/patients.ts';
-import type { SessionUser } from '../queries/users.ts';
+import type { OrderView } from '~/lib/charting/api-types.ts';
+import type { TargetOrderInput } from '~/lib/charting/target-input.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { insertOrder, ordersOf } from '~/lib/server/queries/orders.ts';
+import { lockPatient } from '~/lib/server/queries/patients.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
 import { orderView } from './views.ts';
 

@@ -1,18 +1,18 @@
 /** Admit, move, discharge and read patients: each change a bed stay with who and when, audited. */
-import type { PatientDetail, PatientSummary } from '../../charting/api-types.ts';
-import type { AdmitInput } from '../../charting/patient-input.ts';
-import { spansUnits } from '../../auth/roles.ts';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { latestOrders, ordersOf } from '../queries/orders.ts';
-import { lastChartedObservation } from '../queries/observations.ts';
+import type { PatientDetail, PatientSummary } from '~/lib/charting/api-types.ts';
+import type { AdmitInput } from '~/lib/charting/patient-input.ts';
+import { spansUnits } from '~/lib/auth/roles.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { latestOrders, ordersOf } from '~/lib/server/queries/orders.ts';
+import { lastChartedObservation } from '~/lib/server/queries/observations.ts';
 import {
   endStay, findBed, findPatient, findPatientByMrn, insertPatient, insertStay, latestStays, lockPatient,
   bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
-} from '../queries/patients.ts';
-import { listUnits } from '../queries/units.ts';
-import type { SessionUser } from '../queries/users.ts';
+} from '~/lib/server/queries/patients.ts';
+import { listUnits } from '~/lib/server/queries/units.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { assertPatientAction, patientPermissions } from './access.ts';
 import { obsView, orderView, patientSummary, stayView } from './views.ts';
 

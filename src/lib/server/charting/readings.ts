@@ -1,7 +1,7 @@
 /** Database rows → the computation modules' Reading and BandOrder shapes. */
-import type { BandOrder, OxygenDevice, Reading } from '../../oxygenation/types.ts';
-import type { ReadingRow } from '../queries/observations.ts';
-import type { OrderRow } from '../queries/orders.ts';
+import type { BandOrder, OxygenDevice, Reading } from '~/lib/oxygenation/types.ts';
+import type { ReadingRow } from '~/lib/server/queries/observations.ts';
+import type { OrderRow } from '~/lib/server/queries/orders.ts';
 
 /** Device readings: enough for the dwell, cannot-verify and above-on-oxygen windows and a state duration. */
 export const DEVICE_LOOKBACK_MIN = 60;

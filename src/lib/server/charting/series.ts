@@ -1,12 +1,12 @@
 /** The bed chart's data: downsampled lines, band steps and the derived figures for one window. */
-import type { DerivedFigures, SeriesResponse, Spo2Point } from '../../charting/api-types.ts';
+import type { DerivedFigures, SeriesResponse, Spo2Point } from '~/lib/charting/api-types.ts';
 import {
   bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, imputedPf, keepBelowBandRunEdges, isTrusted, lttb, news2, roxIndex, sfRatio, type Reading,
-} from '../../oxygenation/index.ts';
-import { currentReadingsBetween, lastChartedObservation, type ObservationListRow } from '../queries/observations.ts';
-import { ordersOf } from '../queries/orders.ts';
-import { escalationsInWindow } from '../queries/escalations.ts';
-import type { SessionUser } from '../queries/users.ts';
+} from '~/lib/oxygenation/index.ts';
+import { currentReadingsBetween, lastChartedObservation, type ObservationListRow } from '~/lib/server/queries/observations.ts';
+import { ordersOf } from '~/lib/server/queries/orders.ts';
+import { escalationsInWindow } from '~/lib/server/queries/escalations.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
 import { toBandOrders, toReading } from './readings.ts';
 

@@ -1,11 +1,11 @@
 /** Database rows → the JSON shapes of src/lib/charting/api-types.ts. */
-import type { ObsView, OrderView, StayView, PatientSummary } from '../../charting/api-types.ts';
-import { obsNotices, type Consciousness } from '../../charting/obs-input.ts';
-import { patientLabel } from '../../patients/label.ts';
-import type { OxygenDevice } from '../../oxygenation/types.ts';
-import type { ObservationListRow } from '../queries/observations.ts';
-import type { OrderRow } from '../queries/orders.ts';
-import type { PatientRow, StayRow } from '../queries/patients.ts';
+import type { ObsView, OrderView, StayView, PatientSummary } from '~/lib/charting/api-types.ts';
+import { obsNotices, type Consciousness } from '~/lib/charting/obs-input.ts';
+import { patientLabel } from '~/lib/patients/label.ts';
+import type { OxygenDevice } from '~/lib/oxygenation/types.ts';
+import type { ObservationListRow } from '~/lib/server/queries/observations.ts';
+import type { OrderRow } from '~/lib/server/queries/orders.ts';
+import type { PatientRow, StayRow } from '~/lib/server/queries/patients.ts';
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null);
 const num = (v: string | number | null | undefined) => (v === null || v === undefined ? null : Number(v));

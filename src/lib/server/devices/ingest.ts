@@ -4,11 +4,11 @@
  * any write); duplicates of stored times are skipped by the database, so resending is safe.
  */
 import type { z } from 'zod';
-import { runObservationHooks } from '../charting/observations.ts';
-import { toDeviceReading, type ingestBatchSchema } from '../../imports/reading.ts';
-import { db } from '../queries/db.ts';
-import { lockPatient } from '../queries/patients.ts';
-import { insertDeviceReadings, staysInBedBetween, touchDeviceKey, type DeviceObservationRow } from '../queries/devices.ts';
+import { runObservationHooks } from '~/lib/server/charting/observations.ts';
+import { toDeviceReading, type ingestBatchSchema } from '~/lib/imports/reading.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { lockPatient } from '~/lib/server/queries/patients.ts';
+import { insertDeviceReadings, staysInBedBetween, touchDeviceKey, type DeviceObservationRow } from '~/lib/server/queries/devices.ts';
 import type { authenticateDeviceKey } from './keys.ts';
 
 export interface IngestResult {

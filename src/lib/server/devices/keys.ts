@@ -3,13 +3,13 @@
  * SHA-256 is stored. Creation and revocation are audited in their transaction.
  */
 import { createHash, randomBytes } from 'node:crypto';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { findBed } from '../queries/patients.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { findBed } from '~/lib/server/queries/patients.ts';
 import {
   activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, type DeviceKeyListRow,
-} from '../queries/devices.ts';
+} from '~/lib/server/queries/devices.ts';
 
 const KEY_PREFIX = 'ebw_';
 

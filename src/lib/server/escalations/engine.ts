@@ -4,18 +4,18 @@
  * the escalation, its timeline event, the audit entry and the outbox mail commit together or not at all.
  */
 import type { Knex } from 'knex';
-import { bandState, detectConcerns, news2 } from '../../oxygenation/index.ts';
-import { buildEscalationMail } from '../../escalations/mail.ts';
-import { decideEscalations, EMAILED_KINDS, type EscalationAction, type EscalationKind, type OpenEscalation } from '../../escalations/decide.ts';
-import { escalationSettingsOf } from '../../board/tiles.ts';
-import { patientLabel } from '../../patients/label.ts';
-import { settingsFromRow, type UnitSettings } from '../../units/settings.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { insertEscalation, insertEvent, lastClosedRunStartsFor, openEscalationsOf, updateEscalation, type EscalationRow } from '../queries/escalations.ts';
-import { enqueueMail } from '../queries/outbox.ts';
-import { patientContext, type PatientContext } from '../queries/escalation-context.ts';
-import { recentReadings } from '../queries/board.ts';
-import { recentWindow, toReading } from '../charting/readings.ts';
+import { bandState, detectConcerns, news2 } from '~/lib/oxygenation/index.ts';
+import { buildEscalationMail } from '~/lib/escalations/mail.ts';
+import { decideEscalations, EMAILED_KINDS, type EscalationAction, type EscalationKind, type OpenEscalation } from '~/lib/escalations/decide.ts';
+import { escalationSettingsOf } from '~/lib/board/tiles.ts';
+import { patientLabel } from '~/lib/patients/label.ts';
+import { settingsFromRow, type UnitSettings } from '~/lib/units/settings.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { insertEscalation, insertEvent, lastClosedRunStartsFor, openEscalationsOf, updateEscalation, type EscalationRow } from '~/lib/server/queries/escalations.ts';
+import { enqueueMail } from '~/lib/server/queries/outbox.ts';
+import { patientContext, type PatientContext } from '~/lib/server/queries/escalation-context.ts';
+import { recentReadings } from '~/lib/server/queries/board.ts';
+import { recentWindow, toReading } from '~/lib/server/charting/readings.ts';
 
 export function publicOrigin(): string {
   return (process.env.PUBLIC_ORIGIN ?? 'http://127.0.0.1:4321').replace(/\/$/, '');

@@ -1,16 +1,16 @@
 /** People's side of escalations: list, read, claim, close; and the per-unit settings. */
-import { spansUnits } from '../../auth/roles.ts';
-import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '../../escalations/decide.ts';
-import type { UnitSettingsInput } from '../../escalations/inputs.ts';
-import { patientLabel } from '../../patients/label.ts';
-import { settingsFromRow } from '../../units/settings.ts';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { eventsOf, findEscalation, insertEvent, listEscalations, lockEscalation, updateEscalation, type EscalationListRow } from '../queries/escalations.ts';
-import { unitSettingsRow, upsertUnitSettings } from '../queries/unit-settings.ts';
-import { listUnits } from '../queries/units.ts';
-import type { SessionUser } from '../queries/users.ts';
+import { spansUnits } from '~/lib/auth/roles.ts';
+import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '~/lib/escalations/decide.ts';
+import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
+import { patientLabel } from '~/lib/patients/label.ts';
+import { settingsFromRow } from '~/lib/units/settings.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { eventsOf, findEscalation, insertEvent, listEscalations, lockEscalation, updateEscalation, type EscalationListRow } from '~/lib/server/queries/escalations.ts';
+import { unitSettingsRow, upsertUnitSettings } from '~/lib/server/queries/unit-settings.ts';
+import { listUnits } from '~/lib/server/queries/units.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 const parse = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);

@@ -3,15 +3,15 @@
  * notes patients back in band. Safe on any number of instances: each patient and each escalation
  * is claimed with a row lock (SKIP LOCKED), and one open escalation per kind is a unique index.
  */
-import { decideEscalations, renotifyDue } from '../../escalations/decide.ts';
-import { bandState, detectConcerns } from '../../oxygenation/index.ts';
-import { escalationSettingsOf } from '../../board/tiles.ts';
-import { recentReadings } from '../queries/board.ts';
-import { settingsFromRow } from '../../units/settings.ts';
-import { db } from '../queries/db.ts';
-import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '../queries/escalations.ts';
-import { patientContext, sweepContexts } from '../queries/escalation-context.ts';
-import { readingsByPatient, recentWindow, toReading } from '../charting/readings.ts';
+import { decideEscalations, renotifyDue } from '~/lib/escalations/decide.ts';
+import { bandState, detectConcerns } from '~/lib/oxygenation/index.ts';
+import { escalationSettingsOf } from '~/lib/board/tiles.ts';
+import { recentReadings } from '~/lib/server/queries/board.ts';
+import { settingsFromRow } from '~/lib/units/settings.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '~/lib/server/queries/escalations.ts';
+import { patientContext, sweepContexts } from '~/lib/server/queries/escalation-context.ts';
+import { readingsByPatient, recentWindow, toReading } from '~/lib/server/charting/readings.ts';
 import { checkPatientEscalations, notify } from './engine.ts';
 
 export interface SweepResult { patientsChecked: number; patientsSkipped: number; actions: number; renotified: number }

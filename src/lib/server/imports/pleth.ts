@@ -3,15 +3,15 @@
  * this module only shapes the answer for the page and keeps checks attached to a record.
  */
 import { createHash } from 'node:crypto';
-import { CLINICAL_ROLES, hasRole } from '../../auth/roles.ts';
-import { StripFileError, parseStripCsv } from '../../imports/strip-csv.ts';
-import { analysePlethStrip, beerLambertCurve, type PlethAnalysis } from '../../oxygenation/index.ts';
-import { authorisePatient } from '../charting/patients.ts';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
-import { insertPlethCheck, observationOfPatient, plethChecksOf, recentReadingsOf } from '../queries/imports.ts';
-import type { SessionUser } from '../queries/users.ts';
+import { CLINICAL_ROLES, hasRole } from '~/lib/auth/roles.ts';
+import { StripFileError, parseStripCsv } from '~/lib/imports/strip-csv.ts';
+import { analysePlethStrip, beerLambertCurve, type PlethAnalysis } from '~/lib/oxygenation/index.ts';
+import { authorisePatient } from '~/lib/server/charting/patients.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
+import { insertPlethCheck, observationOfPatient, plethChecksOf, recentReadingsOf } from '~/lib/server/queries/imports.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 
 /** Points per waveform sent to the page: a strip of a minute at 100 Hz is drawn whole. */
 const MAX_WAVE_POINTS = 6000;

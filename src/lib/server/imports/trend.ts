@@ -4,20 +4,20 @@
  * The file is sent again with the commit and parsed the same way, so what is stored is exactly
  * what the preview showed for that file (the hash ties the two).
  */
-import type { TrendMapping } from '../../imports/mapping.ts';
-import { TrendFileError, parseTrendCsv, type RowProblem, type TrendRow } from '../../imports/trend-csv.ts';
-import { runObservationHooks } from '../charting/observations.ts';
-import { lockPatient } from '../queries/patients.ts';
-import { authorisePatient } from '../charting/patients.ts';
-import { ApiError } from '../http.ts';
-import { db } from '../queries/db.ts';
-import { writeAudit } from '../queries/audit.ts';
+import type { TrendMapping } from '~/lib/imports/mapping.ts';
+import { TrendFileError, parseTrendCsv, type RowProblem, type TrendRow } from '~/lib/imports/trend-csv.ts';
+import { runObservationHooks } from '~/lib/server/charting/observations.ts';
+import { lockPatient } from '~/lib/server/queries/patients.ts';
+import { authorisePatient } from '~/lib/server/charting/patients.ts';
+import { ApiError } from '~/lib/server/http.ts';
+import { db } from '~/lib/server/queries/db.ts';
+import { writeAudit } from '~/lib/server/queries/audit.ts';
 import {
   activeImportOfFile, findImport, importsOf, insertImport, insertImportReadings, lockImport, markImportWithdrawn, readingSecondsBetween,
   saveUnitMapping, unitMapping, withdrawImportReadings, type ImportListRow,
-} from '../queries/imports.ts';
-import { staysOf, type StayRow } from '../queries/patients.ts';
-import type { SessionUser } from '../queries/users.ts';
+} from '~/lib/server/queries/imports.ts';
+import { staysOf, type StayRow } from '~/lib/server/queries/patients.ts';
+import type { SessionUser } from '~/lib/server/queries/users.ts';
 import type { UploadedFile } from './upload.ts';
 
 /** How many refused rows and examples the preview lists in full (the counts are always exact). */

@@ -1,6 +1,6 @@
 /** Reads a raw request body up to a size limit (the trend file or strip itself, not JSON). */
 import { createHash } from 'node:crypto';
-import { ApiError } from '../http.ts';
+import { ApiError } from '~/lib/server/http.ts';
 
 export interface UploadedFile { name: string; bytes: Buffer; hash: string; text: string }
 

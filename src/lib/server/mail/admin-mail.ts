@@ -1,5 +1,5 @@
 /** What the admin mail page shows: the outbox (always) and, in development, what the SMTP fake received. */
-import { recentOutbox } from '../queries/outbox.ts';
+import { recentOutbox } from '~/lib/server/queries/outbox.ts';
 
 export async function mailOverview(limit = 50) {
   const outbox = (await recentOutbox(limit)).map((r) => ({

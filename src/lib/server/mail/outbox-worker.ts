@@ -7,8 +7,8 @@
 import { hostname } from 'node:os';
 import { randomUUID } from 'node:crypto';
 import type { Transporter } from 'nodemailer';
-import { retryDelayMs } from '../../escalations/decide.ts';
-import { claimDueMail, markRetry, markSent } from '../queries/outbox.ts';
+import { retryDelayMs } from '~/lib/escalations/decide.ts';
+import { claimDueMail, markRetry, markSent } from '~/lib/server/queries/outbox.ts';
 import { mailFrom, mailTransport } from './transport.ts';
 
 export const WORKER_ID = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;

@@ -1,5 +1,5 @@
 import knexFactory, { type Knex } from 'knex';
-import { connectionFromEnv } from '../../../../knexfile.ts';
+import { connectionFromEnv } from './connection.ts';
 
 // One pool per process, created on first use so a page that needs no data opens no connection.
 let instance: Knex | undefined;

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { db } from './db.ts';
-import type { EscalationKind } from '../../escalations/decide.ts';
+import type { EscalationKind } from '~/lib/escalations/decide.ts';
 
 export interface EscalationRow {
   id: number; patient_id: number; unit_id: number; bed_id: number | null; kind: EscalationKind; severity: 'standard' | 'urgent' | null;

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { db } from './db.ts';
-import type { Role } from '../../auth/roles.ts';
+import type { Role } from '~/lib/auth/roles.ts';
 
 export interface UserRow {
   id: number; email: string; name: string; role: Role; unit_id: number | null; password_hash: string;

@@ -1,5 +1,5 @@
-import { endpoint, json, requireRole } from '../../../lib/server/http.ts';
-import { mailOverview } from '../../../lib/server/mail/admin-mail.ts';
+import { endpoint, json, requireRole } from '~/lib/server/http.ts';
+import { mailOverview } from '~/lib/server/mail/admin-mail.ts';
 
 export const GET = endpoint(async ({ locals }) => {
   requireRole(locals, ['admin']);

@@ -1,8 +1,8 @@
 import { z } from 'zod';
-import { admitSchema } from '../../../lib/charting/patient-input.ts';
-import { CLINICAL_ROLES } from '../../../lib/auth/roles.ts';
-import { endpoint, json, parseBody, parseQuery, requireRole } from '../../../lib/server/http.ts';
-import { admitPatient, listPatients } from '../../../lib/server/charting/patients.ts';
+import { admitSchema } from '~/lib/charting/patient-input.ts';
+import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { endpoint, json, parseBody, parseQuery, requireRole } from '~/lib/server/http.ts';
+import { admitPatient, listPatients } from '~/lib/server/charting/patients.ts';
 
 const listQuery = z.object({
   unit: z.string().max(16).optional(),

@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { createDeviceKey, listKeys } from '../../../../lib/server/devices/keys.ts';
-import { endpoint, json, parseBody, requireRole } from '../../../../lib/server/http.ts';
+import { createDeviceKey, listKeys } from '~/lib/server/devices/keys.ts';
+import { endpoint, json, parseBody, requireRole } from '~/lib/server/http.ts';
 
 const createSchema = z.object({
   bedId: z.number({ required_error: 'Choose a bed', invalid_type_error: 'Choose a bed' }).int().positive(),

@@ -1,5 +1,5 @@
-import { endpoint, json, requireRole } from '../../../../lib/server/http.ts';
-import { listUsers } from '../../../../lib/server/queries/users.ts';
+import { endpoint, json, requireRole } from '~/lib/server/http.ts';
+import { listUsers } from '~/lib/server/queries/users.ts';
 
 export const GET = endpoint(async ({ locals }) => {
   requireRole(locals, ['admin']);

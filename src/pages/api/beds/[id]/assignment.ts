@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import { idParam } from '../../../../lib/charting/patient-input.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { assignNurse } from '../../../../lib/server/board/assignments.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { assignNurse } from '~/lib/server/board/assignments.ts';
 
 const body = z.object({ nurseId: z.number({ invalid_type_error: 'Choose a nurse, or null to clear' }).int().positive().nullable() });
 

@@ -1,6 +1,6 @@
-import { idParam } from '../../../../lib/charting/patient-input.ts';
-import { endpoint, json, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { claimEscalation } from '../../../../lib/server/escalations/service.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { endpoint, json, parseParams, requireRole } from '~/lib/server/http.ts';
+import { claimEscalation } from '~/lib/server/escalations/service.ts';
 
 export const POST = endpoint(async ({ locals, params }) => {
   const user = requireRole(locals, ['nurse', 'charge', 'outreach']);

@@ -1,7 +1,7 @@
-import { idParam } from '../../../../lib/charting/patient-input.ts';
-import { closeSchema } from '../../../../lib/escalations/inputs.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { closeEscalation } from '../../../../lib/server/escalations/service.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { closeSchema } from '~/lib/escalations/inputs.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { closeEscalation } from '~/lib/server/escalations/service.ts';
 
 export const POST = endpoint(async ({ locals, params, request }) => {
   const user = requireRole(locals, ['charge', 'outreach']);

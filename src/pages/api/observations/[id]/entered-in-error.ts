@@ -1,7 +1,7 @@
-import { idParam } from '../../../../lib/charting/patient-input.ts';
-import { enteredInErrorSchema } from '../../../../lib/charting/obs-input.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { markEnteredInError } from '../../../../lib/server/charting/observations.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { enteredInErrorSchema } from '~/lib/charting/obs-input.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { markEnteredInError } from '~/lib/server/charting/observations.ts';
 
 export const POST = endpoint(async ({ locals, params, request }) => {
   const user = requireRole(locals, ['nurse', 'charge']);

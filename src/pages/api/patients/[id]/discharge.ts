@@ -1,6 +1,6 @@
-import { dischargeSchema, idParam } from '../../../../lib/charting/patient-input.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { dischargePatient } from '../../../../lib/server/charting/patients.ts';
+import { dischargeSchema, idParam } from '~/lib/charting/patient-input.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { dischargePatient } from '~/lib/server/charting/patients.ts';
 
 export const POST = endpoint(async ({ locals, params, request }) => {
   const user = requireRole(locals, ['charge']);

@@ -1,6 +1,6 @@
-import { idParam, moveSchema } from '../../../../lib/charting/patient-input.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { movePatient } from '../../../../lib/server/charting/patients.ts';
+import { idParam, moveSchema } from '~/lib/charting/patient-input.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { movePatient } from '~/lib/server/charting/patients.ts';
 
 export const POST = endpoint(async ({ locals, params, request }) => {
   const user = requireRole(locals, ['charge']);

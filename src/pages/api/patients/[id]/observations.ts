@@ -1,9 +1,9 @@
 import { z } from 'zod';
-import { CLINICAL_ROLES } from '../../../../lib/auth/roles.ts';
-import { idParam } from '../../../../lib/charting/patient-input.ts';
-import { obsInputSchema } from '../../../../lib/charting/obs-input.ts';
-import { endpoint, json, parseBody, parseParams, parseQuery, requireRole } from '../../../../lib/server/http.ts';
-import { chartObservation, listObservations } from '../../../../lib/server/charting/observations.ts';
+import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { obsInputSchema } from '~/lib/charting/obs-input.ts';
+import { endpoint, json, parseBody, parseParams, parseQuery, requireRole } from '~/lib/server/http.ts';
+import { chartObservation, listObservations } from '~/lib/server/charting/observations.ts';
 
 const pageQuery = z.object({
   page: z.coerce.number().int().min(1).max(100_000).default(1),

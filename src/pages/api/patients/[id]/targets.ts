@@ -1,8 +1,8 @@
-import { CLINICAL_ROLES } from '../../../../lib/auth/roles.ts';
-import { idParam } from '../../../../lib/charting/patient-input.ts';
-import { targetOrderSchema } from '../../../../lib/charting/target-input.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { listOrders, orderTarget } from '../../../../lib/server/charting/orders.ts';
+import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { targetOrderSchema } from '~/lib/charting/target-input.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { listOrders, orderTarget } from '~/lib/server/charting/orders.ts';
 
 export const GET = endpoint(async ({ locals, params }) => {
   const user = requireRole(locals, CLINICAL_ROLES);

@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import { CLINICAL_ROLES } from '../../../../lib/auth/roles.ts';
-import { endpoint, json, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { unitBeds } from '../../../../lib/server/charting/patients.ts';
+import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { endpoint, json, parseParams, requireRole } from '~/lib/server/http.ts';
+import { unitBeds } from '~/lib/server/charting/patients.ts';
 
 const params = z.object({ code: z.string().min(1).max(16) });
 

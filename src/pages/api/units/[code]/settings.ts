@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import { unitSettingsSchema } from '../../../../lib/escalations/inputs.ts';
-import { endpoint, json, parseBody, parseParams, requireRole } from '../../../../lib/server/http.ts';
-import { readUnitSettings, writeUnitSettings } from '../../../../lib/server/escalations/service.ts';
+import { unitSettingsSchema } from '~/lib/escalations/inputs.ts';
+import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
+import { readUnitSettings, writeUnitSettings } from '~/lib/server/escalations/service.ts';
 
 const params = z.object({ code: z.string().min(1).max(16) });
 

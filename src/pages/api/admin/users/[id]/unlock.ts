@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { ApiError, endpoint, json, parseParams, requireRole } from '../../../../../lib/server/http.ts';
-import { unlockAccount } from '../../../../../lib/server/accounts.ts';
+import { ApiError, endpoint, json, parseParams, requireRole } from '~/lib/server/http.ts';
+import { unlockAccount } from '~/lib/server/accounts.ts';
 
 const paramsSchema = z.object({ id: z.coerce.number().int().positive() });
 

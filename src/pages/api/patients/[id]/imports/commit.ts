@@ -1,6 +1,6 @@
-import { idParam } from '../../../../../lib/charting/patient-input.ts';
-import { endpoint, json, parseParams, requireRole } from '../../../../../lib/server/http.ts';
-import { commitTrend } from '../../../../../lib/server/imports/trend.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { endpoint, json, parseParams, requireRole } from '~/lib/server/http.ts';
+import { commitTrend } from '~/lib/server/imports/trend.ts';
 import { readTrendUpload } from './_upload.ts';
 
 export const POST = endpoint(async ({ locals, params, request, url }) => {

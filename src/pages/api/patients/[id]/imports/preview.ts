@@ -1,6 +1,6 @@
-import { idParam } from '../../../../../lib/charting/patient-input.ts';
-import { endpoint, json, parseParams, requireRole } from '../../../../../lib/server/http.ts';
-import { previewTrend } from '../../../../../lib/server/imports/trend.ts';
+import { idParam } from '~/lib/charting/patient-input.ts';
+import { endpoint, json, parseParams, requireRole } from '~/lib/server/http.ts';
+import { previewTrend } from '~/lib/server/imports/trend.ts';
 import { readTrendUpload } from './_upload.ts';
 
 // Nothing is stored: the answer says what a commit of this file would store, skip and refuse.

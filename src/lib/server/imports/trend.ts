@@ -5,7 +5,7 @@
  * what the preview showed for that file (the hash ties the two).
  */
 import type { TrendMapping } from '~/lib/imports/mapping.ts';
-import { TrendFileError, parseTrendCsv, type RowProblem, type TrendRow } from '~/lib/imports/trend-csv.ts';
+import { TrendFileError, groupRefusals, parseTrendCsv, type RefusalGroup, type RowProblem, type TrendRow, type UnfitColumn } from '~/lib/imports/trend-csv.ts';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
@@ -47,8 +47,9 @@ export interface TrendPreview {
   span: { first: string; last: string } | null;
   outsideAdmission: { count: number; examples: { line: number; at: string }[] };
   overlapping: { count: number; examples: { line: number; at: string }[] };
-  refused: { count: number; rows: RowProblem[] };
+  refused: { count: number; rows: RowProblem[]; groups: RefusalGroup[] };
   notes: RowProblem[];
+  unfitColumns: UnfitColumn[];
   alreadyImported: { importId: number; committedAt: string; committedBy: string; samePatient: boolean } | null;
 }
 
@@ -93,8 +94,9 @@ async function plan(user: SessionUser, patientId: number, file: UploadedFile, ma
       span: parsed.rows.length ? { first: new Date(first).toISOString(), last: new Date(last).toISOString() } : null,
       outsideAdmission: { count: outside.length, examples: example(outside) },
       overlapping: { count: overlapping.length, examples: example(overlapping) },
-      refused: { count: parsed.refused.length, rows: parsed.refused.slice(0, LIST_LIMIT) },
+      refused: { count: parsed.refused.length, rows: parsed.refused.slice(0, LIST_LIMIT), groups: groupRefusals(parsed.refused) },
       notes: parsed.notes.slice(0, LIST_LIMIT),
+      unfitColumns: parsed.unfitColumns,
       alreadyImported: earlier
         ? { importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }
         : null,

@@ -6,11 +6,11 @@ import { formatMinutes, stateWords } from '~/lib/board/tiles.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { KIND_LABELS, type EscalationKind } from '~/lib/escalations/decide.ts';
+import { formatClockSeconds } from '~/lib/time/format.ts';
 
 interface Props { initial: BoardResponse; me: { id: number; role: string }; pollMs?: number }
 
-const timeIn = (iso: string | number, zone: string) =>
-  new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false, timeZone: zone }).format(new Date(iso));
+const timeIn = (iso: string | number, zone: string) => formatClockSeconds(iso, zone);
 
 /** The ward board: server-rendered first, then kept fresh by polling; stale data is said plainly. */
 export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {

@@ -4,6 +4,7 @@ import type { EscalationView } from '~/lib/server/escalations/service.ts';
 import { OUTCOME_LABELS, OUTCOMES, type Outcome } from '~/lib/escalations/decide.ts';
 import { formatMinutes } from '~/lib/board/tiles.ts';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { formatWhen } from '~/lib/time/format.ts';
 
 interface Props { initial: { escalations: EscalationView[]; generatedAt: string }; me: { role: string }; unit?: string; pollMs?: number }
 
@@ -58,7 +59,7 @@ function Row({ e, now, canClaim, canClose, onChange }: { e: EscalationView; now:
         <span>raised {formatMinutes(since)} ago</span>
         <span data-testid="escalation-state">{e.state === 'claimed' ? `claimed by ${e.claimedBy}` : 'not yet claimed'}</span>
         {e.notifyCount > 1 && <span>{e.notifyCount} e-mails sent</span>}
-        {e.backInBandAt && <span className="font-bold text-glass-700">back in band since {new Date(e.backInBandAt).toLocaleTimeString()}</span>}
+        {e.backInBandAt && <span className="font-bold text-glass-700">back in band since {formatWhen(e.backInBandAt, e.unit.timeZone, now)}</span>}
       </div>
       {e.evidence?.band && (
         <p className="mt-1 text-sm text-ink-600 dark:text-ink-300">

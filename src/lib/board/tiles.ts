@@ -5,6 +5,7 @@
 import { bandState, detectConcerns, news2, type BandStateName, type News2Response, type Reading } from '~/lib/oxygenation/index.ts';
 import type { EscalationSettings } from '~/lib/oxygenation/settings.ts';
 import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
+import { formatMinutes } from '~/lib/time/format.ts';
 
 export interface BoardSettings extends EscalationSettings { overdueMin: number }
 
@@ -131,12 +132,8 @@ export function stateWords(tile: Pick<BoardTile, 'state' | 'band' | 'latest'> & 
   }
 }
 
-export function formatMinutes(min: number): string {
-  if (min < 60) return `${min} min`;
-  const h = Math.floor(min / 60);
-  const m = min % 60;
-  return m === 0 ? `${h} h` : `${h} h ${m} min`;
-}
+/** Spans of minutes in words come from the one time-formatting module. */
+export { formatMinutes };
 
 function concernOf(t: BoardTile): BoardTile['concern'] {
   const rank = (key: ConcernKey) => CONCERN_ORDER.indexOf(key);

@@ -5,6 +5,7 @@
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
 import { KIND_LABELS, type EscalationKind } from './decide.ts';
+import { formatClock } from '~/lib/time/format.ts';
 
 export interface EscalationMailInput {
   hospital: string; unitName: string; bedLabel: string; patientLabel: string; timeZone: string;
@@ -23,8 +24,7 @@ export const MAIL_CAUTION =
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
 export function buildEscalationMail(m: EscalationMailInput): { subject: string; text: string; html: string } {
-  const fmt = new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', hour12: false, timeZone: m.timeZone });
-  const time = (t: number) => fmt.format(new Date(t));
+  const time = (t: number) => formatClock(t, m.timeZone);
   const severity = m.severity === 'urgent' ? 'URGENT ' : '';
   const again = m.renotify > 0 ? ` (reminder ${m.renotify}, not yet claimed)` : '';
   const subject = `[Ebbwatch] ${severity}${KIND_LABELS[m.kind]} — ${m.unitName} bed ${m.bedLabel}${again}`;

@@ -19,7 +19,7 @@ export function escalationView(e: EscalationListRow) {
   return {
     id: e.id, kind: e.kind, kindLabel: KIND_LABELS[e.kind], severity: e.severity, state: e.state,
     raisedAt: iso(e.raised_at)!, runStart: iso(e.run_start)!, runEnd: iso(e.run_end)!,
-    unit: { code: e.unit_code, name: e.unit_name }, bedLabel: e.bed_label,
+    unit: { code: e.unit_code, name: e.unit_name, timeZone: e.unit_time_zone }, bedLabel: e.bed_label,
     patient: { id: e.patient_id, label: patientLabel(e.given_name, e.family_name, e.mrn) },
     claimedBy: e.claimed_by_name, claimedAt: iso(e.claimed_at), closedBy: e.closed_by_name, closedAt: iso(e.closed_at),
     outcome: e.outcome, outcomeLabel: e.outcome ? OUTCOME_LABELS[e.outcome as Outcome | 'condition_cleared'] : null, closeNote: e.close_note,

@@ -10,7 +10,7 @@ export interface EscalationRow {
 }
 
 export interface EscalationListRow extends EscalationRow {
-  unit_code: string; unit_name: string; bed_label: string | null; given_name: string; family_name: string; mrn: string;
+  unit_code: string; unit_name: string; unit_time_zone: string; bed_label: string | null; given_name: string; family_name: string; mrn: string;
   claimed_by_name: string | null; closed_by_name: string | null;
 }
 
@@ -42,7 +42,7 @@ function listQuery(conn: Knex | Knex.Transaction) {
     .join('patients as p', 'p.id', 'e.patient_id')
     .leftJoin('users as cb', 'cb.id', 'e.claimed_by')
     .leftJoin('users as xb', 'xb.id', 'e.closed_by')
-    .select('e.*', 'u.code as unit_code', 'u.name as unit_name', 'b.label as bed_label', 'p.given_name', 'p.family_name', 'p.mrn',
+    .select('e.*', 'u.code as unit_code', 'u.name as unit_name', 'u.time_zone as unit_time_zone', 'b.label as bed_label', 'p.given_name', 'p.family_name', 'p.mrn',
       'cb.name as claimed_by_name', 'xb.name as closed_by_name');
 }
 

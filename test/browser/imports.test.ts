@@ -103,7 +103,7 @@ describe('trend upload: a column that does not fit (issue 10 point 10)', () => {
     await unfit.waitFor({ timeout: 20_000 });
     expect(await unfit.textContent()).toContain('Column “Signal”, mapped as trace quality, does not fit: 27 of 30 rows were refused for its values (such as “ok”)');
     const groups = await page.getByTestId('refused-groups').textContent();
-    expect(groups).toContain('quality is not one of clean, weak, noisy, absent2745, 6, 7, 8, 9, …');
+    expect(groups).toContain('quality is not one of clean, weak, noisy, absent275, 6, 7, 8, 9, …');
     expect(groups).toContain('SpO₂ over 100 %32, 3, 4');
     await page.getByRole('button', { name: 'Leave “Signal” unmapped' }).click();
     expect(await page.getByLabel('Trace quality column').inputValue()).toBe('');

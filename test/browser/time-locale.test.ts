@@ -33,8 +33,8 @@ async function read(context: BrowserContext) {
   const form = page.getByTestId('obs-entry-form');
   const out = {
     record: (await page.getByTestId('obs-record').locator('tbody').textContent()) ?? '',
-    date: await form.getByLabel('Date taken').inputValue(),
-    time: await form.getByLabel('Time taken').inputValue(),
+    date: await form.getByLabel('Date taken', { exact: true }).inputValue(),
+    time: await form.getByLabel('Time taken', { exact: true }).inputValue(),
     dateInputs: await page.locator('input[type="datetime-local"], input[type="date"], input[type="time"]').count(),
     chartText: (await page.locator('main').textContent()) ?? '',
     patients: '',

@@ -78,7 +78,7 @@ describe('trend file upload: preview and commit', () => {
     const { preview } = await res.json();
     expect(preview).toMatchObject({ rowCount: 120, readable: 119, toStore: 119, fileName: 'bed-monitor-export.csv', timeZone: 'Europe/London' });
     expect(preview.span).toEqual({ first: new Date(start).toISOString(), last: new Date(start + 119 * 60_000).toISOString() });
-    expect(preview.refused).toEqual({ count: 1, rows: [{ line: 9, reason: 'SpO₂ "n/a" is not a number' }] });
+    expect(preview.refused).toMatchObject({ count: 1, rows: [{ line: 9, reason: 'SpO₂ "n/a" is not a number' }], groups: [{ reason: 'SpO₂ is not a number', field: 'spo2', count: 1, firstLines: [9] }] });
     expect(preview.headers).toEqual(['Signal', 'Pulse', 'Bed', 'Recorded', 'PI', 'Sat %']);
     expect(await countRows(db, 'observations')).toBe(obsBefore);
     expect(await countRows(db, 'observation_imports')).toBe(impBefore);

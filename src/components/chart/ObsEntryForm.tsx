@@ -303,7 +303,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
               <input {...fieldProps('takenAt')} type="text" inputMode="numeric" autoComplete="off" placeholder="hh:mm" size={6}
                 aria-label="Time taken" onChange={(e) => set('takenAt', e.target.value)} />
             </label>
-            <span className="flex gap-1" role="group" aria-label="Set the time taken">
+            <span className="flex gap-1" role="group" aria-label="Quick times">
               <button type="button" className="btn-quiet" onClick={() => setTakenAgo(0)}>Now</button>
               {QUICK_MINUTES.map((m) => <button key={m} type="button" className="btn-quiet" onClick={() => setTakenAgo(m)} aria-label={`${m} minutes ago`}>−{m} min</button>)}
             </span>

@@ -4,11 +4,9 @@
  * the escalation, its timeline event, the audit entry and the outbox mail commit together or not at all.
  */
 import type { Knex } from 'knex';
-import { bandState, detectConcerns, news2 } from '~/lib/oxygenation/index.ts';
-import { buildEscalationMail } from '~/lib/escalations/mail.ts';
+import { bandState, detectConcerns } from '~/lib/oxygenation/index.ts';
 import { decideEscalations, EMAILED_KINDS, type EscalationAction, type EscalationKind, type OpenEscalation } from '~/lib/escalations/decide.ts';
 import { escalationSettingsOf } from '~/lib/board/tiles.ts';
-import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow, type UnitSettings } from '~/lib/units/settings.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { insertEscalation, insertEvent, lastClosedRunStartsFor, openEscalationsOf, updateEscalation, type EscalationRow } from '~/lib/server/queries/escalations.ts';
@@ -16,10 +14,11 @@ import { enqueueMail } from '~/lib/server/queries/outbox.ts';
 import { patientContext, type PatientContext } from '~/lib/server/queries/escalation-context.ts';
 import { recentReadings } from '~/lib/server/queries/board.ts';
 import { recentWindow, toReading } from '~/lib/server/charting/readings.ts';
+import { escalationMail } from './mail-input.ts';
+import { publicOrigin } from './claim-links.ts';
 
-export function publicOrigin(): string {
-  return (process.env.PUBLIC_ORIGIN ?? 'http://127.0.0.1:4321').replace(/\/$/, '');
-}
+export { publicOrigin };
+
 
 /** Runs the checks for a patient whose row the caller's transaction has locked. */
 export async function checkPatientEscalations(trx: Knex.Transaction, patientId: number, now: Date): Promise<EscalationAction[]> {
@@ -88,31 +87,12 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
 
 /** Queues the mail for an escalation (first notice, urgent upgrade or reminder) and records it. */
 export async function notify(
-  trx: Knex.Transaction, esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'>, ctx: PatientContext,
+  trx: Knex.Transaction, esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'> & { last_notified_at?: Date | null }, ctx: PatientContext,
   settings: UnitSettings, readings: ReturnType<typeof toReading>[], key: string, eventType: 'notified' | 'renotified', now: Date,
   nadir: number | null, rule: string | null,
 ): Promise<void> {
-  const lastCharted = [...readings].reverse().find((r) => r.source === 'charted');
-  const oxygenFrom = [...readings].reverse().find((r) => r.fio2 !== null && r.fio2 !== undefined);
-  let news: { total: number; scale: 1 | 2 } | null = null;
-  if (ctx.lastCharted) {
-    const scale = (ctx.band?.news2Scale ?? 1) as 1 | 2;
-    const n = news2({
-      respRate: ctx.lastCharted.resp_rate, spo2: ctx.lastCharted.spo2, onOxygen: ctx.lastCharted.device ? ctx.lastCharted.device !== 'room_air' : null,
-      systolic: ctx.lastCharted.systolic, pulse: ctx.lastCharted.heart_rate, temperature: ctx.lastCharted.temperature === null ? null : Number(ctx.lastCharted.temperature),
-      consciousness: ctx.lastCharted.consciousness as never,
-    }, scale);
-    if (n.complete && n.total !== null) news = { total: n.total, scale };
-  }
   const renotify = eventType === 'renotified' ? esc.notify_count : 0;
-  const mail = buildEscalationMail({
-    hospital: ctx.hospital, unitName: ctx.unitName, bedLabel: ctx.bedLabel, patientLabel: patientLabel(ctx.givenName, ctx.familyName, ctx.mrn), timeZone: ctx.timeZone,
-    kind: esc.kind, severity: esc.severity, renotify, band: ctx.band ?? { low: 0, high: 0 },
-    run: { start: new Date(esc.run_start).getTime(), end: new Date(esc.run_end).getTime(), nadir, rule },
-    lastReadings: readings.slice(-6).map((r) => ({ at: r.at, spo2: r.spo2, trace: r.trace, heartRate: r.heartRate ?? null, source: r.source })),
-    oxygen: { fio2: oxygenFrom?.fio2 ?? null, fio2Estimated: Boolean(oxygenFrom?.fio2Estimated), device: oxygenFrom?.device ?? lastCharted?.device ?? null },
-    news2: news, link: `${publicOrigin()}/patients/${ctx.patientId}`,
-  });
+  const mail = await escalationMail(trx, { esc, ctx, settings, readings, renotify, previousNoticeAt: esc.last_notified_at ?? null, nadir, rule, now });
   const to = settings.outreachEmails;
   if (to.length === 0) {
     // No list configured: the escalation stands on the board and queue; the timeline says why no mail went.

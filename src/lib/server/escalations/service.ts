@@ -1,4 +1,5 @@
 /** People's side of escalations: list, read, claim, close; and the per-unit settings. */
+import type { Knex } from 'knex';
 import { spansUnits } from '~/lib/auth/roles.ts';
 import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '~/lib/escalations/decide.ts';
 import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
@@ -65,16 +66,22 @@ export async function escalationDetail(user: SessionUser, id: number) {
 }
 
 export async function claimEscalation(user: SessionUser, id: number, now = new Date()) {
-  const e = await visibleEscalation(user, id);
-  await db().transaction(async (trx) => {
-    const row = (await lockEscalation(trx, id))!;
-    if (row.state === 'closed') throw new ApiError(409, 'closed', 'This escalation is already closed.');
-    if (row.state === 'claimed') throw new ApiError(409, 'already_claimed', `Already claimed by ${e.claimed_by_name ?? 'someone else'}.`);
-    await updateEscalation(trx, id, { state: 'claimed', claimed_by: user.id, claimed_at: now });
-    await insertEvent(trx, { escalation_id: id, type: 'claimed', actor_id: user.id, at: now });
-    await writeAudit(trx, { actorId: user.id, action: 'escalation.claim', entity: 'escalation', entityId: id, before: { state: row.state }, after: { state: 'claimed' }, at: now });
-  });
+  await db().transaction((trx) => claimInTransaction(trx, user, id, now));
   return escalationDetail(user, id);
+}
+
+const CLAIMING_ROLES = ['nurse', 'charge', 'outreach'];
+
+/** Claims in the caller's transaction (the claim button, or an e-mail claim link spending its token). */
+export async function claimInTransaction(trx: Knex.Transaction, user: SessionUser, id: number, now: Date, via?: string): Promise<void> {
+  if (!CLAIMING_ROLES.includes(user.role)) throw new ApiError(403, 'forbidden', 'Only nurses, charge nurses and outreach claim escalations.');
+  const e = await visibleEscalation(user, id);
+  const row = (await lockEscalation(trx, id))!;
+  if (row.state === 'closed') throw new ApiError(409, 'closed', 'This escalation is already closed.');
+  if (row.state === 'claimed') throw new ApiError(409, 'already_claimed', `Already claimed by ${e.claimed_by_name ?? 'someone else'}.`);
+  await updateEscalation(trx, id, { state: 'claimed', claimed_by: user.id, claimed_at: now });
+  await insertEvent(trx, { escalation_id: id, type: 'claimed', actor_id: user.id, at: now, ...(via ? { detail: { via } } : {}) });
+  await writeAudit(trx, { actorId: user.id, action: 'escalation.claim', entity: 'escalation', entityId: id, before: { state: row.state }, after: { state: 'claimed', ...(via ? { via } : {}) }, at: now });
 }
 
 export async function closeEscalation(user: SessionUser, id: number, outcome: Outcome, note: string | undefined, now = new Date()) {
@@ -103,7 +110,8 @@ export async function readUnitSettings(user: SessionUser, code: string) {
   return {
     unit: { code: unit.code, name: unit.name }, configured: row !== undefined,
     settings: { consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin, urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct,
-      cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin, renotifyMin: s.renotifyMin, overdueMin: s.overdueMin, outreachEmails: s.outreachEmails },
+      cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin, renotifyMin: s.renotifyMin, overdueMin: s.overdueMin, outreachEmails: s.outreachEmails,
+      unitPhone: s.unitPhone, monitorSilentMin: s.monitorSilentMin, silentBelowProbeMin: s.silentBelowProbeMin },
     updatedAt: row ? iso(row.updated_at) : null,
   };
 }
@@ -115,7 +123,8 @@ export async function writeUnitSettings(admin: SessionUser, code: string, input:
     const row = {
       unit_id: unit.id, consecutive_charted: input.consecutiveCharted, device_dwell_min: input.deviceDwellMin, urgent_margin_points: input.urgentMarginPoints,
       urgent_floor_pct: input.urgentFloorPct, cannot_verify_min: input.cannotVerifyMin, above_on_oxygen_min: input.aboveOnOxygenMin, renotify_min: input.renotifyMin,
-      overdue_min: input.overdueMin, outreach_emails: input.outreachEmails.join(', '), updated_by: admin.id, updated_at: now,
+      overdue_min: input.overdueMin, outreach_emails: input.outreachEmails.join(', '),
+      unit_phone: input.unitPhone ?? null, monitor_silent_min: input.monitorSilentMin, silent_below_probe_min: input.silentBelowProbeMin, updated_by: admin.id, updated_at: now,
     };
     await upsertUnitSettings(trx, row);
     await writeAudit(trx, { actorId: admin.id, action: 'unit.settings', entity: 'unit', entityId: unit.id, before: before ?? null, after: row, at: now });

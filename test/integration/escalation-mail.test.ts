@@ -107,7 +107,7 @@ describe('escalation e-mail (issue 10 point 7)', () => {
     const after = await db('escalations').where({ id: esc.id }).first();
     expect(after.state).toBe('claimed');
     const ev = await db('escalation_events').where({ escalation_id: esc.id, type: 'claimed' }).first();
-    expect(JSON.parse(ev.detail)).toEqual({ via: 'e-mail link' });
+    expect(typeof ev.detail === 'string' ? JSON.parse(ev.detail) : ev.detail).toEqual({ via: 'e-mail link' });
     expect((await db('escalation_claim_tokens').where({ escalation_id: esc.id }).first()).used_at).not.toBeNull();
 
     const again = await s.nurse.get(path);

@@ -11,7 +11,9 @@ import { patientLabel } from '~/lib/patients/label.ts';
 import type { UnitSettings } from '~/lib/units/settings.ts';
 import type { PatientContext } from '~/lib/server/queries/escalation-context.ts';
 import { bedsideNurseName } from '~/lib/server/queries/mail-context.ts';
-import type { toReading } from '~/lib/server/charting/readings.ts';
+import { toChartedObs } from '~/lib/server/charting/readings.ts';
+import { news2InputOf } from '~/lib/charting/charted-obs.ts';
+import type { Reading } from '~/lib/oxygenation/index.ts';
 import { issueClaimLink, publicOrigin } from './claim-links.ts';
 
 /** Readings of this many minutes before the newest go into the mail (collapsed per minute when dense). */
@@ -19,7 +21,7 @@ const MAIL_WINDOW_MS = 10 * 60_000;
 
 export interface MailFor {
   esc: { id: number; kind: EscalationKind; severity: 'standard' | 'urgent' | null; run_start: Date; run_end: Date };
-  ctx: PatientContext; settings: UnitSettings; readings: ReturnType<typeof toReading>[];
+  ctx: PatientContext; settings: UnitSettings; readings: Reading[];
   renotify: number; previousNoticeAt: Date | null; nadir: number | null; rule: string | null; now: Date;
 }
 
@@ -30,11 +32,7 @@ export async function escalationMail(trx: Knex.Transaction, f: MailFor): Promise
   let news: { total: number; scale: 1 | 2 } | { missing: NonNullable<ReturnType<typeof news2>['missing']> } | null = null;
   if (ctx.lastCharted) {
     const scale = (ctx.band?.news2Scale ?? 1) as 1 | 2;
-    const n = news2({
-      respRate: ctx.lastCharted.resp_rate, spo2: ctx.lastCharted.spo2, onOxygen: ctx.lastCharted.device ? ctx.lastCharted.device !== 'room_air' : null,
-      systolic: ctx.lastCharted.systolic, pulse: ctx.lastCharted.heart_rate, temperature: ctx.lastCharted.temperature === null ? null : Number(ctx.lastCharted.temperature),
-      consciousness: ctx.lastCharted.consciousness as never,
-    }, scale);
+    const n = news2(news2InputOf(toChartedObs(ctx.lastCharted)), scale);
     news = n.complete && n.total !== null ? { total: n.total, scale } : { missing: n.missing };
   }
   const newest = readings.length ? readings[readings.length - 1]!.at : 0;

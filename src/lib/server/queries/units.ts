@@ -16,8 +16,8 @@ export async function displayTimeZone(unitId: number | null | undefined): Promis
     const own = await db()('units').where({ id: unitId }).first('time_zone');
     if (own) return own.time_zone;
   }
-  const common = await db()('units').select('time_zone').count({ n: '*' }).groupBy('time_zone').orderBy('n', 'desc').first();
-  return (common?.time_zone as string | undefined) ?? 'UTC';
+  const common = (await db()('units').select('time_zone').count({ n: '*' }).groupBy('time_zone').orderBy('n', 'desc').first()) as { time_zone?: string } | undefined;
+  return common?.time_zone ?? 'UTC';
 }
 
 export interface CensusRow {

@@ -176,7 +176,7 @@ export function detectConcerns(
       streakFirst = -1;
       streakCount = 0;
     }
-    if (at + stands > coveredUntil) coveredUntil = at + stands;
+    coveredUntil = at + stands; // a newer reading ends an older one's carry, as in band compliance
     oxygen.update(r, i);
     if (!trusted) {
       if (streakFirst < 0) streakFirst = i;
@@ -345,7 +345,7 @@ export function bandState(
       trustedState = 'no_reading';
       untrustedSince = NaN;
     }
-    if (at + gap > coveredUntil) coveredUntil = at + gap;
+    coveredUntil = at + gap; // a newer reading ends an older one's carry, as in band compliance
     lastTrusted = trusted;
     if (!trusted) {
       if (Number.isNaN(untrustedSince)) untrustedSince = at;

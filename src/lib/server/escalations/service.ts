@@ -1,5 +1,8 @@
 /** People's side of escalations: list, read, claim, close; and the per-unit settings. */
 import type { Knex } from 'knex';
+import { isTrusted, type Reading } from '~/lib/oxygenation/index.ts';
+import { readingsByPatient } from '~/lib/server/charting/readings.ts';
+import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
 import { spansUnits } from '~/lib/auth/roles.ts';
 import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '~/lib/escalations/decide.ts';
 import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
@@ -17,7 +20,9 @@ const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 const parse = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
 export function escalationView(e: EscalationListRow) {
+  const minutes = (a: Date | null, b: Date | null) => (a && b ? Math.max(0, Math.round((new Date(b).getTime() - new Date(a).getTime()) / 60_000)) : null);
   return {
+    raisedToClaimedMin: minutes(e.raised_at, e.claimed_at), claimedToClosedMin: minutes(e.claimed_at, e.closed_at),
     id: e.id, kind: e.kind, kindLabel: KIND_LABELS[e.kind], severity: e.severity, state: e.state,
     raisedAt: iso(e.raised_at)!, runStart: iso(e.run_start)!, runEnd: iso(e.run_end)!,
     unit: { code: e.unit_code, name: e.unit_name, timeZone: e.unit_time_zone }, bedLabel: e.bed_label,
@@ -42,8 +47,32 @@ export async function listForUser(user: SessionUser, q: { state: 'open' | 'close
   const units = await unitsFor(user, q.unit);
   // Wean prompts belong to the board; the queue holds what someone must act on, unless asked by kind.
   const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check'];
-  const rows = await listEscalations({ unitIds: units.map((u) => u.id), open: q.state === 'open', kinds, patientId: q.patient, limit: q.limit });
-  return rows.map(escalationView);
+  const now = Date.now();
+  const rows = await listEscalations({
+    unitIds: units.map((u) => u.id), open: q.state === 'open', kinds, patientId: q.patient, limit: q.limit,
+    // The Closed tab: the last seven days.
+    ...(q.state === 'closed' ? { closedSince: new Date(now - CLOSED_DAYS * 24 * 3_600_000) } : {}),
+  });
+  const views = rows.map(escalationView);
+  if (q.state !== 'open' || views.length === 0) return views;
+  // Open ones carry the patient's SpO₂ now (with its time) and the last 30 minutes as a small trend.
+  const readings = readingsByPatient(await recentReadings([...new Set(views.map((v) => v.patient.id))], { device: new Date(now - TREND_MIN * 60_000), charted: new Date(now - 75 * 60_000) }));
+  return views.map((v) => ({ ...v, ...spo2Now(readings.get(v.patient.id) ?? [], now) }));
+}
+
+const CLOSED_DAYS = 7;
+const TREND_MIN = 30;
+
+/** The newest SpO₂ reading and one point a minute (the minute's last value) over the last 30 minutes. */
+function spo2Now(readings: Reading[], now: number): { current: { spo2: number; at: string; source: string; trusted: boolean } | null; trend: { t: number; v: number }[] } {
+  const withSpo2 = readings.filter((r) => r.spo2 !== null && r.at <= now);
+  const last = withSpo2[withSpo2.length - 1];
+  const perMinute = new Map<number, number>();
+  for (const r of withSpo2) if (r.at >= now - TREND_MIN * 60_000) perMinute.set(Math.floor(r.at / 60_000), r.spo2!);
+  return {
+    current: last ? { spo2: last.spo2!, at: new Date(last.at).toISOString(), source: last.source, trusted: isTrusted(last) } : null,
+    trend: [...perMinute].map(([m, v]) => ({ t: m * 60_000, v })),
+  };
 }
 
 function assertCanSee(user: SessionUser, e: EscalationListRow) {

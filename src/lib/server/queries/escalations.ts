@@ -46,12 +46,13 @@ function listQuery(conn: Knex | Knex.Transaction) {
       'cb.name as claimed_by_name', 'xb.name as closed_by_name');
 }
 
-export async function listEscalations(filter: { unitIds: number[]; open: boolean; kinds?: EscalationKind[]; patientId?: number; limit: number }): Promise<EscalationListRow[]> {
+export async function listEscalations(filter: { unitIds: number[]; open: boolean; kinds?: EscalationKind[]; patientId?: number; limit: number; closedSince?: Date }): Promise<EscalationListRow[]> {
   const q = listQuery(db()).whereIn('e.unit_id', filter.unitIds).orderBy('e.raised_at', filter.open ? 'asc' : 'desc').limit(filter.limit);
   if (filter.open) q.whereNot('e.state', 'closed');
   else q.where('e.state', 'closed');
   if (filter.kinds) q.whereIn('e.kind', filter.kinds);
   if (filter.patientId) q.where('e.patient_id', filter.patientId);
+  if (filter.closedSince) q.where('e.closed_at', '>=', filter.closedSince);
   return q;
 }
 

@@ -79,8 +79,10 @@ export async function openForPatients(patientIds: number[]): Promise<(Escalation
 }
 
 /** Raised (unclaimed) e-mailed escalations, claimed row by row so two instances never both re-notify. */
-export async function lockUnclaimedForRenotify(trx: Knex.Transaction, onlyUnitId?: number, limit = 50): Promise<EscalationRow[]> {
+export async function lockUnclaimedForRenotify(trx: Knex.Transaction, onlyUnitId?: number, limit = 50, lastNoticeBefore?: Date): Promise<EscalationRow[]> {
   const q = trx<EscalationRow>('escalations').where({ state: 'raised', kind: 'below_band' }).orderBy('id').limit(limit).forUpdate().skipLocked();
+  // Lock only rows that could be due: a row not due is left alone for other callers (SKIP LOCKED would hide it from them).
+  if (lastNoticeBefore) q.whereRaw('COALESCE(last_notified_at, raised_at) <= ?', [lastNoticeBefore]);
   return onlyUnitId === undefined ? q : q.where('unit_id', onlyUnitId);
 }
 

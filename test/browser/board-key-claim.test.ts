@@ -64,7 +64,8 @@ describe('ward board: key, claim, assignment, steady order', () => {
     // Focus leaves the board: the concern order returns and the bed moves up.
     await page.locator('h1').click();
     await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
-    await page.waitForFunction(() => document.querySelector('[data-testid="board-tiles"]')?.getAttribute('data-order-held') === 'no', null, { timeout: 10_000 });
+    await page.waitForFunction(() => document.querySelector('[data-testid="board-tiles"]')?.getAttribute('data-order-held') === 'no', null, { timeout: 20_000 });
+    await page.waitForFunction(() => document.querySelector('[data-testid="board-tiles"] li')?.getAttribute('data-testid') !== null, null);
     const after = await order(page);
     expect(after.indexOf('tile-4-11')).toBeLessThan(before.indexOf('tile-4-11'));
     await context.close();

@@ -30,6 +30,17 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
   // While keyboard focus is inside the board, tiles keep their places (new data, old order): nothing
   // jumps under the focus. The concern order comes back once focus leaves.
   const [focusInside, setFocusInside] = useState(false);
+  const listRef = useRef<HTMLUListElement>(null);
+  // Focus can also leave by the focused control vanishing (a claim button once claimed): re-check on
+  // every focus change and pointer press anywhere, and on every poll.
+  useEffect(() => {
+    const check = () => setFocusInside(Boolean(listRef.current?.contains(document.activeElement)));
+    const later = () => setTimeout(check, 0);
+    document.addEventListener('focusin', check);
+    document.addEventListener('pointerdown', later);
+    return () => { document.removeEventListener('focusin', check); document.removeEventListener('pointerdown', later); };
+  }, []);
+  useEffect(() => { setFocusInside(Boolean(listRef.current?.contains(document.activeElement))); }, [data]);
   const order = useRef<number[]>(filtered.map((t) => t.bedId));
   const tiles = useMemo(() => {
     if (!focusInside) return filtered;
@@ -78,7 +89,7 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
       )}
       {focusInside && <p className="sr-only" data-testid="board-order-held">Tile order held while you are in the board.</p>}
       {tiles.length === 0 && <p className="panel">No beds to show{mine ? ' assigned to you' : ''}.</p>}
-      <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-4" data-testid="board-tiles" data-order-held={focusInside ? 'yes' : 'no'}
+      <ul ref={listRef} className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-4" data-testid="board-tiles" data-order-held={focusInside ? 'yes' : 'no'}
         onFocus={() => setFocusInside(true)}
         onBlur={(e) => { if (!e.currentTarget.contains(e.relatedTarget as Node | null)) setFocusInside(false); }}>
         {tiles.map((tile) => (

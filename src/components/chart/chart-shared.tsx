@@ -37,13 +37,19 @@ export function useRefreshChart(patientId: number) {
 }
 
 // ── Time in the unit's zone (through the one formatting module) ───────────────────────────────
+const zoneOk = new Map<string, boolean>();
 function safeZone(timeZone: string): string {
-  try {
-    fmtClock(0, timeZone);
-    return timeZone;
-  } catch {
-    return 'UTC'; // an unknown zone name must not blank the chart
+  let ok = zoneOk.get(timeZone);
+  if (ok === undefined) {
+    try {
+      fmtClock(0, timeZone);
+      ok = true;
+    } catch {
+      ok = false; // an unknown zone name must not blank the chart
+    }
+    zoneOk.set(timeZone, ok);
   }
+  return ok ? timeZone : 'UTC';
 }
 /** "14:05" in the unit's zone. */
 export const formatClock = (t: string | number | Date, timeZone: string) => fmtClock(t, safeZone(timeZone));

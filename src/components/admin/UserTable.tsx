@@ -1,6 +1,7 @@
 import useSWR from 'swr';
 import { useState } from 'react';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { formatDayTime } from '~/lib/time/format.ts';
 
 interface UserListItem {
   id: number; email: string; name: string; role: string; unit_code: string | null; active: boolean;
@@ -8,7 +9,7 @@ interface UserListItem {
 }
 
 /** Admin list of accounts, with unlock for those locked after repeated wrong passwords. */
-export default function UserTable() {
+export default function UserTable({ timeZone }: { timeZone: string }) {
   const { data, error, mutate } = useSWR<{ users: UserListItem[] }>('/api/admin/users', fetchJson);
   const [message, setMessage] = useState<string | null>(null);
   if (error) return <p role="alert">Could not load users: {String(error.message ?? error)}</p>;
@@ -41,7 +42,7 @@ export default function UserTable() {
                 <td>{user.email}</td>
                 <td>{user.role}</td>
                 <td>{user.unit_code ?? 'all units'}</td>
-                <td>{locked ? <strong>locked until {new Date(user.locked_until!).toLocaleTimeString()}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : 'ok'}</td>
+                <td>{locked ? <strong>locked until {formatDayTime(user.locked_until!, timeZone)}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : 'ok'}</td>
                 <td>{(locked || user.failed_signins > 0) && <button className="btn-quiet" onClick={() => unlock(user)}>Unlock</button>}</td>
               </tr>
             );

@@ -7,6 +7,12 @@ export interface UnitSettings extends EscalationSettings {
   /** Minutes after which an unclaimed below-band escalation is mailed again. */
   renotifyMin: number;
   outreachEmails: string[];
+  /** The unit's phone, given in escalation e-mail (null: not set). */
+  unitPhone: string | null;
+  /** A monitored bed whose newest device reading is older than this is "monitor silent". */
+  monitorSilentMin: number;
+  /** Silence this long right after trusted below-band readings raises a bedside probe check. */
+  silentBelowProbeMin: number;
 }
 
 export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
@@ -14,11 +20,15 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
   overdueMin: 75,
   renotifyMin: 15,
   outreachEmails: [],
+  unitPhone: null,
+  monitorSilentMin: 3,
+  silentBelowProbeMin: 3,
 };
 
 export interface UnitSettingsColumns {
   consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
+  unit_phone?: string | null; monitor_silent_min?: number | null; silent_below_probe_min?: number | null;
 }
 
 export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
@@ -29,5 +39,8 @@ export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSetti
     urgentFloorPct: row.urgent_floor_pct, cannotVerifyMin: row.cannot_verify_min, aboveOnOxygenMin: row.above_on_oxygen_min,
     renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
+    unitPhone: row.unit_phone ?? null,
+    monitorSilentMin: row.monitor_silent_min ?? DEFAULT_UNIT_SETTINGS.monitorSilentMin,
+    silentBelowProbeMin: row.silent_below_probe_min ?? DEFAULT_UNIT_SETTINGS.silentBelowProbeMin,
   };
 }

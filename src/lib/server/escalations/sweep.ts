@@ -65,7 +65,8 @@ async function patientsWithActions(ids: number[], nowMs: number, window: { devic
 export async function renotifyUnclaimed(now: Date, onlyUnitId?: number): Promise<number> {
   return db().transaction(async (trx) => {
     let count = 0;
-    for (const esc of await lockUnclaimedForRenotify(trx, onlyUnitId)) {
+    // No unit re-notifies sooner than 5 min (the settings' lower bound).
+    for (const esc of await lockUnclaimedForRenotify(trx, onlyUnitId, 50, new Date(now.getTime() - 5 * 60_000))) {
       const ctx = await patientContext(trx, esc.patient_id);
       const settings = settingsFromRow(ctx?.settings ?? undefined);
       if (!renotifyDue(esc.last_notified_at ? new Date(esc.last_notified_at).getTime() : null, new Date(esc.raised_at).getTime(), settings.renotifyMin, now.getTime())) continue;

@@ -86,10 +86,11 @@ export async function attachCheck(user: SessionUser, input: AttachInput, now = n
 
 export async function listChecks(user: SessionUser, patientId: number) {
   assertClinician(user);
-  await authorisePatient(user, patientId, 'read');
+  const { stay } = await authorisePatient(user, patientId, 'read');
   const [rows, readings] = await Promise.all([plethChecksOf(patientId), attachableReadingsOf(patientId, 60)]);
   const num = (v: string | number | null) => (v === null ? null : Number(v));
   return {
+    timeZone: stay.time_zone,
     checks: rows.map((r) => ({
       id: Number(r.id), observationId: r.observation_id === null ? null : Number(r.observation_id), fileName: r.file_name, verdict: r.verdict,
       /** The words that go beside the reading in the record. */

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { mailCommitted } from '~/lib/server/mail/wake.ts';
 import { db } from './db.ts';
 
 export interface OutboxRow {
@@ -10,6 +11,15 @@ export interface OutboxRow {
 /** Idempotent: a second write with the same key is ignored, so a retried transaction never queues a mail twice. */
 export async function enqueueMail(trx: Knex.Transaction, row: { idempotency_key: string; escalation_id: number | null; to_addresses: string; subject: string; text_body: string; html_body: string; created_at: Date }): Promise<void> {
   await trx('mail_outbox').insert({ ...row, next_attempt_at: row.created_at }).onConflict('idempotency_key').ignore();
+  // Wake this instance's worker once the outermost transaction has committed (never before: the
+  // worker would not see the row yet); a rollback wakes nobody.
+  outermost(trx).executionPromise.then(() => setImmediate(mailCommitted), () => {});
+}
+
+function outermost(trx: Knex.Transaction): Knex.Transaction {
+  let t = trx as Knex.Transaction & { parentTransaction?: Knex.Transaction };
+  while (t.parentTransaction) t = t.parentTransaction as typeof t;
+  return t;
 }
 
 /**

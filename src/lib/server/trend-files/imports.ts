@@ -5,7 +5,7 @@
  * what the preview showed for that file (the hash ties the two).
  */
 import type { TrendMapping } from '~/lib/imports/mapping.ts';
-import { TrendFileError, parseTrendCsv, type RowProblem, type TrendRow } from '~/lib/imports/trend-csv.ts';
+import { TrendFileError, groupRefusals, parseTrendCsv, type RefusalGroup, type RowProblem, type TrendRow, type UnfitColumn } from '~/lib/imports/trend-csv.ts';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
@@ -19,6 +19,7 @@ import {
 import { staysOf, type StayRow } from '~/lib/server/queries/patients.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import type { UploadedFile } from '~/lib/server/upload-body.ts';
+import { formatDateTime } from '~/lib/time/format.ts';
 
 /** How many refused rows and examples the preview lists in full (the counts are always exact). */
 const LIST_LIMIT = 200;
@@ -47,8 +48,9 @@ export interface TrendPreview {
   span: { first: string; last: string } | null;
   outsideAdmission: { count: number; examples: { line: number; at: string }[] };
   overlapping: { count: number; examples: { line: number; at: string }[] };
-  refused: { count: number; rows: RowProblem[] };
+  refused: { count: number; rows: RowProblem[]; groups: RefusalGroup[] };
   notes: RowProblem[];
+  unfitColumns: UnfitColumn[];
   alreadyImported: { importId: number; committedAt: string; committedBy: string; samePatient: boolean } | null;
 }
 
@@ -93,8 +95,9 @@ async function plan(user: SessionUser, patientId: number, file: UploadedFile, ma
       span: parsed.rows.length ? { first: new Date(first).toISOString(), last: new Date(last).toISOString() } : null,
       outsideAdmission: { count: outside.length, examples: example(outside) },
       overlapping: { count: overlapping.length, examples: example(overlapping) },
-      refused: { count: parsed.refused.length, rows: parsed.refused.slice(0, LIST_LIMIT) },
+      refused: { count: parsed.refused.length, rows: parsed.refused.slice(0, LIST_LIMIT), groups: groupRefusals(parsed.refused) },
       notes: parsed.notes.slice(0, LIST_LIMIT),
+      unfitColumns: parsed.unfitColumns,
       alreadyImported: earlier
         ? { importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }
         : null,
@@ -106,8 +109,8 @@ export async function previewTrend(user: SessionUser, patientId: number, file: U
   return (await plan(user, patientId, file, mapping, now)).preview;
 }
 
-function duplicateFile(p: NonNullable<TrendPreview['alreadyImported']>): ApiError {
-  return new ApiError(409, 'duplicate_file', `This file was already imported${p.samePatient ? '' : ' to another patient'} (import ${p.importId}, ${p.committedAt} by ${p.committedBy}). Withdraw that import first if it went wrong.`);
+function duplicateFile(p: NonNullable<TrendPreview['alreadyImported']>, timeZone: string): ApiError {
+  return new ApiError(409, 'duplicate_file', `This file was already imported${p.samePatient ? '' : ' to another patient'} (import ${p.importId}, ${formatDateTime(p.committedAt, timeZone)} by ${p.committedBy}). Withdraw that import first if it went wrong.`);
 }
 
 export async function commitTrend(user: SessionUser, patientId: number, file: UploadedFile, mapping: TrendMapping, expectHash: string | undefined, now = new Date()): Promise<{ import: ImportView; preview: TrendPreview }> {
@@ -115,7 +118,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
     throw new ApiError(409, 'file_changed', 'This is not the file that was previewed; preview it again.');
   }
   const { preview, store, stays, stay } = await plan(user, patientId, file, mapping, now);
-  if (preview.alreadyImported) throw duplicateFile(preview.alreadyImported);
+  if (preview.alreadyImported) throw duplicateFile(preview.alreadyImported, stay.time_zone);
   if (store.length === 0) throw new ApiError(400, 'nothing_to_store', 'No reading in this file can be stored (see the preview for why).');
   let firstStored = Infinity;
   let lastStored = -Infinity;
@@ -150,7 +153,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
     // Two commits of one file at once: the unique index on the standing file hash settles it.
     if ((err as { code?: string }).code === 'ER_DUP_ENTRY') {
       const earlier = await activeImportOfFile(file.hash);
-      if (earlier) throw duplicateFile({ importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId });
+      if (earlier) throw duplicateFile({ importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }, stay.time_zone);
     }
     throw err;
   }

@@ -111,7 +111,8 @@ function rawLines(readings: Reading[], windowReadings: Reading[], orders: Return
 /** Enveloped lines from minute rows, with each charted obs as its own point (drawn as charted). */
 function minuteLines(minutes: MinuteRollup[], charted: Reading[], from: number, to: number, countFrom = Math.ceil(from / MINUTE_MS) * MINUTE_MS) {
   const chartedSpo2 = charted.filter((r) => r.spo2 !== null).slice(-200);
-  const env = envelopeLines(minutes, from, to, MAX_POINTS_PER_LINE - chartedSpo2.length);
+  // Half the line budget is plenty when each point carries its min–max envelope, and keeps the answer small.
+  const env = envelopeLines(minutes, from, to, Math.floor(MAX_POINTS_PER_LINE / 2) - chartedSpo2.length);
   const toPoint = (p: EnvelopePoint): Spo2Point => ({ t: p.t, v: p.v, lo: p.lo, hi: p.hi, trusted: p.trusted, source: p.charted ? 'charted' : 'device' });
   const spo2 = [...env.spo2.filter((p) => !p.charted).map(toPoint), ...chartedSpo2.map((r) => ({ t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source }))]
     .sort((a, b) => a.t - b.t);

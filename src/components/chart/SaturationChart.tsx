@@ -174,7 +174,8 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
     const width = rect.width - left - MARGIN.right;
     if (width <= 0) return;
     const f = (e.clientX - rect.left - left) / width;
-    setCursor(f < 0 || f > 1 ? null : series.from + f * (series.to - series.from));
+    const t = series.from + f * (domainEnd - series.from);
+    setCursor(f < 0 || t > series.to ? null : t);
   };
   const onKey = (e: KeyboardEvent<HTMLDivElement>) => {
     if (!series) return;
@@ -189,8 +190,11 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
     if (next !== null) { e.preventDefault(); setCursor(next); }
   };
 
+  // The axis runs a little past now, and the band in force fills it: a band ordered a second ago is
+  // a visible step at once, not a sliver that widens over the next minutes.
+  const domainEnd = series ? series.to + (series.to - series.from) / 30 : 0;
   const xAxis = (showTicks: boolean) => series && (
-    <XAxis dataKey="t" type="number" scale="time" domain={[series.from, series.to]} ticks={timeTicks(series.from, series.to, hours)} tickFormatter={tickFmt}
+    <XAxis dataKey="t" type="number" scale="time" domain={[series.from, domainEnd]} ticks={timeTicks(series.from, series.to, hours)} tickFormatter={tickFmt}
       allowDataOverflow hide={!showTicks} tick={{ fill: colours.axis, fontSize: 12 }} stroke={colours.axis} height={showTicks ? 24 : 0} interval="preserveStartEnd" />
   );
   const cursorLine = cursorAt !== null ? <ReferenceLine x={cursorAt} yAxisId="y" stroke={colours.cursor} strokeWidth={1} ifOverflow="hidden" /> : null;
@@ -213,9 +217,10 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
       {xAxis(false)}
       <YAxis yAxisId="y" domain={model.spo2Domain} allowDataOverflow tick={{ fill: colours.axis, fontSize: 12 }} stroke={colours.axis} width={Y_AXIS_W} tickCount={6} />
       {series.bands.map((b) => (
-        <ReferenceArea key={`${b.from}-${b.low}-${b.high}`} yAxisId="y" x1={Math.max(b.from, series.from)} x2={Math.min(b.to, series.to)} y1={b.low} y2={b.high}
+        <ReferenceArea key={`${b.from}-${b.low}-${b.high}`} yAxisId="y" x1={Math.max(b.from, series.from)} x2={b.to >= series.to ? domainEnd : b.to} y1={b.low} y2={b.high}
           fill={colours.bandFill} fillOpacity={night ? 0.55 : 0.6} stroke={colours.bandEdge} strokeWidth={1.5} ifOverflow="hidden" />
       ))}
+      <ReferenceLine yAxisId="y" x={series.to} stroke={colours.axis} strokeDasharray="1 3" ifOverflow="hidden" label={{ value: 'now', position: 'insideTopRight', fill: colours.axis, fontSize: 11 }} />
       <ReferenceLine yAxisId="y" y={CALIBRATED_FLOOR_PCT} stroke={colours.untrusted} strokeDasharray="2 4" ifOverflow="hidden" />
       {model.envelope.length > 0 && (
         <Area yAxisId="y" dataKey="range" data={model.envelope} type="linear" stroke="none" fill={colours.envelope} fillOpacity={0.35} isAnimationActive={false} connectNulls={false} />

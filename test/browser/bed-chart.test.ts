@@ -125,7 +125,7 @@ describe('bed chart: print', () => {
     if (band) expect(text).toContain(`band ${band.low}–${band.high} %`);
     expect(text).toMatch(/Printed \d{1,2} \w{3} \d\d:\d\d .* by /);
     expect(text).toContain('SpO₂ %'); // the chart panels
-    expect(text).toContain('Time in band'); // the figures
+    expect(text).toMatch(/time in band/i); // the figures (labels are upper-cased by CSS)
     // Every charted obs of the window, not one page of 20.
     for (const t of times) expect(text, formatDayTime(t, timeZone)).toContain(formatDayTime(t, timeZone));
     // No navigation, forms or buttons.

@@ -295,7 +295,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
 
       {series && (
         <figure aria-describedby="sat-chart-summary" className="text-ink-700 dark:text-ink-200">
-          <p className="min-h-[1.25rem] text-sm font-bold" aria-live="polite" data-testid="chart-readout">
+          <p className="min-h-[1.25rem] text-sm font-bold print:hidden" aria-live="polite" data-testid="chart-readout">
             {readout ?? <span className="font-normal text-ink-600 dark:text-ink-300">Point at the chart, or focus it and use ← →, to read every value at one time.</span>}
           </p>
           <div

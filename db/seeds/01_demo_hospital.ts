@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { rebuildAllRollups } from '../../src/lib/server/queries/rollup.ts';
 import bcrypt from 'bcryptjs';
 import {
   DEMO_HOSPITAL, DEMO_PASSWORD, demoPatients, demoUnits, demoUsers, generateDemoObservations,
@@ -73,6 +74,7 @@ export async function seed(knex: Knex): Promise<void> {
       recorded_by: o.source === 'charted' ? nurseId : null, recorded_at: o.takenAt,
     }));
     for (let i = 0; i < rows.length; i += 2000) await trx('observations').insert(rows.slice(i, i + 2000));
+    await rebuildAllRollups(trx); // the per-minute rollup every writer keeps, here in one pass
     console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length} patients, ${rows.length} obs`);
   });
 }

@@ -196,10 +196,14 @@ function Tile({ tile, zone, me, nurses, onDone }: {
   }
   return (
     <li className={`relative rounded-lg border-2 p-3 shadow-sm ${tone}`} data-testid={`tile-${tile.bedLabel}`} data-concern={tile.concern.key} data-state={tile.state.name}>
-      <span className="sr-only" data-testid="tile-sentence">{tile.sentence}</span>
+      {/* The whole tile is one link named by the sentence; the visible parts below are hidden from
+          screen readers and hold nothing focusable (WCAG: no focusable element inside aria-hidden). */}
+      <a href={`/patients/${tile.patient.id}`} className="peer absolute inset-0 rounded-lg">
+        <span className="sr-only" data-testid="tile-sentence">{tile.sentence}</span>
+      </a>
       <div aria-hidden="true">
         <div className="flex items-baseline justify-between gap-2">
-          <a href={`/patients/${tile.patient.id}`} className="font-mono text-lg font-bold underline-offset-2 hover:underline after:absolute after:inset-0" >{tile.bedLabel}</a>
+          <span className="font-mono text-lg font-bold underline-offset-2 peer-hover:underline">{tile.bedLabel}</span>
           <span className="font-bold">{tile.patient.label}</span>
           <span className="rounded bg-ink-100 px-1.5 text-sm dark:bg-ink-800">{tile.band ? `band ${tile.band.low}–${tile.band.high}${tile.band.news2Scale === 2 ? ' · S2' : ''}` : 'no band ordered'}</span>
         </div>

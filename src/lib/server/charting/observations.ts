@@ -16,6 +16,7 @@ import { authorisePatient } from './patients.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { checkPatientEscalations } from '~/lib/server/escalations/engine.ts';
 import { obsView } from './views.ts';
+import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 
 
 /** FiO₂ as stored: charted when given; 0.21 on room air; otherwise an estimate, always marked as one. */
@@ -58,6 +59,7 @@ export async function chartObservation(user: SessionUser, patientId: number, inp
     const row = rowFromInput(input, patientId, stay.bed_id, user.id);
     const obsId = await insertObservation(trx, { ...row, recorded_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.create', entity: 'observation', entityId: obsId, after: row, at: now });
+    await refreshMinuteRollup(trx, patientId, input.takenAt.getTime(), input.takenAt.getTime());
     await runObservationHooks(trx, patientId, now);
     return obsId;
   });
@@ -88,6 +90,8 @@ export async function correctObservation(user: SessionUser, obsId: number, reaso
     const newId = await insertObservation(trx, { ...row, recorded_at: now });
     await markObservation(trx, original.id, { status: 'superseded', status_reason: reason, status_by: user.id, status_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.correct', entity: 'observation', entityId: original.id, before: original, after: { ...row, id: newId, reason }, at: now });
+    const times = [new Date(original.taken_at).getTime(), input.takenAt.getTime()];
+    await refreshMinuteRollup(trx, original.patient_id, Math.min(...times), Math.max(...times));
     await runObservationHooks(trx, original.patient_id, now);
     return newId;
   });
@@ -99,6 +103,8 @@ export async function markEnteredInError(user: SessionUser, obsId: number, reaso
     const original = await lockForChange(trx, user, obsId);
     await markObservation(trx, original.id, { status: 'entered_in_error', status_reason: reason, status_by: user.id, status_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.entered_in_error', entity: 'observation', entityId: original.id, before: { status: original.status }, after: { status: 'entered_in_error', reason }, at: now });
+    const at = new Date(original.taken_at).getTime();
+    await refreshMinuteRollup(trx, original.patient_id, at, at);
     await runObservationHooks(trx, original.patient_id, now);
   });
   return obsView((await findObservation(obsId))!);

@@ -8,6 +8,7 @@ import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { toDeviceReading, type ingestBatchSchema } from '~/lib/imports/reading.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
+import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { insertDeviceReadings, staysInBedBetween, touchDeviceKey, type DeviceObservationRow } from '~/lib/server/queries/devices.ts';
 import type { authenticateDeviceKey } from './keys.ts';
 
@@ -51,8 +52,18 @@ export async function ingestBatch(key: Key, batch: Batch, now = new Date()): Pro
       await lockPatient(trx, patientId);
       const n = await insertDeviceReadings(trx, rows);
       stored += n;
-      // The escalation checks, once per patient per batch, in the same transaction as the readings.
-      if (n > 0) await runObservationHooks(trx, patientId, now);
+      if (n > 0) {
+        // The per-minute rollup and the escalation checks, once per patient per batch, in the readings' transaction.
+        let first = Infinity;
+        let last = -Infinity;
+        for (const r of rows) {
+          const t = r.taken_at.getTime();
+          if (t < first) first = t;
+          if (t > last) last = t;
+        }
+        await refreshMinuteRollup(trx, patientId, first, last);
+        await runObservationHooks(trx, patientId, now);
+      }
     }
     await touchDeviceKey(trx, key.id, now);
     const duplicates = readings.length - withoutPatient - stored;

@@ -7,6 +7,7 @@
 import type { TrendMapping } from '~/lib/imports/mapping.ts';
 import { TrendFileError, groupRefusals, parseTrendCsv, type RefusalGroup, type RowProblem, type TrendRow, type UnfitColumn } from '~/lib/imports/trend-csv.ts';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
+import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
 import { ApiError } from '~/lib/server/http.ts';
@@ -146,6 +147,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
         after: { patientId, fileName: file.name, fileHash: file.hash, rowsStored: store.length, rowsSkipped: preview.outsideAdmission.count + preview.overlapping.count, rowsRefused: preview.refused.count, mapping },
         at: now,
       });
+      await refreshMinuteRollup(trx, patientId, firstStored, lastStored);
       await runObservationHooks(trx, patientId, now);
       return importId;
     });
@@ -171,6 +173,7 @@ export async function withdrawImport(user: SessionUser, importId: number, reason
     await markImportWithdrawn(trx, importId, { withdrawn_at: now, withdrawn_by: user.id, withdraw_reason: reason });
     const n = await withdrawImportReadings(trx, importId, { status_reason: `Import withdrawn: ${reason}`.slice(0, 500), status_by: user.id, status_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'import.withdraw', entity: 'observation_import', entityId: importId, before: { withdrawnAt: null }, after: { reason, readingsWithdrawn: n }, at: now });
+    if (imp.first_at && imp.last_at) await refreshMinuteRollup(trx, imp.patient_id, new Date(imp.first_at).getTime(), new Date(imp.last_at).getTime());
     await runObservationHooks(trx, imp.patient_id, now);
     return n;
   });

@@ -9,6 +9,7 @@ import { escalationSettingsOf } from '~/lib/board/tiles.ts';
 import { recentReadings } from '~/lib/server/queries/board.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '~/lib/server/queries/escalations.ts';
 import { patientContext, sweepContexts } from '~/lib/server/queries/escalation-context.ts';
 import { readingsByPatient, recentWindow, toReading } from '~/lib/server/charting/readings.ts';
@@ -26,7 +27,7 @@ export async function runSweep(now = new Date()): Promise<SweepResult> {
   const due = await patientsWithActions(ids, nowMs, window);
   result.patientsChecked = ids.length;
   for (const id of due) {
-    await db().transaction(async (trx) => {
+    await withTransactionRetry(async (trx) => {
       if (!(await tryLockPatient(trx, id))) {
         result.patientsSkipped += 1; // another instance is on it
         return;
@@ -67,7 +68,7 @@ async function patientsWithActions(ids: number[], nowMs: number, window: { devic
 
 /** Re-notifies unclaimed below-band escalations whose unit's re-notify time has passed (optionally one unit only). */
 export async function renotifyUnclaimed(now: Date, onlyUnitId?: number): Promise<number> {
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     let count = 0;
     for (const esc of await lockUnclaimedForRenotify(trx, onlyUnitId)) {
       const ctx = await patientContext(trx, esc.patient_id);

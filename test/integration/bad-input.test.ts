@@ -110,8 +110,8 @@ function cases(): Case[] {
   const r = (patch: Record<string, unknown>) => ({ readings: [{ at: iso(1), spo2: 95, ...patch }] });
   add('device', 'POST', '/api/ingest', 'ingest', [
     [r({ at: '2026-11-31T12:00:00Z' }), 'readings.0.at'], [r({ at: '2026-12-02T10:00:00' }), 'readings.0.at'], [r({ spo2: '95' }), 'readings.0.spo2'],
-    [r({ spo2: 101 }), 'readings.0.spo2'], [r({ heartRate: [80] }), 'readings.0.heartRate'], [r({ spO2: 95 }), 'readings.0'], [{ readings: [] }, 'readings'],
-    [{ readings: 'x' }, 'readings'], [{ readings: [{ at: iso(1), spo2: 95 }], bed: 1 }, '_'],
+    [r({ spo2: 101 }), 'readings.0.spo2'], [r({ heartRate: [80] }), 'readings.0.heartRate'], [r({ spO2: 95 }), 'readings.0.spO2'], [{ readings: [] }, 'readings'],
+    [{ readings: 'x' }, 'readings'], [{ readings: [{ at: iso(1), spo2: 95 }], bed: 1 }, 'bed'],
   ]);
   return c;
 }

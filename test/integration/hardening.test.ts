@@ -53,7 +53,7 @@ describe('2. security headers on every response', () => {
   const expectCommon = (res: Response, what: string) => {
     expect(res.headers.get('x-content-type-options'), what).toBe('nosniff');
     expect(res.headers.get('x-frame-options'), what).toBe('DENY');
-    expect(res.headers.get('referrer-policy'), what).toBe('no-referrer');
+    expect(res.headers.get('referrer-policy'), what).toBe('same-origin');
     expect(res.headers.get('permissions-policy'), what).toMatch(/camera=\(\)/);
     expect(res.headers.get('content-security-policy'), what).toMatch(/frame-ancestors 'none'/);
   };

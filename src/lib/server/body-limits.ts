@@ -1,6 +1,6 @@
 /** Request-body caps per route, checked by the middleware before anything reads the body. */
 import { MAX_TREND_FILE_BYTES } from '~/lib/imports/mapping.ts';
-import { MAX_STRIP_BYTES } from '~/lib/imports/strip-csv.ts';
+import { MAX_STRIP_BYTES } from '~/lib/pleth-strips/strip-csv.ts';
 
 /** JSON bodies and forms (sign-in included) are small. */
 export const DEFAULT_BODY_LIMIT = 64 * 1024;

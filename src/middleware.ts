@@ -70,7 +70,10 @@ const bodyCap = defineMiddleware((ctx, next) => {
     return errorJson(411, 'length_required', 'Send a Content-Length with the body.');
   }
   if (!/^\d+$/.test(declared) || Number(declared) > limit) {
-    return errorJson(413, 'body_too_large', `The body is larger than this route takes (${Math.round(limit / 1024)} KB).`);
+    const res = errorJson(413, 'body_too_large', `The body is larger than this route takes (${Math.round(limit / 1024)} KB).`);
+    // The unread body is still arriving: close the connection rather than let a client reuse it.
+    res.headers.set('connection', 'close');
+    return res;
   }
   return next();
 });
@@ -82,9 +85,11 @@ const bodyCap = defineMiddleware((ctx, next) => {
  */
 const originCheck = defineMiddleware((ctx, next) => {
   const path = ctx.url.pathname;
-  if (SAFE_METHODS.has(ctx.request.method) || !isApiPath(path) || path.startsWith('/api/auth/') || path === '/api/ingest') return next();
+  if (SAFE_METHODS.has(ctx.request.method) || !isApiPath(path) || path.startsWith('/api/auth/')) return next();
   const origin = ctx.request.headers.get('origin');
   const site = ctx.request.headers.get('sec-fetch-site');
+  // The device feed has no cookie to ride and gateways send no Origin; a browser page calling it still may not.
+  if (path === '/api/ingest' && origin === null && (site === null || site === 'same-origin' || site === 'none')) return next();
   if (origin !== ctx.url.origin || (site !== null && site !== 'same-origin')) {
     return errorJson(403, 'cross_origin', origin === null ? 'Requests without an Origin header are refused.' : 'Requests from another site are refused.');
   }

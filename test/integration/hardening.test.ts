@@ -173,7 +173,7 @@ describe('4. refused instead of stored', () => {
       [{ spo2: [95] }, 'spo2', /SpO₂ must be a number/],
       [{ spo2: '95' }, 'spo2', /SpO₂ must be a number/],
       [{ spo2: true }, 'spo2', /SpO₂ must be a number/],
-      [{ fio2: 1.01, device: 'simple_mask' }, 'fio2', /fraction from 0.21 to 1.0, or a percentage from 21 to 100/],
+      [{ fio2: 1.01, device: 'simple_mask' }, 'fio2', /cannot be over 100 % \(1\.0\)/],
       [{ takenAt: '2026-11-31T12:00:00Z' }, 'takenAt', /real calendar day/],
     ];
     for (const [patch, field, reason] of cases) {

@@ -38,9 +38,9 @@ export const ROLE_MATRIX: MatrixRow[] = [
   { route: 'POST /api/patients/[id]/observations', path: '/api/patients/{patient}/observations', body: PROBE, expect: '401 400 400 400 400 403 403 403' },
   { route: 'GET /api/patients/[id]/series',      path: '/api/patients/{patient}/series?hours=6',       expect: '401 200 403 200 403 200 200 403' },
   { route: 'GET /api/patients/[id]/imports',     path: '/api/patients/{patient}/imports',              expect: '401 200 403 200 403 200 200 403' },
-  { route: 'POST /api/patients/[id]/imports/preview', path: '/api/patients/{patient}/imports/preview?time=t&spo2=s&timeMode=iso&fileName=m.csv', body: { csv: 't,s\n2026-12-02T10:00:00Z,95\n' }, expect: '401 200 403 200 403 403 403 403' },
+  { route: 'POST /api/patients/[id]/imports/preview', path: '/api/patients/{patient}/imports/preview?time=t&spo2=s&heartRate=h&timeMode=iso&fileName=m.csv', body: { csv: 't,s,h\n2026-12-02T10:00:00Z,95,80\n' }, expect: '401 200 403 200 403 403 403 403' },
   // Without fileName the commit is refused before the unit check: this row shows the role check only.
-  { route: 'POST /api/patients/[id]/imports/commit', path: '/api/patients/{patient}/imports/commit?time=t&spo2=s', body: { csv: 't,s\n2026-12-02T10:00:00Z,95\n' }, expect: '401 400 400 400 400 403 403 403' },
+  { route: 'POST /api/patients/[id]/imports/commit', path: '/api/patients/{patient}/imports/commit?time=t&spo2=s', body: { csv: 't,s,h\n2026-12-02T10:00:00Z,95,80\n' }, expect: '401 400 400 400 400 403 403 403' },
   { route: 'POST /api/imports/[id]/withdraw',    path: '/api/imports/{missing}/withdraw', body: PROBE, expect: '401 400 400 400 400 403 403 403' },
   { route: 'POST /api/observations/[id]/correct', path: '/api/observations/{obs}/correct', body: PROBE, expect: '401 400 400 400 400 403 403 403' },
   { route: 'POST /api/observations/[id]/entered-in-error', path: '/api/observations/{obs}/entered-in-error', body: PROBE, expect: '401 400 400 400 400 403 403 403' },

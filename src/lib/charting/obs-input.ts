@@ -59,9 +59,9 @@ export const fio2Field = z.preprocess(
   z.coerce
     .number({ invalid_type_error: 'FiO₂ must be a number' })
     .refine((v) => Number.isFinite(v), 'FiO₂ must be a number')
-    .refine((v) => v >= 0.21, 'FiO₂ cannot be under 21 % (0.21) — room air is 21 %')
-    .refine((v) => v <= 1 || v >= 21, 'FiO₂ is a fraction from 0.21 to 1.0, or a percentage from 21 to 100')
-    .refine((v) => v <= 100, 'FiO₂ cannot be over 100 % (1.0)')
+    // 2–21 reads as a percentage under room air; just over 1 as a fraction over 1.0 (e.g. 1.01).
+    .refine((v) => v >= 0.21 && !(v >= 2 && v < 21), 'FiO₂ cannot be under 21 % (0.21) — room air is 21 %')
+    .refine((v) => !(v > 1 && v < 2) && v <= 100, 'FiO₂ cannot be over 100 % (1.0)')
     .transform((v) => Math.round((v > 1 ? v / 100 : v) * 1000) / 1000)
     .optional(),
 );

@@ -4,7 +4,7 @@ import { hasRole, type Role } from '~/lib/auth/roles.ts';
 import type { SessionUser } from './queries/users.ts';
 import { isDatabaseUnavailable } from './queries/transaction.ts';
 import { strictJsonSchema, strictTextSchema } from './strict-input.ts';
-import { DEFAULT_BODY_LIMIT } from './body-limits.ts';
+import { bodyLimitFor, DEFAULT_BODY_LIMIT } from './body-limits.ts';
 
 export const DATABASE_UNAVAILABLE_MESSAGE = 'The database is not answering; readings cannot be charted or shown until it is back.';
 
@@ -50,7 +50,11 @@ export function zodFields(err: ZodError): Record<string, string> {
 }
 
 export function errorResponse(err: unknown): Response {
-  if (err instanceof ApiError) return errorJson(err.status, err.code, err.message, err.fields);
+  if (err instanceof ApiError) {
+    const res = errorJson(err.status, err.code, err.message, err.fields);
+    if (err.status === 413) res.headers.set('connection', 'close'); // the rest of the body may still be arriving
+    return res;
+  }
   if (err instanceof ZodError) {
     const fields = zodFields(err);
     const summary = Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; ');
@@ -96,7 +100,7 @@ export async function readBodyText(request: Request, maxBytes = DEFAULT_BODY_LIM
  * text in Unicode NFC. Shared schemas stay lenient for the browser forms; the strictness is added
  * here, once, for every JSON route (see strict-input.ts).
  */
-export async function parseBody<T>(request: Request, schema: Schema<T>, maxBytes = DEFAULT_BODY_LIMIT): Promise<T> {
+export async function parseBody<T>(request: Request, schema: Schema<T>, maxBytes = bodyLimitFor(new URL(request.url).pathname)): Promise<T> {
   const type = request.headers.get('content-type') ?? '';
   if (!type.includes('application/json')) throw new ApiError(415, 'unsupported_media_type', 'Send the body as application/json.');
   const text = await readBodyText(request, maxBytes);

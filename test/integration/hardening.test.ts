@@ -8,6 +8,8 @@ import { countRows, createUnit, createUser, testDb, unique } from '../support/db
 import { signInPeople } from '../support/people.ts';
 import { signOut } from '../support/signout.ts';
 import { ADDRESS_FAILURES, ACCOUNT_FAILURES } from '../../src/lib/auth/throttle.ts';
+import { revokeSessionsOf } from '../../src/lib/server/queries/sessions.ts';
+import { closeDb } from '../../src/lib/server/queries/db.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
@@ -18,7 +20,7 @@ beforeAll(async () => {
   const people = await signInPeople(db, { charge: ['charge', unit.unitId], charge2: ['charge', unit.unitId], nurse: ['nurse', unit.unitId] });
   Object.assign(s, people.sessions);
 });
-afterAll(async () => { await db.destroy(); });
+afterAll(async () => { await db.destroy(); await closeDb(); });
 
 /** A caller at its own address (the test app trusts X-Forwarded-For, as behind a load balancer). */
 function from(address: string, session = new HttpSession()) {
@@ -309,8 +311,8 @@ describe('6. sessions end: a server-side record behind the cookie', () => {
     const a = await signedIn(user.email, user.password);
     const b = await signedIn(user.email, user.password);
     expect((await a.get('/api/me')).status).toBe(200);
-    // What revokeSessionsOf(userId) does, as the staff pages call it.
-    await db('sessions').where({ user_id: user.id }).whereNull('revoked_at').update({ revoked_at: new Date(), revoked_reason: 'password_changed' });
+    // As the staff pages call it on deactivation or a password change.
+    expect(await revokeSessionsOf(user.id, 'password_changed')).toBe(2);
     expect((await a.get('/api/me')).status).toBe(401);
     expect((await b.get('/api/me')).status).toBe(401);
     expect((await signedIn(user.email, user.password).then((c) => c.get('/api/me'))).status).toBe(200);

@@ -12,6 +12,8 @@ export default getViteConfig({
           name: 'unit',
           include: ['src/**/*.test.{ts,tsx}'],
           environment: 'node',
+          // jsdom + React island tests take several seconds each on a loaded 2-core machine.
+          testTimeout: 20_000,
         },
       },
       {

@@ -66,6 +66,7 @@ describe('MariaDB stopped and started while the board polls', () => {
         await sleep(400);
       }
     })();
+    while (!statuses.includes(200)) await sleep(50); // the board answered while MariaDB was up
     await db.destroy(); // the test's own pool must not hold connections across the restart
     try {
       await stopMariadb();
@@ -80,6 +81,7 @@ describe('MariaDB stopped and started while the board polls', () => {
       expect(health.status).toBe(503);
     } finally {
       startMariadb();
+      db = testDb();
     }
     const until = Date.now() + 40_000;
     while (statuses[statuses.length - 1] !== 200 && Date.now() < until) await sleep(200);
@@ -88,7 +90,6 @@ describe('MariaDB stopped and started while the board polls', () => {
     expect(statuses[statuses.length - 1], statuses.join(',')).toBe(200);
     // 200 first, 503 while down, 200 again: the app was never restarted.
     expect(statuses.indexOf(503)).toBeGreaterThan(0);
-    db = testDb();
     expect((await s.charge.get('/api/health')).status).toBe(200);
   }, 120_000);
 });

@@ -253,7 +253,7 @@ describe('5. sign-in throttling per address and per account, counted in MariaDB'
     // The counters are rows in MariaDB, so every app instance sees them.
     expect(await db('rate_limits').where('key', 'like', `%${address}`).first()).toBeTruthy();
     expect((await from(freshAddress()).signIn(user.email, user.password)).ok).toBe(true);
-  });
+  }, 180_000); // 40 password checks (bcrypt) on a shared 2-core machine
 
   it(`after ${ACCOUNT_FAILURES} failures for one account from many addresses: 429 for that account; the lockout rule still applies first`, async () => {
     const user = await createUser(db, { role: 'nurse', unitId: unit.unitId });

@@ -7,6 +7,8 @@
 TEST_DB_PORT="${EBB_TEST_DB_PORT:-3417}"
 TEST_APP_PORT="${EBB_TEST_APP_PORT:-4399}"
 TEST_DB_NAME="test-db-$TEST_DB_PORT"
+# The fault tests stop and restart this server by its pid file.
+export EBB_TEST_DB_DIR="$EBB_ROOT/var/$TEST_DB_NAME"
 export EBB_OUT_DIR="${EBB_OUT_DIR:-dist}"
 RESULTS="$EBB_ROOT/var/test-results-$TEST_APP_PORT"
 
@@ -18,6 +20,8 @@ export DB_HOST=127.0.0.1 DB_PORT="$TEST_DB_PORT" DB_USER=ebbwatch_test DB_PASSWO
 export MIGRATIONS_DB_NAME=ebbwatch_migrations_test
 export APP_URL="http://127.0.0.1:$TEST_APP_PORT"
 export PUBLIC_ORIGIN="$APP_URL"
+# Tests stand in for callers at different addresses with X-Forwarded-For (sign-in throttling per address).
+export EBB_TRUST_PROXY=1
 export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
 export EBB_SWEEP_INTERVAL_MS="${EBB_SWEEP_INTERVAL_MS:-1000}"
 export EBB_OUTBOX_INTERVAL_MS="${EBB_OUTBOX_INTERVAL_MS:-300}" EBB_MAIL_RETRY_BASE_MS="${EBB_MAIL_RETRY_BASE_MS:-1000}"

@@ -6,7 +6,7 @@
 import type { z } from 'zod';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { toDeviceReading, type ingestBatchSchema } from '~/lib/imports/reading.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { insertDeviceReadings, staysInBedBetween, touchDeviceKey, type DeviceObservationRow } from '~/lib/server/queries/devices.ts';
@@ -30,7 +30,7 @@ export async function ingestBatch(key: Key, batch: Batch, now = new Date()): Pro
     if (t < min) min = t;
     if (t > max) max = t;
   }
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     const stays = await staysInBedBetween(trx, key.bed_id, new Date(min), new Date(max));
     const byPatient = new Map<number, DeviceObservationRow[]>();
     let withoutPatient = 0;

@@ -9,7 +9,7 @@ import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypt
 import type { Knex } from 'knex';
 import { ApiError } from '~/lib/server/http.ts';
 import { findClaimToken, insertClaimToken, useClaimToken } from '~/lib/server/queries/claim-tokens.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { claimInTransaction, escalationDetail } from './service.ts';
 
@@ -55,7 +55,7 @@ export async function redeemClaimLink(user: SessionUser, token: string, now = ne
   const row = await findClaimToken(hashClaimToken(token));
   if (!row || row.escalation_id !== escalationId) throw new ApiError(400, 'invalid_token', 'This claim link is not valid. Claim the escalation from the outreach queue instead.');
   if (row.used_at) throw new ApiError(409, 'used', 'This claim link has already been used.');
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     await claimInTransaction(trx, user, escalationId, now, 'e-mail link');
     if (!(await useClaimToken(trx, row.id, user.id, now))) throw new ApiError(409, 'used', 'This claim link has already been used.');
   });

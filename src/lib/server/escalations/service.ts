@@ -9,7 +9,7 @@ import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { eventsOf, findEscalation, insertEvent, listEscalations, lockEscalation, updateEscalation, type EscalationListRow } from '~/lib/server/queries/escalations.ts';
 import { unitSettingsRow, upsertUnitSettings } from '~/lib/server/queries/unit-settings.ts';
@@ -95,7 +95,7 @@ export async function escalationDetail(user: SessionUser, id: number) {
 }
 
 export async function claimEscalation(user: SessionUser, id: number, now = new Date()) {
-  await db().transaction((trx) => claimInTransaction(trx, user, id, now));
+  await withTransactionRetry((trx) => claimInTransaction(trx, user, id, now));
   return escalationDetail(user, id);
 }
 
@@ -115,7 +115,7 @@ export async function claimInTransaction(trx: Knex.Transaction, user: SessionUse
 
 export async function closeEscalation(user: SessionUser, id: number, outcome: Outcome, note: string | undefined, now = new Date()) {
   await visibleEscalation(user, id);
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     const row = (await lockEscalation(trx, id))!;
     if (row.state === 'closed') throw new ApiError(409, 'closed', 'This escalation is already closed.');
     await updateEscalation(trx, id, { state: 'closed', closed_by: user.id, closed_at: now, outcome, close_note: note ?? null });
@@ -147,7 +147,7 @@ export async function readUnitSettings(user: SessionUser, code: string) {
 
 export async function writeUnitSettings(admin: SessionUser, code: string, input: UnitSettingsInput, now = new Date()) {
   const unit = await unitByCode(code);
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     const before = await unitSettingsRow(unit.id, trx);
     const row = {
       unit_id: unit.id, consecutive_charted: input.consecutiveCharted, device_dwell_min: input.deviceDwellMin, urgent_margin_points: input.urgentMarginPoints,

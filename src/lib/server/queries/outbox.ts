@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { mailCommitted } from '~/lib/server/mail/wake.ts';
 import { db } from './db.ts';
+import { withTransactionRetry } from './transaction.ts';
 
 export interface OutboxRow {
   id: number; idempotency_key: string; escalation_id: number | null; to_addresses: string; subject: string; text_body: string; html_body: string;
@@ -27,7 +28,7 @@ function outermost(trx: Knex.Transaction): Knex.Transaction {
  * number of instances each take different rows. A claim that outlives its lease is taken again.
  */
 export async function claimDueMail(worker: string, now: Date, leaseMs: number, limit: number): Promise<OutboxRow[]> {
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     const rows = await trx<OutboxRow>('mail_outbox')
       .where((q) => q.where({ status: 'pending' }).andWhere('next_attempt_at', '<=', now))
       .orWhere((q) => q.where({ status: 'sending' }).andWhere('claimed_until', '<', now))

@@ -55,8 +55,13 @@ export async function latestStays(patientIds: number[], conn: Conn = db()): Prom
   return staysQuery(conn).join(latest, 'ls.id', 's.id').select(stayColumns);
 }
 
-export async function openStayOfPatient(trx: Knex.Transaction, patientId: number): Promise<{ id: number; bed_id: number } | undefined> {
-  return trx('bed_stays').where({ patient_id: patientId }).whereNull('ended_at').forUpdate().first('id', 'bed_id');
+export async function openStayOfPatient(trx: Knex.Transaction, patientId: number): Promise<{ id: number; bed_id: number; started_at: Date } | undefined> {
+  return trx('bed_stays').where({ patient_id: patientId }).whereNull('ended_at').forUpdate().first('id', 'bed_id', 'started_at');
+}
+
+/** Locks a bed row: two admissions or moves into one free bed then queue, and the second sees it taken. */
+export async function lockBed(trx: Knex.Transaction, bedId: number): Promise<void> {
+  await trx('beds').where({ id: bedId }).forUpdate().first('id');
 }
 
 export async function openStayInBed(trx: Knex.Transaction, bedId: number): Promise<{ id: number; patient_id: number } | undefined> {

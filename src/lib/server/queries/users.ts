@@ -1,5 +1,7 @@
 import type { Knex } from 'knex';
 import { db } from './db.ts';
+import { withTransactionRetry } from './transaction.ts';
+import { hashSessionId } from './sessions.ts';
 import type { Role } from '~/lib/auth/roles.ts';
 
 export interface UserRow {
@@ -13,11 +15,17 @@ export async function findUserByEmail(email: string, trx: Knex | Knex.Transactio
   return trx<UserRow>('users').where({ email: email.toLowerCase() }).first();
 }
 
-/** The signed-in user as the app sees them, or undefined when missing or deactivated. */
-export async function findActiveSessionUser(id: number): Promise<SessionUser | undefined> {
+/**
+ * The signed-in user as the app sees them, or undefined when the account is missing or
+ * deactivated, or the session record behind the cookie is unknown, revoked or expired.
+ */
+export async function findActiveSessionUser(id: number, sid: string): Promise<SessionUser | undefined> {
   const row = await db()('users as u')
+    .join('sessions as s', 's.user_id', 'u.id')
     .leftJoin('units as n', 'n.id', 'u.unit_id')
-    .where({ 'u.id': id, 'u.active': true })
+    .where({ 'u.id': id, 'u.active': true, 's.id': hashSessionId(sid) })
+    .whereNull('s.revoked_at')
+    .where('s.expires_at', '>', new Date())
     .first('u.id', 'u.email', 'u.name', 'u.role', 'u.unit_id', 'n.code as unit_code', 'n.name as unit_name');
   if (!row) return undefined;
   return { id: row.id, email: row.email, name: row.name, role: row.role, unitId: row.unit_id, unitCode: row.unit_code ?? null, unitName: row.unit_name ?? null };
@@ -28,7 +36,7 @@ export async function findActiveSessionUser(id: number): Promise<SessionUser | u
  * instances count failures exactly once each.
  */
 export async function withLockedUser<T>(email: string, decide: (user: UserRow | undefined, trx: Knex.Transaction) => Promise<T>): Promise<T> {
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     const user = await trx<UserRow>('users').where({ email: email.toLowerCase() }).forUpdate().first();
     return decide(user, trx);
   });

@@ -11,7 +11,7 @@ import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import {
   activeImportOfFile, findImport, importsOf, insertImport, insertImportReadings, lockImport, markImportWithdrawn, readingSecondsBetween,
@@ -129,7 +129,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
   }
   let id: number;
   try {
-    id = await db().transaction(async (trx) => {
+    id = await withTransactionRetry(async (trx) => {
       await lockPatient(trx, patientId); // same lock order as every obs writer
       const importId = await insertImport(trx, {
         patient_id: patientId, unit_id: stay.unit_id, file_name: file.name, file_hash: file.hash, file_bytes: file.bytes.length,
@@ -163,7 +163,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
 }
 
 export async function withdrawImport(user: SessionUser, importId: number, reason: string, now = new Date()): Promise<ImportView & { readingsWithdrawn: number }> {
-  const marked = await db().transaction(async (trx) => {
+  const marked = await withTransactionRetry(async (trx) => {
     const unlocked = await findImport(importId);
     if (unlocked) await lockPatient(trx, unlocked.patient_id); // patient first, as every obs writer
     const imp = await lockImport(trx, importId);

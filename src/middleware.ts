@@ -1,6 +1,6 @@
 import { defineMiddleware } from 'astro:middleware';
 import { hasRole } from './lib/auth/roles.ts';
-import { isPublicPath, pageRolesFor } from './lib/auth/page-access.ts';
+import { allowedBeforePasswordChange, isPublicPath, pageRolesFor } from './lib/auth/page-access.ts';
 import { findActiveSessionUser } from './lib/server/queries/users.ts';
 import { errorJson } from './lib/server/http.ts';
 import { sessionUserId } from './lib/server/session.ts';
@@ -37,6 +37,11 @@ export const onRequest = defineMiddleware(async (ctx, next) => {
   if (!user) {
     if (isApi) return errorJson(401, 'unauthenticated', 'Sign in first.');
     return ctx.redirect(`/signin?callbackUrl=${encodeURIComponent(path + ctx.url.search)}`);
+  }
+  // New accounts and admin resets: nothing but My account until a new password is chosen.
+  if (user.mustChangePassword && !allowedBeforePasswordChange(path)) {
+    if (isApi) return errorJson(403, 'password_change_required', 'Choose a new password on My account first.');
+    return ctx.redirect('/account?required=1');
   }
   if (!isApi) {
     const roles = pageRolesFor(path);

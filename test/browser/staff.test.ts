@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { APP_URL, waitForMail } from '../support/app.ts';
+import { APP_URL } from '../support/app.ts';
+import { waitForMail } from '../support/mailbox.ts';
 import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { createUnit, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
-import { HttpSession, signedIn, waitForMail } from '../support/app.ts';
+import { HttpSession, signedIn } from '../support/app.ts';
+import { waitForMail } from '../support/mailbox.ts';
 import { countRows, createUnit, createUser, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
@@ -19,6 +20,8 @@ beforeAll(async () => {
 });
 afterAll(async () => { await db.destroy(); });
 
+// mysql2 hands JSON columns back parsed.
+const asJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 const patch = (who: HttpSession, path: string, json: unknown) => who.request(path, { method: 'PATCH', json });
 const newEmail = () => `${unique('staff')}@fixture.example`;
 
@@ -243,8 +246,8 @@ describe('changing role or unit, deactivating, reactivating', () => {
     expect(res.status).toBe(404);
     const audit = await db('audit_log').where({ action: 'user.update', entity_id: String(u.id) }).orderBy('id').select('before', 'after');
     expect(audit).toHaveLength(2);
-    expect(JSON.parse(audit[1].before)).toMatchObject({ role: 'charge' });
-    expect(JSON.parse(audit[1].after)).toMatchObject({ role: 'intensivist', unitCode: null });
+    expect(asJson(audit[1].before)).toMatchObject({ role: 'charge' });
+    expect(asJson(audit[1].after)).toMatchObject({ role: 'intensivist', unitCode: null });
   });
 
   it('deactivation stops an open session at its next request; reactivation restores it', async () => {

@@ -120,6 +120,6 @@ describe('beds', () => {
     const mine = list.units.find((u: { code: string }) => u.code === unit.code);
     expect(mine.beds.find((b: { id: number }) => b.id === unit.bedIds[1])).toMatchObject({ active: false });
     const audit = await db('audit_log').where({ action: 'bed.retire', entity_id: String(unit.bedIds[1]) }).first();
-    expect(JSON.parse(audit.after)).toMatchObject({ reason: 'monitor arm broken' });
+    expect(typeof audit.after === 'string' ? JSON.parse(audit.after) : audit.after).toMatchObject({ reason: 'monitor arm broken' });
   });
 });

@@ -30,3 +30,11 @@ describe('audit reader', () => {
     expect(r.error!.issues[0].path).toEqual(['to']);
   });
 });
+
+describe('audit day filters', () => {
+  it('refuses days that are not on the calendar', () => {
+    expect(auditQuerySchema.safeParse({ from: '2026-13-01' }).success).toBe(false);
+    expect(auditQuerySchema.safeParse({ from: '2026-02-30' }).success).toBe(false);
+    expect(auditQuerySchema.safeParse({ from: '2028-02-29' }).success).toBe(true);
+  });
+});

@@ -2,7 +2,11 @@
 import { z } from 'zod';
 import { formatDateTimeSeconds } from '~/lib/time/format.ts';
 
-const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD');
+const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use YYYY-MM-DD')
+  .refine((v) => {
+    const d = new Date(`${v}T00:00:00Z`);
+    return !Number.isNaN(d.getTime()) && d.toISOString().startsWith(v);
+  }, 'Not a calendar day');
 
 export const auditQuerySchema = z.object({
   actorId: z.coerce.number().int().positive().optional(),

@@ -66,12 +66,12 @@ export default function PasswordForm({ mode, token, email, required }: Props) {
           {errors.currentPassword && <span className="text-sm text-coral-700 dark:text-coral-300">{errors.currentPassword}</span>}
         </label>
       )}
-      <label className="block">
-        <span className="mb-1 block font-bold">New password</span>
-        <span className="mb-1 block text-sm text-ink-600 dark:text-ink-300">At least 12 characters. A few unrelated words make a strong, memorable password; no symbols required.</span>
-        <input className="field" type="password" name="newPassword" autoComplete="new-password" value={next} onChange={(e) => setNext(e.target.value)} required aria-describedby="pw-strength" aria-invalid={Boolean(errors.newPassword)} />
+      <div>
+        <label className="mb-1 block font-bold" htmlFor="pw-new">New password</label>
+        <p id="pw-hint" className="mb-1 text-sm text-ink-600 dark:text-ink-300">At least 12 characters. A few unrelated words make a strong, memorable password; no symbols required.</p>
+        <input id="pw-new" className="field" type="password" name="newPassword" autoComplete="new-password" value={next} onChange={(e) => setNext(e.target.value)} required aria-describedby="pw-hint pw-strength" aria-invalid={Boolean(errors.newPassword)} />
         {errors.newPassword && <span className="text-sm text-coral-700 dark:text-coral-300">{errors.newPassword}</span>}
-      </label>
+      </div>
       <div id="pw-strength" aria-live="polite" data-testid="password-strength" className="text-sm">
         {strength ? (
           <>

@@ -1,5 +1,6 @@
 /** What the admin mail page shows: the outbox (always) and, in development, what the SMTP fake received. */
 import { recentOutbox } from '~/lib/server/queries/outbox.ts';
+import { devMailbox } from './dev-mailbox.ts';
 
 export async function mailOverview(limit = 50) {
   const outbox = (await recentOutbox(limit)).map((r) => ({
@@ -9,20 +10,12 @@ export async function mailOverview(limit = 50) {
     // Set-password tokens are never shown to administrators (they could otherwise take over the account).
     text: r.text_body.replace(/token=[A-Za-z0-9_-]+/g, 'token=(hidden)'),
   }));
-  const api = process.env.SMTP_FAKE_API_URL;
-  let received: unknown[] | null = null;
-  let receivedError: string | null = null;
-  if (api) {
-    try {
-      const res = await fetch(`${api.replace(/\/$/, '')}/messages`, { signal: AbortSignal.timeout(2_000) });
-      received = ((await res.json()) as { messages: Record<string, unknown>[] }).messages.slice(0, limit).map((m) => ({
-        ...m,
-        text: typeof m.text === 'string' ? m.text.replace(/token=[A-Za-z0-9_-]+/g, 'token=(hidden)') : m.text,
-        html: typeof m.html === 'string' ? m.html.replace(/token=[A-Za-z0-9_-]+/g, 'token=(hidden)') : m.html,
-      }));
-    } catch (err) {
-      receivedError = `The development SMTP fake is not answering (${(err as Error).message}).`;
-    }
-  }
-  return { outbox, received, receivedError, smtpFake: Boolean(api) };
+  const dev = await devMailbox(limit);
+  // The fake keeps whole messages; mask set-password tokens here too.
+  const received = dev.received?.map((m) => {
+    const msg = m as Record<string, unknown>;
+    const mask = (v: unknown) => (typeof v === 'string' ? v.replace(/token=[A-Za-z0-9_-]+/g, 'token=(hidden)') : v);
+    return { ...msg, text: mask(msg.text), html: mask(msg.html) };
+  }) ?? null;
+  return { outbox, received, receivedError: dev.error, smtpFake: dev.enabled };
 }

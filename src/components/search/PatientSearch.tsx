@@ -66,7 +66,7 @@ export default function PatientSearch() {
         onFocus={() => setOpen(true)} onBlur={() => setTimeout(() => setOpen(false), 150)}
       />
       {showList && (
-        <div className="absolute right-0 z-30 mt-1 w-80 rounded-md border border-ink-200 bg-white p-1 text-ink-900 shadow-lg dark:border-ink-700 dark:bg-ink-900 dark:text-ink-100">
+        <div className="absolute left-0 z-30 mt-1 w-[min(20rem,calc(100vw-2rem))] rounded-md sm:left-auto sm:right-0 border border-ink-200 bg-white p-1 text-ink-900 shadow-lg dark:border-ink-700 dark:bg-ink-900 dark:text-ink-100">
           <label className="flex items-center gap-2 px-2 py-1 text-xs">
             <input type="checkbox" checked={discharged} onChange={(e) => setDischarged(e.target.checked)} onMouseDown={(e) => e.preventDefault()} /> include discharged
           </label>

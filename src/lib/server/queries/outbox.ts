@@ -29,11 +29,12 @@ export async function claimDueMail(worker: string, now: Date, leaseMs: number, l
 }
 
 export async function markSent(id: number, worker: string, messageId: string, at: Date): Promise<void> {
-  await db()('mail_outbox').where({ id, claimed_by: worker, status: 'sending' }).update({ status: 'sent', sent_at: at, message_id: messageId, claimed_until: null, attempts: db().raw('attempts + 1') });
-  // A set-password link is a secret: once delivered, the outbox keeps the mail without its token.
-  await db()('mail_outbox').where({ id, status: 'sent' }).andWhere('idempotency_key', 'like', 'password-link:%').update({
-    text_body: db().raw("REGEXP_REPLACE(text_body, 'token=[A-Za-z0-9_-]+', 'token=(removed after sending)')"),
-    html_body: db().raw("REGEXP_REPLACE(html_body, 'token=[A-Za-z0-9_-]+', 'token=(removed after sending)')"),
+  // A set-password link is a secret: in the same statement, a delivered one loses its token from the outbox.
+  const scrub = (column: string) => db().raw(
+    `IF(idempotency_key LIKE 'password-link:%', REGEXP_REPLACE(??, 'token=[A-Za-z0-9_-]+', 'token=(removed after sending)'), ??)`, [column, column]);
+  await db()('mail_outbox').where({ id, claimed_by: worker, status: 'sending' }).update({
+    status: 'sent', sent_at: at, message_id: messageId, claimed_until: null, attempts: db().raw('attempts + 1'),
+    text_body: scrub('text_body'), html_body: scrub('html_body'),
   });
 }
 

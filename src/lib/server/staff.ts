@@ -66,9 +66,8 @@ export async function createStaff(actorId: number, input: CreateUserInput, now =
 }
 
 /** Refuses to leave the hospital without an active administrator (409). */
-async function assertNotLastAdmin(trx: Knex.Transaction, user: StaffRow) {
+function assertNotLastAdmin(admins: number[], user: StaffRow) {
   if (user.role !== 'admin' || !user.active) return;
-  const admins = await lockActiveAdmins(trx);
   if (admins.length <= 1) throw new ApiError(409, 'last_admin', 'This is the last active administrator; make another administrator first.');
 }
 
@@ -80,13 +79,16 @@ async function lockedOrMissing(trx: Knex.Transaction, id: number): Promise<Staff
 
 export async function updateStaffMember(actorId: number, id: number, input: UpdateUserInput, now = new Date()) {
   return db().transaction(async (trx) => {
+    // Administrators' rows first, then the person's: one lock order for every writer, so two
+    // administrators changing each other wait for one another instead of deadlocking.
+    const admins = await lockActiveAdmins(trx);
     const before = await lockedOrMissing(trx, id);
     const role: Role = input.role ?? before.role;
     // A change of role alone to one without a unit drops the unit; other combinations must name it.
     const unitCode = input.unitCode !== undefined ? input.unitCode : (input.role && (input.role === 'intensivist' || input.role === 'outreach' || input.role === 'admin') ? null : before.unit_code);
     const problem = unitRuleProblem(role, unitCode);
     if (problem) throw new ApiError(400, 'invalid_input', `unitCode: ${problem}.`, { unitCode: problem });
-    if (before.role === 'admin' && role !== 'admin') await assertNotLastAdmin(trx, before);
+    if (before.role === 'admin' && role !== 'admin') assertNotLastAdmin(admins, before);
     const unitId = await resolveUnit(trx, unitCode);
     const name = input.name ?? before.name;
     await updateStaff(trx, id, { role, unit_id: unitId, name });
@@ -98,9 +100,10 @@ export async function updateStaffMember(actorId: number, id: number, input: Upda
 
 export async function deactivateStaff(actorId: number, id: number, reason: string | undefined, now = new Date()) {
   const result = await db().transaction(async (trx) => {
+    const admins = await lockActiveAdmins(trx); // same lock order as updateStaffMember
     const before = await lockedOrMissing(trx, id);
     if (!before.active) return { user: view(before), changed: false };
-    await assertNotLastAdmin(trx, before);
+    assertNotLastAdmin(admins, before);
     await updateStaff(trx, id, { active: false, deactivated_at: now });
     await expireOpenLinks(trx, id, now);
     await writeAudit(trx, { actorId, action: 'user.deactivate', entity: 'user', entityId: id, before: { active: true }, after: { active: false, reason: reason ?? null }, at: now });

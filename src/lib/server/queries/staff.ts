@@ -34,7 +34,7 @@ export async function updateStaff(trx: Trx, id: number, fields: Record<string, u
 
 /** Active administrators, row-locked so two concurrent demotions or deactivations cannot both pass. */
 export async function lockActiveAdmins(trx: Trx): Promise<number[]> {
-  const rows = await trx('users').where({ role: 'admin', active: true }).forUpdate().select('id');
+  const rows = await trx('users').where({ role: 'admin', active: true }).orderBy('id').forUpdate().select('id');
   return rows.map((r: { id: number }) => r.id);
 }
 

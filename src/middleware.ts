@@ -1,6 +1,6 @@
 import { defineMiddleware, sequence } from 'astro:middleware';
 import { hasRole } from '~/lib/auth/roles.ts';
-import { isPublicPath, pageRolesFor } from '~/lib/auth/page-access.ts';
+import { allowedBeforePasswordChange, isPublicPath, pageRolesFor } from '~/lib/auth/page-access.ts';
 import { retryAfterSeconds } from '~/lib/auth/throttle.ts';
 import { findActiveSessionUser } from '~/lib/server/queries/users.ts';
 import { isDatabaseUnavailable } from '~/lib/server/queries/transaction.ts';
@@ -136,6 +136,11 @@ const access = defineMiddleware(async (ctx, next) => {
   if (!user) {
     if (isApiPath(path)) return errorJson(401, 'unauthenticated', 'Sign in first.');
     return ctx.redirect(`/signin?callbackUrl=${encodeURIComponent(path + ctx.url.search)}`);
+  }
+  // New accounts and admin resets: nothing but My account until a new password is chosen.
+  if (user.mustChangePassword && !allowedBeforePasswordChange(path)) {
+    if (isApiPath(path)) return errorJson(403, 'password_change_required', 'Choose a new password on My account first.');
+    return ctx.redirect('/account?required=1');
   }
   if (!isApiPath(path)) {
     const roles = pageRolesFor(path);

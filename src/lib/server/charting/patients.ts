@@ -9,7 +9,7 @@ import { latestOrders, ordersOf } from '~/lib/server/queries/orders.ts';
 import { lastChartedObservation } from '~/lib/server/queries/observations.ts';
 import {
   endStay, findBed, findPatient, findPatientByMrn, insertPatient, insertStay, latestStays, lockBed, lockPatient,
-  bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
+  bedIsActive, bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
 } from '~/lib/server/queries/patients.ts';
 import { listUnits } from '~/lib/server/queries/units.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
@@ -64,7 +64,8 @@ export async function listPatients(user: SessionUser, opts: { unit?: string; inc
 
 async function assertBedForCharge(user: SessionUser, bedId: number, allowOtherUnit: boolean) {
   const bed = await findBed(bedId);
-  if (!bed || !bed.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  if (!bed) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  if (!bed.active) throw new ApiError(409, 'bed_retired', `Bed ${bed.label} is retired; choose another bed.`, { bedId: 'This bed is retired' });
   if (!allowOtherUnit && bed.unit_id !== user.unitId) throw new ApiError(403, 'forbidden', `Bed ${bed.label} is not in your unit.`);
   return bed;
 }
@@ -75,11 +76,17 @@ export function sameName(a: string, b: string): boolean {
   return norm(a) === norm(b);
 }
 
+/** Re-read under a shared lock: an administrator retiring the bed meanwhile wins or waits, never crosses. */
+async function assertBedStillActive(trx: Parameters<typeof bedIsActive>[0], bed: { id: number; label: string }) {
+  if (!(await bedIsActive(trx, bed.id))) throw new ApiError(409, 'bed_retired', `Bed ${bed.label} is retired; choose another bed.`, { bedId: 'This bed is retired' });
+}
+
 export async function admitPatient(user: SessionUser, input: AdmitInput, now = new Date()): Promise<PatientSummary> {
   if (user.role !== 'charge') throw new ApiError(403, 'forbidden', 'Only a charge nurse admits patients.');
   const bed = await assertBedForCharge(user, input.bedId, false);
   const admit = () => withTransactionRetry(async (trx) => {
     await lockBed(trx, bed.id);
+    await assertBedStillActive(trx, bed);
     if (await openStayInBed(trx, bed.id)) throw new ApiError(409, 'bed_occupied', `Bed ${bed.label} already has a patient.`, { bedId: 'This bed is occupied' });
     let existing = await findPatientByMrn(input.mrn, trx);
     if (existing) {
@@ -125,6 +132,7 @@ export async function movePatient(user: SessionUser, patientId: number, bedId: n
     if (!open) throw new ApiError(409, 'not_admitted', 'This patient has been discharged.');
     await lockBed(trx, bed.id);
     if (open.bed_id === bed.id) throw new ApiError(409, 'same_bed', 'The patient is already in that bed.', { bedId: 'Same bed' });
+    await assertBedStillActive(trx, bed);
     if (await openStayInBed(trx, bed.id)) throw new ApiError(409, 'bed_occupied', `Bed ${bed.label} already has a patient.`, { bedId: 'This bed is occupied' });
     await endStay(trx, open.id, { ended_at: now, end_reason: 'moved', ended_by: user.id });
     const stayId = await insertStay(trx, { patient_id: patientId, bed_id: bed.id, started_at: now, started_by: user.id });

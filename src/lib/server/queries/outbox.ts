@@ -40,7 +40,13 @@ export async function claimDueMail(worker: string, now: Date, leaseMs: number, l
 }
 
 export async function markSent(id: number, worker: string, messageId: string, at: Date): Promise<void> {
-  await db()('mail_outbox').where({ id, claimed_by: worker, status: 'sending' }).update({ status: 'sent', sent_at: at, message_id: messageId, claimed_until: null, attempts: db().raw('attempts + 1') });
+  // A set-password link is a secret: in the same statement, a delivered one loses its token from the outbox.
+  const scrub = (column: string) => db().raw(
+    `IF(idempotency_key LIKE 'password-link:%', REGEXP_REPLACE(??, 'token=[A-Za-z0-9_-]+', 'token=(removed after sending)'), ??)`, [column, column]);
+  await db()('mail_outbox').where({ id, claimed_by: worker, status: 'sending' }).update({
+    status: 'sent', sent_at: at, message_id: messageId, claimed_until: null, attempts: db().raw('attempts + 1'),
+    text_body: scrub('text_body'), html_body: scrub('html_body'),
+  });
 }
 
 export async function markRetry(id: number, worker: string, error: string, nextAt: Date): Promise<void> {

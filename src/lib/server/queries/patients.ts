@@ -77,6 +77,12 @@ export async function endStay(trx: Knex.Transaction, id: number, fields: { ended
   await trx('bed_stays').where({ id }).whereNull('ended_at').update(fields);
 }
 
+/** Whether a bed still takes patients, under a shared lock (see units-admin retireBed). */
+export async function bedIsActive(trx: Knex.Transaction, bedId: number): Promise<boolean> {
+  const row = await trx('beds').where({ id: bedId }).forShare().first('active');
+  return Boolean(row?.active);
+}
+
 export async function findBed(id: number, conn: Conn = db()): Promise<BedRow | undefined> {
   return conn('beds as b').join('units as u', 'u.id', 'b.unit_id').where('b.id', id)
     .first('b.id', 'b.label', 'b.unit_id', 'u.code as unit_code', 'u.name as unit_name', 'b.active');

@@ -56,6 +56,7 @@ galera_start_node() {
     --wsrep-provider-options="gmcast.listen_addr=tcp://127.0.0.1:$((CLUSTER_BASE + 20 + i));ist.recv_addr=127.0.0.1:$((CLUSTER_BASE + 30 + i))" \
     --wsrep-sst-method=rsync --wsrep-sst-receive-address="127.0.0.1:$((CLUSTER_BASE + 40 + i))" \
     --wsrep-node-name="node$i" "${bootstrap[@]}" >/dev/null 2>&1 &
+  disown $! # a node the drill kills on purpose is not a job for this shell to report
 }
 
 node_sql() { mariadb --no-defaults --socket="$(node_dir "$1")/mysqld.sock" -uroot -N -B -e "$2" 2>/dev/null; }
@@ -151,6 +152,7 @@ app_start() {
   local i="$1"
   HOST=127.0.0.1 PORT="$(app_port "$i")" EBB_INSTANCE="app$i" node "$EBB_OUT_DIR/server/entry.mjs" >>"$CLUSTER_DIR/app$i.log" 2>&1 &
   echo $! >"$CLUSTER_DIR/app$i.pid"
+  disown $!
 }
 app_pid() { cat "$CLUSTER_DIR/app$1.pid" 2>/dev/null || true; }
 app_kill() { local pid; pid="$(app_pid "$1")"; [ -n "$pid" ] && kill -9 "$pid" 2>/dev/null || true; rm -f "$CLUSTER_DIR/app$1.pid"; }

@@ -36,6 +36,16 @@ export default getViteConfig({
           hookTimeout: 120_000,
         },
       },
+      {
+        extends: true,
+        test: {
+          // The short cluster drill: starts its own Galera cluster, HAProxy and app instances.
+          name: 'cluster',
+          include: ['test/cluster/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 15 * 60_000,
+        },
+      },
     ],
   },
 });

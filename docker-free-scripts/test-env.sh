@@ -12,7 +12,7 @@ export EBB_TEST_DB_DIR="$EBB_ROOT/var/$TEST_DB_NAME"
 export EBB_OUT_DIR="${EBB_OUT_DIR:-dist}"
 RESULTS="$EBB_ROOT/var/test-results-$TEST_APP_PORT"
 
-apt_install mariadb-server mariadb-client chromium poppler-utils
+apt_install mariadb-server mariadb-client chromium poppler-utils galera-4 rsync haproxy
 ensure_node_modules
 
 export AUTH_SECRET="test-secret-$(node -e 'console.log(require("crypto").randomBytes(16).toString("hex"))')"

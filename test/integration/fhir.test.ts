@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
-import { codeIssues, structureIssues } from '~/lib/fhir/validate.ts';
+import { codeIssues, ensureIndexed, r4Codes, structureIssues } from '~/lib/fhir/validate.ts';
 import { HttpSession, signedIn } from '../support/app.ts';
 import { createUnit, createUser, testDb, unique } from '../support/db.ts';
 
@@ -19,6 +19,8 @@ const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString(
 const obs = (extra: Record<string, unknown> = {}) => ({ takenAt: minutesAgo(30), spo2: 91, heartRate: 104, respRate: 24, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean', systolic: 112, temperature: 37.9, consciousness: 'alert', ...extra });
 
 beforeAll(async () => {
+  ensureIndexed();
+  r4Codes('http://hl7.org/fhir/bundle-type');
   db = testDb();
   unit = await createUnit(db, 3);
   otherUnit = await createUnit(db, 2);
@@ -32,7 +34,7 @@ beforeAll(async () => {
   patientId = id;
   await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 5 * 3_600_000) });
   await db('target_orders').insert({ patient_id: id, low: 88, high: 92, reason: 'Known CO₂ retainer', ordered_by: intensivistId, ordered_at: new Date(Date.now() - 4 * 3_600_000) });
-});
+}, 180_000);
 afterAll(async () => { await db.destroy(); });
 
 async function exportBundle(session: HttpSession, query = '') {

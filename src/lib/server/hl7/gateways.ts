@@ -10,6 +10,7 @@ import { db } from '~/lib/server/queries/db.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { activeBeds } from '~/lib/server/queries/devices.ts';
 import { findBed } from '~/lib/server/queries/patients.ts';
+import { listUnits } from '~/lib/server/queries/units.ts';
 import {
   deleteGatewayBed, insertGateway, insertGatewayBed, listGatewayBeds, listGateways, lockGateway, lockGatewayBed, revokeGateway,
 } from '~/lib/server/queries/hl7-gateways.ts';
@@ -22,7 +23,7 @@ export function mllpPort(): number | null {
 }
 
 export async function listAllGateways(): Promise<GatewayList> {
-  const [gateways, maps, beds] = await Promise.all([listGateways(), listGatewayBeds(), activeBeds()]);
+  const [gateways, maps, beds, units] = await Promise.all([listGateways(), listGatewayBeds(), activeBeds(), listUnits()]);
   return {
     gateways: gateways.map((g): GatewayView => ({
       id: g.id, label: g.label, sendingApplication: g.sending_application, sendingFacility: g.sending_facility,
@@ -32,6 +33,7 @@ export async function listAllGateways(): Promise<GatewayList> {
     })),
     beds: beds.map((b) => ({ id: b.id, label: b.label, unitCode: b.unit_code, unitName: b.unit_name })),
     mllpPort: mllpPort(),
+    timeZone: units[0]?.time_zone ?? 'UTC',
   };
 }
 

@@ -14,7 +14,7 @@ import { buildOru } from '../src/lib/hl7/oru.ts';
 import { createGateway, mapGatewayBed, revokeGatewayById } from '../src/lib/server/hl7/gateways.ts';
 import { liveGatewayBySender } from '../src/lib/server/queries/hl7-gateways.ts';
 import { closeDb, db } from '../src/lib/server/queries/db.ts';
-import { liveKeyIdsLabelled, occupiedBedsWithDeviceReadings, recentDeviceReadings } from '../src/lib/server/queries/devices.ts';
+import { liveKeyIdsLabelled, occupiedBedsWithDeviceReadings, recentDeviceReadings } from './feeder-queries.ts';
 
 const APP_URL = process.env.APP_URL ?? `http://127.0.0.1:${process.env.PORT ?? 4321}`;
 const LABEL = 'demo feeder';

@@ -130,5 +130,5 @@ while (!stopping) {
   await new Promise((r) => setTimeout(r, CYCLE_MS).unref());
   if (stopping) break;
 }
-await hl7?.close();
+await (hl7 as Hl7Client | null)?.close();
 await closeDb();

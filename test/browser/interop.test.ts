@@ -40,9 +40,9 @@ describe('HL7 gateways page and the FHIR download', () => {
     await page.getByRole('button', { name: 'Register gateway' }).click();
     const card = page.locator('li', { hasText: label });
     await card.waitFor();
-    const bedLabel = (await db('beds').where({ id: unit.bedIds[0] }).first()).label as string;
     await card.getByLabel('Bed name as sent in PV1-3').fill('PW^^1');
-    await card.getByLabel('is our bed').selectOption({ label: bedLabel });
+    // By value: bed labels repeat across the fixture units.
+    await card.getByLabel('is our bed').selectOption(String(unit.bedIds[0]));
     await card.getByRole('button', { name: 'Map bed' }).click();
     await card.locator('td', { hasText: 'PW^^1' }).waitFor();
     await context.close();
@@ -52,6 +52,7 @@ describe('HL7 gateways page and the FHIR download', () => {
     const ack = await client.sendAndWait(buildOru({ application: app, facility: 'HARBOUR', controlId: unique('C'), bedName: 'PW^^1', sentAt: new Date(), readings: [{ at, spo2: 94, heartRate: 77 }] }), { returnAck: 'first', timeoutMs: 10_000 });
     await client.close();
     expect(ack.getSegment('MSA')!.getField(1).toString()).toBe('AA');
+    expect(ack.getSegment('MSA')!.getField(3).toString()).toMatch(/^1 stored/);
 
     const chartContext = await browser.newContext({ viewport: { width: 390, height: 844 }, acceptDownloads: true });
     const chart = await chartContext.newPage();

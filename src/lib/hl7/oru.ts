@@ -168,7 +168,7 @@ export function escapeHl7(text: string): string {
 export function buildAck(msg: Hl7Message, ack: 'AA' | 'AE' | 'AR', text: string, problem?: Hl7Problem): Hl7Message {
   const errSegment = problem ? errSegmentFor(problem) : undefined;
   const out = msg.buildAck({ ackCode: ack, errSegment });
-  out.setSegment('MSA', new Hl7Segment(['MSA', ack, msg.header.getField(10)?.toString() ?? '', escapeHl7(text).slice(0, 80)]));
+  out.setSegment('MSA', new Hl7Segment(['MSA', ack, msg.header.getField(10)?.toString() ?? '', escapeHl7(text.slice(0, 80))]));
   return out;
 }
 
@@ -182,7 +182,7 @@ export function bareRejectAck(reason: string, now: Date, controlId: string): str
   const ts = hl7Timestamp(now);
   return [
     `MSH|^~\\&|EBBWATCH|EBBWATCH|||${ts}||ACK|${controlId}|P|2.6`,
-    `MSA|AR||${escapeHl7(reason).slice(0, 80)}`,
+    `MSA|AR||${escapeHl7(reason.slice(0, 80))}`,
     `ERR|||${HL7_ERROR.segmentSequence[0]}^${HL7_ERROR.segmentSequence[1]}^HL70357|E||||${escapeHl7(reason)}`,
   ].join('\r');
 }

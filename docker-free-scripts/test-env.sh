@@ -29,6 +29,8 @@ export EBB_OUTBOX_INTERVAL_MS="${EBB_OUTBOX_INTERVAL_MS:-300}" EBB_MAIL_RETRY_BA
 export SMTP_FAKE_PORT=$((TEST_APP_PORT + 1100)) SMTP_FAKE_HTTP_PORT=$((TEST_APP_PORT + 1101))
 export SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake-$TEST_APP_PORT"
 export SMTP_URL="smtp://127.0.0.1:$SMTP_FAKE_PORT" SMTP_FAKE_API_URL="http://127.0.0.1:$SMTP_FAKE_HTTP_PORT"
+# The HL7 v2 MLLP listener: its port follows the app port too.
+export EBB_MLLP_PORT=$((TEST_APP_PORT + 1200)) EBB_MLLP_HOST=127.0.0.1
 
 cleanup() {
   local code=$?
@@ -56,6 +58,15 @@ wait_for_http "$SMTP_FAKE_API_URL/health" 30 || { cat "var/smtp-fake-$TEST_APP_P
 log "migrating and seeding the test database"
 npm run --silent migrate
 node --import tsx docker-free-scripts/seed-if-empty.ts
+
+# The MLLP listener is its own process (see docker-free-scripts/mllp.ts); it needs the migrated database.
+node --import tsx docker-free-scripts/mllp.ts >"var/mllp-$TEST_APP_PORT.log" 2>&1 &
+EXTRA_PIDS="${EXTRA_PIDS:-} $!"
+for _ in $(seq 1 100); do
+  grep -q "HL7 v2 listener on" "var/mllp-$TEST_APP_PORT.log" 2>/dev/null && break
+  sleep 0.2
+done
+grep -q "HL7 v2 listener on" "var/mllp-$TEST_APP_PORT.log" || { cat "var/mllp-$TEST_APP_PORT.log"; die "the MLLP listener did not start"; }
 
 
 start_test_app() {

@@ -32,6 +32,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/admin/settings', label: 'Escalation settings', roles: ['admin'] },
   { href: '/admin/mail', label: 'Mail', roles: ['admin'] },
   { href: '/admin/devices', label: 'Device keys', roles: ['admin'] },
+  { href: '/admin/gateways', label: 'HL7 gateways', roles: ['admin'] },
   { href: '/account', label: 'My account', roles: [...CLINICAL_ROLES, 'admin'] },
 ];
 

@@ -5,10 +5,11 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
+import type { IngestSource } from './ingest.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { findBed } from '~/lib/server/queries/patients.ts';
 import {
-  activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, type DeviceKeyListRow,
+  activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, touchDeviceKey, type DeviceKeyListRow,
 } from '~/lib/server/queries/devices.ts';
 
 const KEY_PREFIX = 'ebw_';
@@ -77,4 +78,9 @@ export async function authenticateDeviceKey(authorization: string | null) {
   if (key.revoked_at) throw new ApiError(401, 'device_key_revoked', 'This device key was revoked; ask an administrator for a new one.');
   if (!key.bed_active) throw new ApiError(403, 'bed_inactive', `Bed ${key.bed_label} is no longer in use.`);
   return key;
+}
+
+/** The feed's source for a key: its bed, and its "last used" stamp written with the readings. */
+export function deviceKeySource(key: Awaited<ReturnType<typeof authenticateDeviceKey>>): IngestSource {
+  return { bed_id: key.bed_id, bed_label: key.bed_label, touch: (trx, at) => touchDeviceKey(trx, key.id, at) };
 }

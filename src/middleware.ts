@@ -66,6 +66,8 @@ const bodyCap = defineMiddleware((ctx, next) => {
   const limit = bodyLimitFor(path);
   const declared = ctx.request.headers.get('content-length');
   if (declared === null) {
+    // No length and no chunked encoding: HTTP says there is no body (a browser's bodiless DELETE).
+    if (!ctx.request.headers.has('transfer-encoding')) return next();
     if (streamsOwnBody(path)) return next(); // the upload reader stops at the same cap
     return errorJson(411, 'length_required', 'Send a Content-Length with the body.');
   }

@@ -18,7 +18,7 @@ beforeAll(async () => {
   const { sessions } = await signInPeople(db, { charge: ['charge', unit.unitId] });
   const res = await sessions.charge.post('/api/patients', { givenName: 'Perpetua', familyName: unique('Lowe'), mrn: unique('BR').toUpperCase().slice(0, 20), dateOfBirth: '1957-03-14', bedId: unit.bedIds[0] });
   patientId = (await res.json()).patient.id;
-  const obs = await sessions.charge.post(`/api/patients/${patientId}/observations`, { takenAt: new Date(Date.now() - 30 * 60_000).toISOString(), spo2: 96, heartRate: 78, respRate: 15, device: 'room_air', trace: 'clean' });
+  const obs = await sessions.charge.post(`/api/patients/${patientId}/observations`, { takenAt: new Date(Date.now() - 5 * 60_000).toISOString(), spo2: 96, heartRate: 78, respRate: 15, device: 'room_air', trace: 'clean' });
   expect(obs.status).toBe(201);
   await db.destroy();
 });

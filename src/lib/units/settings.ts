@@ -5,6 +5,9 @@ import type { BoardSettings } from '~/lib/board/tiles.ts';
 export interface UnitSettings extends BoardSettings {
   renotifyMin: number;
   outreachEmails: string[];
+  /** Handover shift times, wall clock in the unit's zone (the day shift runs start → end). */
+  shiftStart: string;
+  shiftEnd: string;
 }
 
 export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
@@ -12,11 +15,14 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
   overdueMin: 75,
   renotifyMin: 15,
   outreachEmails: [],
+  shiftStart: '07:30',
+  shiftEnd: '19:30',
 };
 
 export interface UnitSettingsColumns {
   consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
+  shift_start?: string; shift_end?: string;
 }
 
 export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
@@ -26,6 +32,7 @@ export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSetti
     consecutiveCharted: row.consecutive_charted, deviceDwellMin: row.device_dwell_min, urgentMarginPoints: row.urgent_margin_points,
     urgentFloorPct: row.urgent_floor_pct, cannotVerifyMin: row.cannot_verify_min, aboveOnOxygenMin: row.above_on_oxygen_min,
     renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
+    shiftStart: row.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart, shiftEnd: row.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
   };
 }

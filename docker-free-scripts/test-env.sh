@@ -10,7 +10,7 @@ TEST_DB_NAME="test-db-$TEST_DB_PORT"
 export EBB_OUT_DIR="${EBB_OUT_DIR:-dist}"
 RESULTS="$EBB_ROOT/var/test-results-$TEST_APP_PORT"
 
-apt_install mariadb-server mariadb-client chromium
+apt_install mariadb-server mariadb-client chromium poppler-utils
 ensure_node_modules
 
 export AUTH_SECRET="test-secret-$(node -e 'console.log(require("crypto").randomBytes(16).toString("hex"))')"

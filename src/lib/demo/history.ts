@@ -79,7 +79,7 @@ export function generateDemoHistory(now: Date, seed = 20261203): DemoHistory {
           if (h >= dischargedAt) break;
           let spo2 = mid + Math.round((rand() - 0.5) * 4);
           let trace: DemoObservation['trace'] = rand() < 0.05 ? 'weak' : 'clean';
-          if (dipAt !== null && h >= dipAt && h < dipAt + dipHours * HOUR) { spo2 = band.low - 2 - Math.floor(rand() * 5); dipLowest = Math.min(dipLowest, spo2); }
+          if (dipAt !== null && h >= dipAt && h < dipAt + dipHours * HOUR) { spo2 = band.low - 1 - Math.floor(rand() * (rand() < 0.3 ? 6 : 3)); dipLowest = Math.min(dipLowest, spo2); }
           if (poorAt !== null && h >= poorAt && h < poorAt + HOUR) { spo2 = 80 + Math.floor(rand() * 8); trace = 'noisy'; }
           const hr = Math.round(80 + (rand() - 0.5) * 18 + (spo2 < band.low ? 14 : 0));
           observations.push({

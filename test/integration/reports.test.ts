@@ -4,6 +4,7 @@ import type { HttpSession } from '../support/app.ts';
 import { countRows, createUnit, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { lastWholeDays } from '../../src/lib/reports/shift.ts';
+import { formatClock } from '../../src/lib/time/format.ts';
 import { computeUnitReport } from '../../src/lib/server/reports/unit-report.ts';
 import { patientSeries } from '../../src/lib/server/charting/series.ts';
 import { closeDb } from '../../src/lib/server/queries/db.ts';
@@ -177,6 +178,22 @@ describe('handover sheet and notes', () => {
     expect(from).toBeLessThanOrEqual(Date.now());
     expect(to).toBeGreaterThan(Date.now());
     expect(to - from).toBe(12 * 3_600_000);
+  });
+
+  it('takes shift times from the unit settings (admin), refusing malformed times', async () => {
+    const body = { consecutiveCharted: 2, deviceDwellMin: 5, urgentMarginPoints: 5, urgentFloorPct: 85, cannotVerifyMin: 15, aboveOnOxygenMin: 30, renotifyMin: 15, overdueMin: 75, outreachEmails: ['outreach@fixture.example'] };
+    const bad = await s.admin.put(`/api/units/${unit.code}/settings`, { ...body, shiftStart: '25:00', shiftEnd: '20:00' });
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error.fields.shiftStart).toBe('Shift start as HH:MM, 24-hour');
+    const ok = await s.admin.put(`/api/units/${unit.code}/settings`, { ...body, shiftStart: '08:00', shiftEnd: '20:00' });
+    expect(ok.status).toBe(200);
+    expect((await ok.json()).settings).toMatchObject({ shiftStart: '08:00', shiftEnd: '20:00' });
+    const sheet = await (await s.charge.get(`/api/handover?unit=${unit.code}`)).json();
+    expect(sheet.shift).toMatchObject({ start: '08:00', end: '20:00' });
+    expect(['08:00', '20:00']).toContain(formatClock(sheet.shift.from, 'Europe/London'));
+    // Saving settings without the shift keeps the shift.
+    await s.admin.put(`/api/units/${unit.code}/settings`, body);
+    expect((await (await s.charge.get(`/api/units/${unit.code}/settings`)).json()).settings.shiftStart).toBe('08:00');
   });
 
   it('saves notes as versions (audited), refuses a stale base, bad input and the wrong people, and shows the newest on the sheet', async () => {

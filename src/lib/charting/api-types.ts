@@ -3,7 +3,7 @@
  * Times are ISO 8601 strings in UTC; islands show them in `timeZone` of the unit.
  */
 import type { OxygenDevice, ReadingSource, TraceQuality } from '~/lib/oxygenation/types.ts';
-import type { Consciousness } from './obs-input.ts';
+import type { Consciousness } from '~/lib/oxygenation/news2.ts';
 
 export interface OrderView {
   id: number; low: number; high: number; news2Scale: 1 | 2; preset: string | null; reason: string; scaleReason: string | null;

@@ -23,7 +23,7 @@ describe('oxygenCourse', () => {
 
 describe('news2At', () => {
   it('scores the newest charted set at or before the time (RCP NEWS2 2017 chart: all parameters in the 0 row)', () => {
-    const set = { at: 100, spo2: 97, heartRate: 70, respRate: 16, systolic: 120, temperature: 37, consciousness: 'alert', device: 'room_air' as const };
+    const set = { at: 100, spo2: 97, heartRate: 70, respRate: 16, fio2: 0.21, fio2Estimated: false, systolic: 120, temperature: 37, consciousness: 'alert' as const, device: 'room_air' as const };
     expect(news2At([set], 50, 1)).toBeNull();
     expect(news2At([set], 100, 1)).toMatchObject({ total: 0, complete: true, at: 100 });
     // On oxygen scores 2 (RCP NEWS2 2017, "air or oxygen" row).

@@ -3,13 +3,11 @@
  * (band compliance, trust, NEWS2). Pure: rows come in already shaped, the clock is passed in.
  */
 import {
-  bandCompliance, isTrusted, news2, type BandOrder, type Consciousness, type OxygenDevice, type Reading,
+  bandCompliance, isTrusted, news2, type BandOrder, type OxygenDevice, type Reading,
 } from '~/lib/oxygenation/index.ts';
+import { news2InputOf, type ChartedObs } from '~/lib/charting/charted-obs.ts';
 
-export interface ChartedSet {
-  at: number; spo2: number | null; heartRate: number | null; respRate: number | null; systolic: number | null;
-  temperature: number | null; consciousness: string | null; device: OxygenDevice | null;
-}
+export type ChartedSet = ChartedObs;
 
 export interface News2Figure { total: number | null; complete: boolean; missing: string[]; response: string | null; at: number }
 
@@ -18,10 +16,7 @@ export function news2At(charted: readonly ChartedSet[], at: number, scale: 1 | 2
   let newest: ChartedSet | undefined;
   for (const c of charted) if (c.at <= at && (!newest || c.at >= newest.at)) newest = c;
   if (!newest) return null;
-  const r = news2({
-    respRate: newest.respRate, spo2: newest.spo2, onOxygen: newest.device ? newest.device !== 'room_air' : null, systolic: newest.systolic,
-    pulse: newest.heartRate, temperature: newest.temperature, consciousness: (newest.consciousness as Consciousness | null) ?? null,
-  }, scale);
+  const r = news2(news2InputOf(newest), scale);
   return { total: r.total, complete: r.complete, missing: [...r.missing], response: r.response, at: newest.at };
 }
 

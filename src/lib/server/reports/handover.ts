@@ -32,8 +32,9 @@ function toReading(r: HandoverReadingRow): Reading {
 
 function toCharted(r: HandoverReadingRow): ChartedSet {
   return {
-    at: ms(r.taken_at)!, spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate, respRate: r.resp_rate, systolic: r.systolic,
-    temperature: num(r.temperature), consciousness: r.consciousness, device: (r.device as OxygenDevice | null) ?? null,
+    at: ms(r.taken_at)!, spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate, respRate: r.resp_rate, fio2: num(r.fio2),
+    fio2Estimated: Boolean(r.fio2_estimated), systolic: r.systolic, temperature: num(r.temperature),
+    consciousness: (r.consciousness as ChartedSet['consciousness']) ?? null, device: (r.device as OxygenDevice | null) ?? null,
   };
 }
 

@@ -14,20 +14,23 @@ export async function unitStaysBetween(unitId: number, from: Date, to: Date, con
     .select('s.patient_id', 's.bed_id', 'b.label as bed_label', 's.started_at', 's.ended_at');
 }
 
-export interface ReportReadingRow {
-  taken_at: Date; source: 'charted' | 'device' | 'import'; spo2: number | null; trace: 'clean' | 'weak' | 'noisy' | 'absent'; perfusion_index: string | number | null;
-}
+/** One reading as band compliance needs it: [epoch ms, source, SpO₂, trace, perfusion index]. */
+export type ComplianceReadingTuple = [number, 'charted' | 'device' | 'import', number | null, 'clean' | 'weak' | 'noisy' | 'absent', string | number | null];
 
 /**
  * The columns band compliance needs, for one patient's current readings in [from, to), oldest first
- * (the same rows, in the same order, as the bed chart's `currentReadingsBetween`).
+ * (the same rows, in the same order, as the bed chart's `currentReadingsBetween`). A 90-day window is
+ * ~130,000 rows a patient: rows come as arrays and the time as epoch milliseconds computed by MariaDB
+ * (an integer), so no object or Date is built per row.
  */
-export async function complianceReadingsBetween(patientId: number, from: Date, to: Date, conn: Conn = db()): Promise<ReportReadingRow[]> {
-  return conn('observations')
+export async function complianceReadingsBetween(patientId: number, from: Date, to: Date, conn: Conn = db()): Promise<ComplianceReadingTuple[]> {
+  const rows = await conn('observations')
     .where({ patient_id: patientId, status: 'current' })
     .andWhere('taken_at', '>=', from).andWhere('taken_at', '<', to)
     .orderBy('taken_at').orderBy('id')
-    .select('taken_at', 'source', 'spo2', 'trace', 'perfusion_index');
+    .select(conn.raw("TIMESTAMPDIFF(MICROSECOND, '1970-01-01 00:00:00', taken_at) DIV 1000 AS t"), 'source', 'spo2', 'trace', 'perfusion_index')
+    .options({ rowsAsArray: true });
+  return rows as unknown as ComplianceReadingTuple[];
 }
 
 /** Times of current charted obs of many patients in [from, to), by patient then time. */

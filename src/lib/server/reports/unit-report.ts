@@ -80,9 +80,8 @@ export async function computeUnitReport(unit: UnitRow, days: number, now: Date):
 
   const patients = await inBatches(patientIds, PARALLEL_PATIENTS, async (patientId) => {
     const rows = await complianceReadingsBetween(patientId, new Date(from - LOOKBACK_MS), new Date(to));
-    const readings: Reading[] = rows.map((r) => ({
-      at: new Date(r.taken_at).getTime(), spo2: r.spo2 === null ? null : Number(r.spo2), trace: r.trace,
-      perfusionIndex: r.perfusion_index === null ? null : Number(r.perfusion_index), source: r.source,
+    const readings: Reading[] = rows.map(([at, source, spo2, trace, pi]) => ({
+      at: Number(at), spo2: spo2 === null ? null : Number(spo2), trace, perfusionIndex: pi === null ? null : Number(pi), source,
     }));
     return {
       patientId, readings,

@@ -10,6 +10,7 @@
 import { performance } from 'node:perf_hooks';
 import { signedIn } from '../support/app.ts';
 import { createUser, testDb, unique } from '../support/db.ts';
+import { formatCount } from '../../src/lib/time/format.ts';
 
 const BEDS = 30;
 const DAYS = 90;
@@ -39,7 +40,7 @@ for (let b = 0; b < BEDS; b++) {
     FROM seq_0_to_${MINUTES / 60 - 1}`, [patientId, bedId, start, start]);
 }
 const [{ n }] = await db('observations').join('patients', 'patients.id', 'observations.patient_id').where('patients.family_name', 'like', 'Report %').count({ n: '*' });
-console.log(`seeded 1 unit × ${BEDS} beds × ${DAYS + 1} days: ${Number(n).toLocaleString('en-GB')} readings in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+console.log(`seeded 1 unit × ${BEDS} beds × ${DAYS + 1} days: ${formatCount(Number(n))} readings in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
 await db.raw('ANALYZE TABLE observations');
 
 const session = await signedIn(intensivist.email, intensivist.password);
@@ -57,7 +58,7 @@ async function time(path: string, runs: number) {
   }
   times.sort((a, b) => a - b);
   const p50 = times[Math.floor((times.length - 1) / 2)]!;
-  return `p50 ${Math.round(p50)} ms · min ${Math.round(times[0]!)} ms · max ${Math.round(times[times.length - 1]!)} ms · ${runs} runs · ${bytes.toLocaleString('en-GB')} bytes`;
+  return `p50 ${Math.round(p50)} ms · min ${Math.round(times[0]!)} ms · max ${Math.round(times[times.length - 1]!)} ms · ${runs} runs · ${formatCount(bytes)} bytes`;
 }
 
 console.log(`GET /api/reports/units/${code}?days=90  ${await time(`/api/reports/units/${code}?days=90`, REPORT_RUNS)}`);

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { rebuildAllRollups } from '../../src/lib/server/queries/rollup.ts';
 import bcrypt from 'bcryptjs';
 import {
   DEMO_HOSPITAL, DEMO_PASSWORD, demoPatients, demoUnits, demoUsers, generateDemoObservations,
@@ -129,6 +130,7 @@ export async function seed(knex: Knex): Promise<void> {
       const pid = patientIds.get(mrn)!;
       await trx('handover_notes').insert({ patient_id: pid, unit_id: unitIds.get('L4ICU'), version: 1, note, supersedes_id: null, written_by: nurseId, written_at: new Date(now.getTime() - 9 * 3_600_000) });
     }
+    await rebuildAllRollups(trx); // the per-minute rollup every writer keeps, here in one pass
     console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length + history.patients.length} patients (${history.patients.length} discharged), ${rows.length + pastRows.length} obs, ${history.escalations.length} past escalations`);
   });
 }

@@ -2,10 +2,10 @@ import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
-interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; outreachEmails: string[]; shiftStart: string; shiftEnd: string }
+interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null; shiftStart: string; shiftEnd: string }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
 
-const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'shiftStart' | 'shiftEnd'>, string, string][] = [
+const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone' | 'shiftStart' | 'shiftEnd'>, string, string][] = [
   ['consecutiveCharted', 'Consecutive charted obs below band', 'trusted charted obs in a row that raise a below-band escalation'],
   ['deviceDwellMin', 'Device dwell (min)', 'minutes of trusted monitor readings below band that raise one'],
   ['urgentMarginPoints', 'Urgent margin (points)', 'a reading this far under the lower limit makes it urgent'],
@@ -14,6 +14,8 @@ const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'shiftStart' | 'shiftEnd'
   ['aboveOnOxygenMin', 'Above band on O₂ (min)', 'minutes above band on oxygen before a wean prompt'],
   ['renotifyMin', 'Re-notify after (min)', 'unclaimed escalations are e-mailed again after this'],
   ['overdueMin', 'Obs overdue after (min)', 'the board marks a bed overdue past this'],
+  ['monitorSilentMin', 'Monitor silent after (min)', 'a monitored bed with no newer device reading is shown as silent'],
+  ['silentBelowProbeMin', 'Silent after below band: probe check (min)', 'silence this long right after trusted below-band readings asks for a bedside probe check'],
 ];
 
 // Wall-clock times in the unit's zone, typed as HH:MM (24-hour): never the browser's time input, which follows its locale.
@@ -34,6 +36,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     v.outreachEmails = data.settings.outreachEmails.join('\n');
     v.shiftStart = data.settings.shiftStart;
     v.shiftEnd = data.settings.shiftEnd;
+    v.unitPhone = data.settings.unitPhone ?? '';
     setValues(v);
   }, [data]);
   if (!data) return <p>Loading…</p>;
@@ -46,6 +49,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
     body.shiftStart = values.shiftStart?.trim() || undefined;
     body.shiftEnd = values.shiftEnd?.trim() || undefined;
+    body.unitPhone = (values.unitPhone ?? '').trim() || null;
     try {
       await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
       setStatus('Saved.');
@@ -74,6 +78,12 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
           <span id={`${unitCode}-${k}-hint`} className={`text-sm ${errors[k] ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors[k] ?? hint}</span>
         </label>
       ))}
+      <label className="block">
+        <span className="block font-bold">Unit phone</span>
+        <input className="field" inputMode="tel" value={values.unitPhone ?? ''} onChange={(e) => setValues({ ...values, unitPhone: e.target.value })}
+          aria-invalid={errors.unitPhone ? true : undefined} aria-describedby={`${unitCode}-unitPhone-hint`} />
+        <span id={`${unitCode}-unitPhone-hint`} className={`text-sm ${errors.unitPhone ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors.unitPhone ?? 'given in escalation e-mail, so outreach can call the bedside'}</span>
+      </label>
       <label className="block md:col-span-2">
         <span className="block font-bold">Outreach e-mail addresses (one per line)</span>
         <textarea className="field font-mono" rows={3} value={values.outreachEmails ?? ''} onChange={(e) => setValues({ ...values, outreachEmails: e.target.value })} />

@@ -10,6 +10,12 @@ export interface UnitSettings extends EscalationSettings {
   /** Handover shift times, wall clock in the unit's zone (the day shift runs start → end). */
   shiftStart: string;
   shiftEnd: string;
+  /** The unit's phone, given in escalation e-mail (null: not set). */
+  unitPhone: string | null;
+  /** A monitored bed whose newest device reading is older than this is "monitor silent". */
+  monitorSilentMin: number;
+  /** Silence this long right after trusted below-band readings raises a bedside probe check. */
+  silentBelowProbeMin: number;
 }
 
 export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
@@ -19,12 +25,16 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
   outreachEmails: [],
   shiftStart: '07:30',
   shiftEnd: '19:30',
+  unitPhone: null,
+  monitorSilentMin: 3,
+  silentBelowProbeMin: 3,
 };
 
 export interface UnitSettingsColumns {
   consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
   shift_start?: string; shift_end?: string;
+  unit_phone?: string | null; monitor_silent_min?: number | null; silent_below_probe_min?: number | null;
 }
 
 export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
@@ -36,5 +46,8 @@ export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSetti
     renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
     shiftStart: row.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart, shiftEnd: row.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
+    unitPhone: row.unit_phone ?? null,
+    monitorSilentMin: row.monitor_silent_min ?? DEFAULT_UNIT_SETTINGS.monitorSilentMin,
+    silentBelowProbeMin: row.silent_below_probe_min ?? DEFAULT_UNIT_SETTINGS.silentBelowProbeMin,
   };
 }

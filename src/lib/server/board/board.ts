@@ -49,7 +49,7 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
       escalation: b.patient_id === null ? null : escalations.get(b.patient_id) ?? null,
       nurse: b.nurse_id === null ? null : { id: b.nurse_id, name: b.nurse_name! },
     };
-    return buildTile(input, nowMs, settings);
+    return buildTile(input, nowMs, settings, unit.time_zone);
   });
 
   return {

@@ -1,8 +1,8 @@
 /** Handover notes: each save is a new version naming the one it replaces, audited; nothing is overwritten. */
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import type { HandoverNoteView } from '~/lib/reports/api-types.ts';
 import type { HandoverNoteInput } from '~/lib/reports/note-input.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { handoverNotesOf, insertHandoverNote } from '~/lib/server/queries/reports.ts';
@@ -17,7 +17,7 @@ export async function listHandoverNotes(user: SessionUser, patientId: number): P
 
 export async function writeHandoverNote(user: SessionUser, patientId: number, input: HandoverNoteInput, now = new Date()): Promise<HandoverNoteView> {
   const { stay } = await authorisePatient(user, patientId, 'chart');
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     await lockPatient(trx, patientId);
     const [latest] = await handoverNotesOf(patientId, trx);
     if ((latest?.version ?? null) !== input.basedOnVersion) {

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, testDb, unique } from '../support/db.ts';
+import { countRows, createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { lastWholeDays } from '../../src/lib/reports/shift.ts';
 import { formatClock } from '../../src/lib/time/format.ts';
@@ -39,6 +39,7 @@ beforeAll(async () => {
   await db('observations').insert([charted(at(0), 95), charted(at(1), 90), charted(at(2), 94, 'noisy'), charted(at(3), 95)]);
   // A corrected-away row must not count: it is superseded.
   await db('observations').insert({ ...charted(at(0, 30), 70), status: 'superseded' });
+  await rebuildPatientRollup(db, patientId); // readings inserted directly: keep the per-minute rollup as every writer does
   const esc = (raised: Date, claimed: Date | null, closed: Date | null, kind = 'below_band', severity: string | null = 'standard') => ({
     patient_id: patientId, unit_id: unit.unitId, bed_id: unit.bedIds[0], kind, severity, state: closed ? 'closed' : claimed ? 'claimed' : 'raised',
     raised_at: raised, run_start: raised, run_end: raised, evidence: '{}', claimed_at: claimed, closed_at: closed, outcome: closed ? 'treated_at_bedside' : null,
@@ -95,6 +96,7 @@ describe('GET /api/reports/units/:code', () => {
       rows.push({ patient_id: patientId, bed_id: unit.bedIds[0], taken_at: at(10, m), source: 'device', spo2, heart_rate: 90, trace: m >= 120 && m < 140 ? 'noisy' : 'clean' });
     }
     await db('observations').insert(rows);
+    await rebuildPatientRollup(db, patientId);
     const unitRow = { id: unit.unitId, code: unit.code, name: 'x', hospital: 'x', time_zone: 'Europe/London' };
     const { figures } = await computeUnitReport(unitRow, 7, new Date());
     const day = figures.patientDays.find((p) => p.patientId === patientId && p.date === yesterday.date)!;

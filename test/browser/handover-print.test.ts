@@ -89,6 +89,8 @@ describe('unit report in a browser', () => {
     await page.goto(`${APP_URL}/reports`);
     await waitForIsland(page, 'report-view');
     expect(await page.getByTestId('report-heading').textContent()).toBe('Unit report · Level 4 ICU');
+    // recharts draws once its container has a measured size (after hydration and layout).
+    await page.waitForFunction(() => document.querySelectorAll('figure .recharts-wrapper').length >= 3, null, { timeout: 15_000 }).catch(() => {});
     expect(await page.locator('figure .recharts-wrapper').count()).toBe(3);
     expect(await page.getByTestId('report-table').locator('tbody tr').count()).toBe(8);
     await page.getByRole('button', { name: '30 days' }).click();

@@ -25,6 +25,8 @@ export EBB_TRUST_PROXY=1
 export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
 export EBB_SWEEP_INTERVAL_MS="${EBB_SWEEP_INTERVAL_MS:-1000}"
 export EBB_OUTBOX_INTERVAL_MS="${EBB_OUTBOX_INTERVAL_MS:-300}" EBB_MAIL_RETRY_BASE_MS="${EBB_MAIL_RETRY_BASE_MS:-1000}"
+# A worker killed mid-send leaves its claim: the fault tests wait for it to lapse, so keep it short here.
+export EBB_MAIL_LEASE_MS="${EBB_MAIL_LEASE_MS:-15000}"
 # The SMTP fake: ports follow the app port so side-by-side suites never share a mailbox.
 export SMTP_FAKE_PORT=$((TEST_APP_PORT + 1100)) SMTP_FAKE_HTTP_PORT=$((TEST_APP_PORT + 1101))
 export SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake-$TEST_APP_PORT"

@@ -255,7 +255,7 @@ describe('changing role or unit, deactivating, reactivating', () => {
     expect(asJson(audit[1].after)).toMatchObject({ role: 'intensivist', unitCode: null });
   });
 
-  it('deactivation stops an open session at its next request; reactivation restores it', async () => {
+  it('deactivation ends an open session at its next request; reactivation lets her sign in again (the old session stays ended)', async () => {
     const email = newEmail();
     const u = await createUser(db, { role: 'nurse', unitId: unit.unitId, email });
     const nurse = await signedIn(email, 'fixture-password');
@@ -265,7 +265,11 @@ describe('changing role or unit, deactivating, reactivating', () => {
     expect((await nurse.get('/board')).status).toBe(302);
     expect((await new HttpSession().signIn(email, 'fixture-password')).ok).toBe(false);
     expect((await s.admin.post(`/api/admin/users/${u.id}/reactivate`, {})).status).toBe(200);
-    expect((await nurse.get('/api/me')).status).toBe(200);
+    // Deactivation revoked the session record behind her cookie (issue 12): it does not come back.
+    expect((await nurse.get('/api/me')).status).toBe(401);
+    const again = new HttpSession();
+    expect((await again.signIn(email, 'fixture-password')).ok).toBe(true);
+    expect((await again.get('/api/me')).status).toBe(200);
     const actions = (await db('audit_log').where({ entity: 'user', entity_id: String(u.id) }).orderBy('id').select('action')).map((r) => r.action);
     expect(actions).toEqual(['user.deactivate', 'user.reactivate']);
   });

@@ -16,10 +16,22 @@ const COMMON: Record<string, string> = {
 export const PAGE_CSP = "frame-ancestors 'none'; base-uri 'self'; form-action 'self'; object-src 'none'";
 export const NON_PAGE_CSP = "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
 
+/**
+ * Astro's policy plus framing, and style *attributes* allowed: server-rendered islands (charts sized
+ * by style attributes in their first paint) would otherwise hydrate at zero size. Scripts and style
+ * elements stay hash-only; Astro's config cannot name style-src-attr, so it is added here.
+ */
+function withPageAdditions(astroCsp: string): string {
+  let csp = astroCsp.replace(/;\s*$/, '');
+  if (!/frame-ancestors/.test(csp)) csp += "; frame-ancestors 'none'";
+  if (!/style-src-attr/.test(csp)) csp += "; style-src-attr 'unsafe-inline'";
+  return csp;
+}
+
 export function securityHeadersFor(path: string, contentType: string | null, astroCsp: string | null = null): Record<string, string> {
   const html = (contentType ?? '').includes('text/html');
   // Astro sends its policy (with the hashes) as a header on server-rendered pages: keep it, add framing.
-  const csp = astroCsp ? (/frame-ancestors/.test(astroCsp) ? astroCsp : `${astroCsp.replace(/;\s*$/, '')}; frame-ancestors 'none'`) : html ? PAGE_CSP : NON_PAGE_CSP;
+  const csp = astroCsp ? withPageAdditions(astroCsp) : html ? PAGE_CSP : NON_PAGE_CSP;
   const headers: Record<string, string> = { ...COMMON, 'content-security-policy': csp };
   // Pages carry names and MRNs: never kept by a shared computer's cache. Hashed build assets may be.
   if (!path.startsWith('/_astro/') && !path.startsWith('/fonts/')) headers['cache-control'] = 'no-store';

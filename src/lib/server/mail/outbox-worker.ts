@@ -12,7 +12,9 @@ import { claimDueMail, markRetry, markSent } from '~/lib/server/queries/outbox.t
 import { mailFrom, mailTransport } from './transport.ts';
 
 export const WORKER_ID = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
-const LEASE_MS = 2 * 60_000;
+// How long a claim holds before another worker may take the row again (a worker killed mid-send
+// leaves its claim behind). Longer than any SMTP send; the tests shorten it (EBB_MAIL_LEASE_MS).
+const LEASE_MS = Number(process.env.EBB_MAIL_LEASE_MS ?? 2 * 60_000);
 
 export function messageIdFor(key: string): string {
   return `<${key.replace(/[^A-Za-z0-9._-]/g, '.')}@ebbwatch.invalid>`;

@@ -4,6 +4,7 @@ import bcrypt from 'bcryptjs';
 import {
   DEMO_HOSPITAL, DEMO_PASSWORD, demoPatients, demoUnits, demoUsers, generateDemoObservations,
 } from '../../src/lib/demo/scenario.ts';
+import { generateDemoHistory } from '../../src/lib/demo/history.ts';
 
 // The invented demo scenario (PRODUCT.md "Demo scenario"). Refuses to run over existing data:
 // clinical rows are never deleted, so a reseed means a fresh database.
@@ -74,7 +75,62 @@ export async function seed(knex: Knex): Promise<void> {
       recorded_by: o.source === 'charted' ? nurseId : null, recorded_at: o.takenAt,
     }));
     for (let i = 0; i < rows.length; i += 2000) await trx('observations').insert(rows.slice(i, i + 2000));
+
+    // 14 days of earlier (discharged) patients, so the unit report has a history on first start.
+    const history = generateDemoHistory(now);
+    const unitOfBed = new Map(demoUnits.flatMap((u) => u.beds.map((b) => [b, unitIds.get(u.code)!] as const)));
+    for (const pt of history.patients) {
+      const [id] = await trx('patients').insert({
+        mrn: pt.mrn, given_name: pt.givenName, family_name: pt.familyName, date_of_birth: pt.dateOfBirth,
+        co2_retention_risk: pt.co2RetentionRisk, created_by: chargeId, created_at: pt.admittedAt,
+      });
+      patientIds.set(pt.mrn, id);
+      bedOf.set(pt.mrn, bedIds.get(pt.bedLabel)!);
+      await trx('bed_stays').insert({
+        patient_id: id, bed_id: bedIds.get(pt.bedLabel), started_at: pt.admittedAt, started_by: chargeId,
+        ended_at: pt.dischargedAt, end_reason: 'discharged', ended_by: chargeId,
+      });
+      await trx('target_orders').insert({
+        patient_id: id, low: pt.band.low, high: pt.band.high, news2_scale: pt.band.news2Scale, preset: pt.band.preset,
+        reason: pt.band.reason, ordered_by: intensivistId, ordered_at: new Date(pt.admittedAt.getTime() + 10 * 60_000),
+      });
+    }
+    const pastRows = history.observations.map((o) => ({
+      patient_id: patientIds.get(o.mrn), bed_id: bedOf.get(o.mrn), taken_at: o.takenAt, source: o.source,
+      spo2: o.spo2, heart_rate: o.heartRate, resp_rate: o.respRate, fio2: o.fio2, fio2_estimated: o.fio2Estimated,
+      device: o.device, flow_lpm: o.flowLpm, trace: o.trace, perfusion_index: o.perfusionIndex,
+      systolic: o.systolic, temperature: o.temperature, consciousness: o.consciousness, probe_site: o.probeSite,
+      recorded_by: nurseId, recorded_at: o.takenAt,
+    }));
+    for (let i = 0; i < pastRows.length; i += 2000) await trx('observations').insert(pastRows.slice(i, i + 2000));
+    const outreachId = userIds.get('outreach@harbourside.example')!;
+    for (const e of history.escalations) {
+      const pid = patientIds.get(e.mrn)!;
+      const bedLabel = history.patients.find((p) => p.mrn === e.mrn)!.bedLabel;
+      const claimer = e.outcome === 'reviewed_by_outreach' ? outreachId : chargeId;
+      const [id] = await trx('escalations').insert({
+        patient_id: pid, unit_id: unitOfBed.get(bedLabel), bed_id: bedIds.get(bedLabel), kind: e.kind, severity: e.severity, state: 'closed',
+        raised_at: e.raisedAt, run_start: e.runStart, run_end: e.runEnd, evidence: JSON.stringify({ lowest: e.lowest, demo: true }),
+        claimed_by: claimer, claimed_at: e.claimedAt, closed_by: claimer, closed_at: e.closedAt, outcome: e.outcome, notify_count: e.kind === 'below_band' ? 1 : 0,
+        last_notified_at: e.kind === 'below_band' ? e.raisedAt : null,
+      });
+      await trx('escalation_events').insert([
+        { escalation_id: id, type: 'raised', actor_id: null, at: e.raisedAt },
+        { escalation_id: id, type: 'claimed', actor_id: claimer, at: e.claimedAt },
+        { escalation_id: id, type: 'closed', actor_id: claimer, at: e.closedAt, detail: JSON.stringify({ outcome: e.outcome }) },
+      ]);
+    }
+
+    // Handover notes left by the last shift for two of today's patients (version 1; the sheet shows them).
+    const chargeNotes: [string, string][] = [
+      ['HG400117', 'Settled overnight on high-flow; watch the SpO₂ trend after proning review at 10:00.'],
+      ['HG400233', 'CO₂ retainer: keep to the 88–92 % band; family visiting this afternoon.'],
+    ];
+    for (const [mrn, note] of chargeNotes) {
+      const pid = patientIds.get(mrn)!;
+      await trx('handover_notes').insert({ patient_id: pid, unit_id: unitIds.get('L4ICU'), version: 1, note, supersedes_id: null, written_by: nurseId, written_at: new Date(now.getTime() - 9 * 3_600_000) });
+    }
     await rebuildAllRollups(trx); // the per-minute rollup every writer keeps, here in one pass
-    console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length} patients, ${rows.length} obs`);
+    console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length + history.patients.length} patients (${history.patients.length} discharged), ${rows.length + pastRows.length} obs, ${history.escalations.length} past escalations`);
   });
 }

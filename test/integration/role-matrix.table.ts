@@ -84,4 +84,11 @@ export const ROLE_MATRIX: MatrixRow[] = [
   { route: 'POST /api/admin/users/[id]/deactivate', path: '/api/admin/users/{missing}/deactivate', body: PROBE, expect: '401 403 403 403 403 403 403 400' },
   { route: 'POST /api/admin/users/[id]/reactivate', path: '/api/admin/users/{missing}/reactivate', body: PROBE, expect: '401 403 403 403 403 403 403 404' },
   { route: 'POST /api/admin/users/[id]/send-link', path: '/api/admin/users/{missing}/send-link', body: PROBE, expect: '401 403 403 403 403 403 403 404' },
+  // Handover sheet and unit reports (issue 14).
+  { route: 'GET /api/handover', path: '/api/handover?unit={unit}', expect: '401 200 403 200 403 200 200 403' },
+  { route: 'GET /api/patients/[id]/handover-notes', path: '/api/patients/{patient}/handover-notes', expect: '401 200 403 200 403 200 200 403' },
+  { route: 'POST /api/patients/[id]/handover-notes', path: '/api/patients/{patient}/handover-notes', body: PROBE, expect: '401 400 400 400 400 403 403 403' },
+  { route: 'GET /api/reports/units/[code]', path: '/api/reports/units/{unit}?days=7', expect: '401 403 403 200 403 200 403 200' },
+  { route: 'GET /api/reports/units/[code]/csv', path: '/api/reports/units/{unit}/csv?days=7', expect: '401 403 403 200 403 200 403 200' },
+  { route: 'GET /api/reports/hospital', path: '/api/reports/hospital?days=7', expect: '401 403 403 403 403 200 403 200' },
 ];

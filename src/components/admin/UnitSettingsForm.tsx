@@ -2,10 +2,10 @@ import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
-interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null }
+interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null; shiftStart: string; shiftEnd: string }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
 
-const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone'>, string, string][] = [
+const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone' | 'shiftStart' | 'shiftEnd'>, string, string][] = [
   ['consecutiveCharted', 'Consecutive charted obs below band', 'trusted charted obs in a row that raise a below-band escalation'],
   ['deviceDwellMin', 'Device dwell (min)', 'minutes of trusted monitor readings below band that raise one'],
   ['urgentMarginPoints', 'Urgent margin (points)', 'a reading this far under the lower limit makes it urgent'],
@@ -18,6 +18,12 @@ const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone'>, string, str
   ['silentBelowProbeMin', 'Silent after below band: probe check (min)', 'silence this long right after trusted below-band readings asks for a bedside probe check'],
 ];
 
+// Wall-clock times in the unit's zone, typed as HH:MM (24-hour): never the browser's time input, which follows its locale.
+const SHIFT_FIELDS: ['shiftStart' | 'shiftEnd', string, string][] = [
+  ['shiftStart', 'Day shift starts (HH:MM)', 'the handover sheet covers the shift that is running'],
+  ['shiftEnd', 'Day shift ends (HH:MM)', 'the night shift runs from here to the next start'],
+];
+
 /** A unit's escalation settings. Defaults are settings, not clinical advice: each unit decides. */
 export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
   const { data, mutate } = useSWR<Answer>(`/api/units/${encodeURIComponent(unitCode)}/settings`, fetchJson);
@@ -28,6 +34,8 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     if (!data) return;
     const v: Record<string, string> = Object.fromEntries(FIELDS.map(([k]) => [k, String(data.settings[k])]));
     v.outreachEmails = data.settings.outreachEmails.join('\n');
+    v.shiftStart = data.settings.shiftStart;
+    v.shiftEnd = data.settings.shiftEnd;
     v.unitPhone = data.settings.unitPhone ?? '';
     setValues(v);
   }, [data]);
@@ -39,6 +47,8 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     setStatus(null);
     const body: Record<string, unknown> = Object.fromEntries(FIELDS.map(([k]) => [k, values[k] === '' ? undefined : Number(values[k])]));
     body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
+    body.shiftStart = values.shiftStart?.trim() || undefined;
+    body.shiftEnd = values.shiftEnd?.trim() || undefined;
     body.unitPhone = (values.unitPhone ?? '').trim() || null;
     try {
       await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
@@ -56,6 +66,14 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
         <label key={k} className="block">
           <span className="block font-bold">{label}</span>
           <input className="field" inputMode="numeric" value={values[k] ?? ''} onChange={(e) => setValues({ ...values, [k]: e.target.value })}
+            aria-invalid={errors[k] ? true : undefined} aria-describedby={`${unitCode}-${k}-hint`} />
+          <span id={`${unitCode}-${k}-hint`} className={`text-sm ${errors[k] ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors[k] ?? hint}</span>
+        </label>
+      ))}
+      {SHIFT_FIELDS.map(([k, label, hint]) => (
+        <label key={k} className="block">
+          <span className="block font-bold">{label}</span>
+          <input className="field font-mono" inputMode="numeric" maxLength={5} value={values[k] ?? ''} onChange={(e) => setValues({ ...values, [k]: e.target.value })}
             aria-invalid={errors[k] ? true : undefined} aria-describedby={`${unitCode}-${k}-hint`} />
           <span id={`${unitCode}-${k}-hint`} className={`text-sm ${errors[k] ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors[k] ?? hint}</span>
         </label>

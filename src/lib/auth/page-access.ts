@@ -1,4 +1,4 @@
-import { CLINICAL_ROLES, type Role } from './roles.ts';
+import { CLINICAL_ROLES, REPORT_ROLES, type Role } from './roles.ts';
 
 /**
  * Which roles may open which pages, checked by the middleware on the server for every page
@@ -10,6 +10,8 @@ const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
   { prefix: '/pleth', roles: CLINICAL_ROLES },
   { prefix: '/board', roles: CLINICAL_ROLES },
   { prefix: '/escalations', roles: CLINICAL_ROLES },
+  { prefix: '/handover', roles: CLINICAL_ROLES },
+  { prefix: '/reports', roles: REPORT_ROLES },
 ];
 
 // /api/ingest is authenticated by the device key in the endpoint, not by a session.

@@ -4,6 +4,9 @@ export type Role = (typeof ROLES)[number];
 
 export const CLINICAL_ROLES: readonly Role[] = ['nurse', 'charge', 'intensivist', 'outreach'];
 
+/** Who opens the unit report: charge nurses (their unit), intensivists and administrators (every unit). */
+export const REPORT_ROLES: readonly Role[] = ['charge', 'intensivist', 'admin'];
+
 export const ROLE_LABELS: Record<Role, string> = {
   nurse: 'Bedside nurse',
   charge: 'Charge nurse',
@@ -26,6 +29,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/patients', label: 'Patients', roles: CLINICAL_ROLES },
   { href: '/pleth', label: 'Strip check', roles: CLINICAL_ROLES },
   { href: '/escalations', label: 'Outreach queue', roles: CLINICAL_ROLES },
+  { href: '/handover', label: 'Handover', roles: CLINICAL_ROLES },
+  { href: '/reports', label: 'Unit report', roles: REPORT_ROLES },
   { href: '/admin/users', label: 'Staff', roles: ['admin'] },
   { href: '/admin/units', label: 'Units and beds', roles: ['admin'] },
   { href: '/admin/audit', label: 'Audit', roles: ['admin'] },

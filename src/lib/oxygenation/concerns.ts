@@ -139,6 +139,7 @@ export function detectConcerns(
   const deviceMs = DEFAULT_COMPLIANCE_SETTINGS.deviceMaxGapMin * MS_PER_MIN;
   const importMs = DEFAULT_COMPLIANCE_SETTINGS.importMaxGapMin * MS_PER_MIN;
   let coveredUntil = -Infinity;
+  let trustedCoveredUntil = -Infinity;
 
   // Below-band run.
   let runFirst = -1;
@@ -171,8 +172,6 @@ export function detectConcerns(
     const source = r.source;
     const stands = maxGapMsFor(source, chartedMs, deviceMs, importMs, i); // also validates the source
     if (at > coveredUntil) {
-      runFirst = -1;
-      aboveFirst = -1;
       streakFirst = -1;
       streakCount = 0;
     }
@@ -183,6 +182,13 @@ export function detectConcerns(
       streakCount++;
       continue;
     }
+    // The below- and above-band runs are carried by trusted readings alone: an untrusted reading in
+    // between must not end a trusted reading's carry, or a poor trace would hide a real desaturation.
+    if (at > trustedCoveredUntil) {
+      runFirst = -1;
+      aboveFirst = -1;
+    }
+    trustedCoveredUntil = at + stands;
     streakFirst = -1;
     streakCount = 0;
     lastTrustedAt = at;

@@ -4,7 +4,7 @@ import { OUTCOMES } from './decide.ts';
 export const listEscalationsQuery = z.object({
   state: z.enum(['open', 'closed'], { errorMap: () => ({ message: 'state is open or closed' }) }).default('open'),
   unit: z.string().trim().min(1).max(16).optional(),
-  kind: z.enum(['below_band', 'probe_check', 'wean_prompt']).optional(),
+  kind: z.enum(['below_band', 'probe_check', 'wean_prompt', 'occult_hypoxaemia']).optional(),
   patient: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(200),
 });
@@ -28,5 +28,8 @@ export const unitSettingsSchema = z.object({
   renotifyMin: minutes('Re-notify after (min)', 5, 120),
   overdueMin: minutes('Obs overdue after (min)', 30, 240),
   outreachEmails: z.array(z.string().trim().toLowerCase().email('Not an e-mail address')).min(1, 'Give at least one outreach e-mail address').max(20),
+  /** Blood-gas display unit and barometric pressure; left out, the unit keeps what it has. */
+  gasUnit: z.enum(['kPa', 'mmHg'], { errorMap: () => ({ message: 'Gas unit is kPa or mmHg' }) }).optional(),
+  barometricMmHg: minutes('Barometric pressure (mmHg)', 500, 800).optional(),
 });
 export type UnitSettingsInput = z.output<typeof unitSettingsSchema>;

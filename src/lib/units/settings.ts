@@ -1,10 +1,15 @@
 /** A unit's settings as the app uses them; the defaults apply to a unit no admin has configured yet. */
 import { DEFAULT_ESCALATION_SETTINGS } from '~/lib/oxygenation/settings.ts';
 import type { BoardSettings } from '~/lib/board/tiles.ts';
+import { SEA_LEVEL_MMHG, type GasUnit } from '~/lib/bloodgas/compute.ts';
 
 export interface UnitSettings extends BoardSettings {
   renotifyMin: number;
   outreachEmails: string[];
+  /** Blood gases are shown in this unit (stored in mmHg). */
+  gasUnit: GasUnit;
+  /** Barometric pressure for the alveolar gas equation, mmHg. */
+  barometricMmHg: number;
 }
 
 export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
@@ -12,11 +17,14 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
   overdueMin: 75,
   renotifyMin: 15,
   outreachEmails: [],
+  gasUnit: 'kPa',
+  barometricMmHg: SEA_LEVEL_MMHG,
 };
 
 export interface UnitSettingsColumns {
   consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
+  gas_unit?: GasUnit; barometric_mmhg?: number;
 }
 
 export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
@@ -27,5 +35,6 @@ export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSetti
     urgentFloorPct: row.urgent_floor_pct, cannotVerifyMin: row.cannot_verify_min, aboveOnOxygenMin: row.above_on_oxygen_min,
     renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
+    gasUnit: row.gas_unit ?? DEFAULT_UNIT_SETTINGS.gasUnit, barometricMmHg: row.barometric_mmhg ?? DEFAULT_UNIT_SETTINGS.barometricMmHg,
   };
 }

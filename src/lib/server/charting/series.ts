@@ -8,6 +8,7 @@ import { ordersOf } from '~/lib/server/queries/orders.ts';
 import { escalationsInWindow } from '~/lib/server/queries/escalations.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
+import { gasMarks } from '~/lib/server/bloodgas/blood-gases.ts';
 import { toBandOrders, toReading } from './readings.ts';
 
 export const SERIES_WINDOWS = [6, 12, 24, 72] as const;
@@ -22,11 +23,12 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   const from = to - hours * 3_600_000;
   // Start early by the longest carry-forward so the window's first minutes are counted correctly.
   const lookBackMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * 60_000;
-  const [rows, orderRows, escalationRows, newestCharted] = await Promise.all([
+  const [rows, orderRows, escalationRows, newestCharted, bloodGases] = await Promise.all([
     currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1)),
     ordersOf(patientId),
     escalationsInWindow(patientId, new Date(from)),
     lastChartedObservation(patientId),
+    gasMarks(patientId, new Date(from), new Date(to)),
   ]);
   const readings = rows.map(toReading);
   const orders = toBandOrders(orderRows);
@@ -51,6 +53,7 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
       id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
     })),
     rawCounts: { spo2: withSpo2.length, heartRate: withHr.length },
+    bloodGases,
     derived: derivedFigures(readings, chartedInWindow, orderRows, from, to, hours),
   };
 }

@@ -3,7 +3,7 @@ import { spansUnits } from '~/lib/auth/roles.ts';
 import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '~/lib/escalations/decide.ts';
 import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
-import { settingsFromRow } from '~/lib/units/settings.ts';
+import { DEFAULT_UNIT_SETTINGS, settingsFromRow } from '~/lib/units/settings.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -40,7 +40,7 @@ async function unitsFor(user: SessionUser, unitCode?: string) {
 export async function listForUser(user: SessionUser, q: { state: 'open' | 'closed'; unit?: string; kind?: EscalationKind; patient?: number; limit: number }) {
   const units = await unitsFor(user, q.unit);
   // Wean prompts belong to the board; the queue holds what someone must act on, unless asked by kind.
-  const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check'];
+  const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check', 'occult_hypoxaemia'];
   const rows = await listEscalations({ unitIds: units.map((u) => u.id), open: q.state === 'open', kinds, patientId: q.patient, limit: q.limit });
   return rows.map(escalationView);
 }
@@ -103,7 +103,8 @@ export async function readUnitSettings(user: SessionUser, code: string) {
   return {
     unit: { code: unit.code, name: unit.name }, configured: row !== undefined,
     settings: { consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin, urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct,
-      cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin, renotifyMin: s.renotifyMin, overdueMin: s.overdueMin, outreachEmails: s.outreachEmails },
+      cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin, renotifyMin: s.renotifyMin, overdueMin: s.overdueMin, outreachEmails: s.outreachEmails,
+      gasUnit: s.gasUnit, barometricMmHg: s.barometricMmHg },
     updatedAt: row ? iso(row.updated_at) : null,
   };
 }
@@ -116,6 +117,7 @@ export async function writeUnitSettings(admin: SessionUser, code: string, input:
       unit_id: unit.id, consecutive_charted: input.consecutiveCharted, device_dwell_min: input.deviceDwellMin, urgent_margin_points: input.urgentMarginPoints,
       urgent_floor_pct: input.urgentFloorPct, cannot_verify_min: input.cannotVerifyMin, above_on_oxygen_min: input.aboveOnOxygenMin, renotify_min: input.renotifyMin,
       overdue_min: input.overdueMin, outreach_emails: input.outreachEmails.join(', '), updated_by: admin.id, updated_at: now,
+      gas_unit: input.gasUnit ?? before?.gas_unit ?? DEFAULT_UNIT_SETTINGS.gasUnit, barometric_mmhg: input.barometricMmHg ?? before?.barometric_mmhg ?? DEFAULT_UNIT_SETTINGS.barometricMmHg,
     };
     await upsertUnitSettings(trx, row);
     await writeAudit(trx, { actorId: admin.id, action: 'unit.settings', entity: 'unit', entityId: unit.id, before: before ?? null, after: row, at: now });

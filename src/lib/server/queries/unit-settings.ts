@@ -4,6 +4,7 @@ import { db } from './db.ts';
 export interface UnitSettingsRow {
   unit_id: number; consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
+  gas_unit?: 'kPa' | 'mmHg'; barometric_mmhg?: number;
   updated_by: number | null; updated_at: Date;
 }
 

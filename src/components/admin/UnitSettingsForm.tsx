@@ -2,10 +2,10 @@ import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
-interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; outreachEmails: string[] }
+interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; outreachEmails: string[]; gasUnit: 'kPa' | 'mmHg'; barometricMmHg: number }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
 
-const FIELDS: [keyof Omit<Settings, 'outreachEmails'>, string, string][] = [
+const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'gasUnit'>, string, string][] = [
   ['consecutiveCharted', 'Consecutive charted obs below band', 'trusted charted obs in a row that raise a below-band escalation'],
   ['deviceDwellMin', 'Device dwell (min)', 'minutes of trusted monitor readings below band that raise one'],
   ['urgentMarginPoints', 'Urgent margin (points)', 'a reading this far under the lower limit makes it urgent'],
@@ -14,6 +14,7 @@ const FIELDS: [keyof Omit<Settings, 'outreachEmails'>, string, string][] = [
   ['aboveOnOxygenMin', 'Above band on O₂ (min)', 'minutes above band on oxygen before a wean prompt'],
   ['renotifyMin', 'Re-notify after (min)', 'unclaimed escalations are e-mailed again after this'],
   ['overdueMin', 'Obs overdue after (min)', 'the board marks a bed overdue past this'],
+  ['barometricMmHg', 'Barometric pressure (mmHg)', 'for the alveolar gas equation (760 at sea level)'],
 ];
 
 /** A unit's escalation settings. Defaults are settings, not clinical advice: each unit decides. */
@@ -26,6 +27,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     if (!data) return;
     const v: Record<string, string> = Object.fromEntries(FIELDS.map(([k]) => [k, String(data.settings[k])]));
     v.outreachEmails = data.settings.outreachEmails.join('\n');
+    v.gasUnit = data.settings.gasUnit;
     setValues(v);
   }, [data]);
   if (!data) return <p>Loading…</p>;
@@ -36,6 +38,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     setStatus(null);
     const body: Record<string, unknown> = Object.fromEntries(FIELDS.map(([k]) => [k, values[k] === '' ? undefined : Number(values[k])]));
     body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
+    body.gasUnit = values.gasUnit;
     try {
       await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
       setStatus('Saved.');
@@ -56,6 +59,13 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
           <span id={`${unitCode}-${k}-hint`} className={`text-sm ${errors[k] ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors[k] ?? hint}</span>
         </label>
       ))}
+      <label className="block">
+        <span className="block font-bold">Blood-gas unit</span>
+        <select className="field" value={values.gasUnit ?? 'kPa'} onChange={(e) => setValues({ ...values, gasUnit: e.target.value })} aria-describedby={`${unitCode}-gasUnit-hint`}>
+          <option value="kPa">kPa</option><option value="mmHg">mmHg</option>
+        </select>
+        <span id={`${unitCode}-gasUnit-hint`} className={`text-sm ${errors.gasUnit ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors.gasUnit ?? 'PaO₂ and PaCO₂ are shown in this unit (stored in mmHg)'}</span>
+      </label>
       <label className="block md:col-span-2">
         <span className="block font-bold">Outreach e-mail addresses (one per line)</span>
         <textarea className="field font-mono" rows={3} value={values.outreachEmails ?? ''} onChange={(e) => setValues({ ...values, outreachEmails: e.target.value })} />

@@ -1,8 +1,9 @@
 import type { Knex } from 'knex';
 import bcrypt from 'bcryptjs';
 import {
-  DEMO_HOSPITAL, DEMO_PASSWORD, demoPatients, demoUnits, demoUsers, generateDemoObservations,
+  DEMO_HOSPITAL, DEMO_PASSWORD, demoBloodGases, demoPatients, demoUnits, demoUsers, generateDemoObservations,
 } from '../../src/lib/demo/scenario.ts';
+import { gasFlags, kpaToMmHg } from '../../src/lib/bloodgas/compute.ts';
 
 // The invented demo scenario (PRODUCT.md "Demo scenario"). Refuses to run over existing data:
 // clinical rows are never deleted, so a reseed means a fresh database.
@@ -73,6 +74,27 @@ export async function seed(knex: Knex): Promise<void> {
       recorded_by: o.source === 'charted' ? nurseId : null, recorded_at: o.takenAt,
     }));
     for (let i = 0; i < rows.length; i += 2000) await trx('observations').insert(rows.slice(i, i + 2000));
+
+    // Invented blood gases; an occult-hypoxaemia pair raises its bedside task as charting would.
+    for (const g of demoBloodGases) {
+      const sampledAt = new Date(now.getTime() - g.hoursAgo * 3_600_000);
+      const [gasId] = await trx('blood_gases').insert({
+        patient_id: patientIds.get(g.mrn), bed_id: bedOf.get(g.mrn), sampled_at: sampledAt, sample_type: g.sampleType, ph: g.ph,
+        pao2_mmhg: Math.round(kpaToMmHg(g.pao2Kpa) * 10) / 10, paco2_mmhg: Math.round(kpaToMmHg(g.paco2Kpa) * 10) / 10, entered_unit: 'kPa',
+        sao2: g.sao2, hco3: g.hco3, base_excess: g.baseExcess, lactate: g.lactate, hb_gdl: g.hbGdl, fio2: g.fio2,
+        spo2_at_sample: g.spo2AtSample, spo2_source: 'entered', recorded_by: nurseId, recorded_at: new Date(sampledAt.getTime() + 15 * 60_000),
+      });
+      if (gasFlags({ sampleType: g.sampleType, sao2: g.sao2, spo2AtSample: g.spo2AtSample }).includes('occult_hypoxaemia')) {
+        const pt = demoPatients.find((x) => x.mrn === g.mrn)!;
+        const raisedAt = new Date(sampledAt.getTime() + 15 * 60_000);
+        await trx('escalations').insert({
+          patient_id: patientIds.get(g.mrn), unit_id: unitIds.get(pt.unitCode), bed_id: bedOf.get(g.mrn), kind: 'occult_hypoxaemia', severity: null, state: 'raised',
+          raised_at: raisedAt, run_start: sampledAt, run_end: sampledAt, notify_count: 0,
+          evidence: JSON.stringify({ rule: 'occult_hypoxaemia', nadir: g.sao2, urgentReasons: [], band: pt.band ? { low: pt.band.low, high: pt.band.high } : null, lastReadings: [],
+            bloodGas: { bloodGasId: Number(gasId), sampledAt: sampledAt.getTime(), sao2: g.sao2, spo2AtSample: g.spo2AtSample } }),
+        });
+      }
+    }
     console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length} patients, ${rows.length} obs`);
   });
 }

@@ -194,3 +194,14 @@ describe('unit gas settings and Scale 2 support', () => {
     expect(targets.orders[0].scale2Basis).toBe(o.scale2Basis);
   });
 });
+
+describe('demo blood gases (invented)', () => {
+  it('hold a pair where the oximeter over-reads, with its bedside task on the board of Level 4', async () => {
+    const gases = await db('blood_gases as g').join('patients as p', 'p.id', 'g.patient_id').where('p.mrn', 'like', 'HG%').select('p.mrn', 'g.sao2', 'g.spo2_at_sample', 'g.sample_type');
+    expect(gases.length).toBeGreaterThanOrEqual(4);
+    expect(gases.some((g) => g.sample_type === 'arterial' && Number(g.sao2) < 88 && g.spo2_at_sample >= 92)).toBe(true);
+    const board = await (await s.outreach.get('/api/board?unit=L4ICU')).json();
+    const tile = board.tiles.find((t: { bedLabel: string }) => t.bedLabel === '4-04');
+    expect(tile.occultHypoxaemia).toMatchObject({ sao2: 86.5, spo2AtSample: 93 });
+  });
+});

@@ -8,7 +8,7 @@
  */
 import { createDeviceKey, revokeKey } from '../src/lib/server/devices/keys.ts';
 import { closeDb, db } from '../src/lib/server/queries/db.ts';
-import { liveKeyIdsLabelled, occupiedBedsWithDeviceReadings, recentDeviceReadings } from '../src/lib/server/queries/devices.ts';
+import { liveKeyIdsLabelled, occupiedBedsWithDeviceReadings, recentDeviceReadings } from './feeder-queries.ts';
 
 const APP_URL = process.env.APP_URL ?? `http://127.0.0.1:${process.env.PORT ?? 4321}`;
 const LABEL = 'demo feeder';

@@ -17,8 +17,8 @@
 import { useId, useMemo, useRef, useState, type FormEvent, type KeyboardEvent, type ReactNode, type Ref } from 'react';
 import { format, subHours } from 'date-fns';
 import type { ObsView } from '~/lib/charting/api-types.ts';
+import { CONSCIOUSNESS } from '~/lib/oxygenation/news2.ts';
 import {
-  CONSCIOUSNESS,
   CONSCIOUSNESS_LABELS,
   DEVICE_LABELS,
   FLOW_DEVICES,

@@ -2,8 +2,8 @@ import { useEffect, useMemo, useState } from 'react';
 import useSWR, { mutate as globalMutate } from 'swr';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { MAX_TREND_FILE_BYTES, guessMapping, headerNames, mappingFits, trendMappingSchema, type TimeMode, type TrendMapping } from '~/lib/imports/mapping.ts';
-import type { ImportView, TrendPreview } from '~/lib/server/imports/trend.ts';
-import { uploadFile } from './upload-xhr.ts';
+import type { ImportView, TrendPreview } from '~/lib/server/trend-files/imports.ts';
+import { uploadFile } from '~/lib/client/upload-xhr.ts';
 
 interface Props { patientId: number; canChart: boolean }
 interface ImportsResponse { imports: ImportView[]; mapping: TrendMapping | null; timeZone: string }

@@ -3,8 +3,8 @@ import useSWR from 'swr';
 import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
-import type { StripResult } from '~/lib/server/imports/pleth.ts';
-import { uploadFile } from '~/components/imports/upload-xhr.ts';
+import type { StripResult } from '~/lib/server/pleth-strips/checks.ts';
+import { uploadFile } from '~/lib/client/upload-xhr.ts';
 
 interface Props { patientId: number | null }
 interface Loaded { name: string; text: string; result: StripResult }

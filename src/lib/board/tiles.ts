@@ -3,10 +3,15 @@
  * server has already fetched. Pure — every clinical judgement comes from src/lib/oxygenation.
  */
 import { bandState, detectConcerns, news2, type BandStateName, type News2Response, type Reading } from '~/lib/oxygenation/index.ts';
-import type { EscalationSettings } from '~/lib/oxygenation/settings.ts';
+import { escalationSettingsOf } from '~/lib/oxygenation/settings.ts';
 import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
+import { news2InputOf, type ChartedObs } from '~/lib/charting/charted-obs.ts';
+import { CALIBRATED_FLOOR_PCT } from '~/lib/charting/obs-input.ts';
+import { readingsUnderBand } from '~/lib/escalations/judge.ts';
+import type { UnitSettings } from '~/lib/units/settings.ts';
 
-export interface BoardSettings extends EscalationSettings { overdueMin: number }
+/** What the board reads of a unit's settings. */
+export type BoardSettings = Omit<UnitSettings, 'renotifyMin' | 'outreachEmails'>;
 
 export interface BedInput {
   bedId: number; bedLabel: string;
@@ -14,10 +19,7 @@ export interface BedInput {
   band: null | { low: number; high: number; news2Scale: 1 | 2; orderedAt: number };
   /** Current readings since (at most) the lookback, oldest first: device, import and charted. */
   readings: Reading[];
-  lastCharted: null | {
-    at: number; spo2: number | null; heartRate: number | null; respRate: number | null; fio2: number | null; fio2Estimated: boolean;
-    device: OxygenDevice | null; systolic: number | null; temperature: number | null; consciousness: string | null;
-  };
+  lastCharted: ChartedObs | null;
   escalation: null | { id: number; kind: string; severity: string | null; state: 'raised' | 'claimed'; raisedAt: number; claimedBy: string | null };
   nurse: null | { id: number; name: string };
   /** An open occult-hypoxaemia task: a blood gas whose SaO₂ was < 88 % while SpO₂ read ≥ 92 %. */
@@ -53,14 +55,6 @@ export interface BoardTile {
   sentence: string;
 }
 
-/** Only the keys the computation module knows: it refuses unknown settings rather than ignore them. */
-export function escalationSettingsOf(s: EscalationSettings): EscalationSettings {
-  return {
-    minPerfusionIndexPct: s.minPerfusionIndexPct, consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin,
-    urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct, cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin,
-  };
-}
-
 const minutesBetween = (a: number, b: number) => Math.max(0, Math.floor((b - a) / 60_000));
 
 export function buildTile(bed: BedInput, now: number, settings: BoardSettings): BoardTile {
@@ -74,7 +68,7 @@ export function buildTile(bed: BedInput, now: number, settings: BoardSettings): 
   }
   const band = bed.band ? { low: bed.band.low, high: bed.band.high } : null;
   // Judge only readings taken under the band in force now: an older band's readings are not re-judged.
-  const readings = bed.band ? bed.readings.filter((r) => r.at >= bed.band!.orderedAt) : bed.readings;
+  const readings = readingsUnderBand(bed.readings, bed.band);
   const state = bandState(bed.readings, band, now, { minPerfusionIndexPct: settings.minPerfusionIndexPct });
   const concerns = detectConcerns(readings, band, now, escalationSettingsOf(settings));
   const last = state.latest;
@@ -85,11 +79,7 @@ export function buildTile(bed: BedInput, now: number, settings: BoardSettings): 
   let newsScore: BoardTile['news2'] = null;
   if (lastCharted) {
     const scale = bed.band?.news2Scale ?? 1;
-    const n = news2({
-      respRate: lastCharted.respRate, spo2: lastCharted.spo2, onOxygen: lastCharted.device ? lastCharted.device !== 'room_air' : null,
-      systolic: lastCharted.systolic, pulse: lastCharted.heartRate, temperature: lastCharted.temperature,
-      consciousness: lastCharted.consciousness as never,
-    }, scale);
+    const n = news2(news2InputOf(lastCharted), scale);
     if (n.complete && n.total !== null) newsScore = { total: n.total, response: n.response, scale };
   }
 
@@ -98,7 +88,7 @@ export function buildTile(bed: BedInput, now: number, settings: BoardSettings): 
     state: { name: state.state, sinceMin: state.sinceMin === null ? null : Math.floor(state.sinceMin) },
     latest: last ? {
       at: last.at, spo2: last.spo2, trace: last.trace, trusted: state.state !== 'untrusted', heartRate: last.heartRate ?? null,
-      belowCalibratedRange: last.spo2 !== null && last.spo2 < 70,
+      belowCalibratedRange: last.spo2 !== null && last.spo2 < CALIBRATED_FLOOR_PCT,
     } : null,
     oxygen: latestOxygen(bed),
     minutesSinceCharted, overdue, news2: newsScore,

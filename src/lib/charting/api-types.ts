@@ -3,7 +3,7 @@
  * Times are ISO 8601 strings in UTC; islands show them in `timeZone` of the unit.
  */
 import type { OxygenDevice, ReadingSource, TraceQuality } from '~/lib/oxygenation/types.ts';
-import type { Consciousness } from './obs-input.ts';
+import type { Consciousness } from '~/lib/oxygenation/news2.ts';
 import type { GasMark } from '~/lib/bloodgas/api-types.ts';
 
 export interface OrderView {

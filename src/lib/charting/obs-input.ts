@@ -4,9 +4,8 @@
  */
 import { z } from 'zod';
 import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '~/lib/oxygenation/types.ts';
+import { CONSCIOUSNESS, type Consciousness } from '~/lib/oxygenation/news2.ts';
 
-export const CONSCIOUSNESS = ['alert', 'new_confusion', 'voice', 'pain', 'unresponsive'] as const;
-export type Consciousness = (typeof CONSCIOUSNESS)[number];
 
 export const DEVICE_LABELS: Record<OxygenDevice, string> = {
   room_air: 'Room air',

@@ -32,6 +32,8 @@ export {
   type RoxInterpretation,
 } from './indices';
 export {
+  asConsciousness,
+  CONSCIOUSNESS,
   news2,
   news2Response,
   roundHalfUp,

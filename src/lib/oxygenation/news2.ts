@@ -16,7 +16,14 @@ import {
 import { ComputationInputError, requireInRange } from './errors';
 import { INPUT_LIMITS } from './settings';
 
-export type Consciousness = 'alert' | 'new_confusion' | 'voice' | 'pain' | 'unresponsive';
+/** The levels of consciousness charted (ACVPU with new confusion): the one list the form, API and NEWS2 use. */
+export const CONSCIOUSNESS = ['alert', 'new_confusion', 'voice', 'pain', 'unresponsive'] as const;
+export type Consciousness = (typeof CONSCIOUSNESS)[number];
+
+/** A stored value as a level, or null when absent or not one of the levels. */
+export function asConsciousness(value: string | null | undefined): Consciousness | null {
+  return value !== null && value !== undefined && (CONSCIOUSNESS as readonly string[]).includes(value) ? (value as Consciousness) : null;
+}
 
 export interface News2Observations {
   respRate?: number | null;
@@ -43,7 +50,6 @@ export interface News2Result {
   scale: 1 | 2;
 }
 
-const CONSCIOUSNESS: readonly Consciousness[] = ['alert', 'new_confusion', 'voice', 'pain', 'unresponsive'];
 const PARAMETERS: readonly News2Parameter[] = ['respRate', 'spo2', 'airOrOxygen', 'systolic', 'pulse', 'consciousness', 'temperature'];
 
 /**
@@ -111,7 +117,7 @@ export function news2(obs: News2Observations, scale: 1 | 2): News2Result {
     parts.pulse = stepScore(NEWS2_PULSE, roundHalfUp(v, 0));
   }
   if (present(obs.consciousness)) {
-    if (!CONSCIOUSNESS.includes(obs.consciousness as Consciousness)) {
+    if (!(CONSCIOUSNESS as readonly string[]).includes(obs.consciousness as string)) {
       throw new ComputationInputError('consciousness', 'must be alert, new_confusion, voice, pain or unresponsive', obs.consciousness);
     }
     parts.consciousness = obs.consciousness === 'alert' ? 0 : NEWS2_CONSCIOUSNESS_NOT_ALERT_SCORE;

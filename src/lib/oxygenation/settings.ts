@@ -101,6 +101,14 @@ export const DEFAULT_ESCALATION_SETTINGS: Readonly<EscalationSettings> = Object.
   aboveOnOxygenMin: 30,
 });
 
+/** Only the keys the escalation checks know, from any larger settings object: they refuse unknown settings rather than ignore them. */
+export function escalationSettingsOf(s: EscalationSettings): EscalationSettings {
+  return {
+    minPerfusionIndexPct: s.minPerfusionIndexPct, consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin,
+    urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct, cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin,
+  };
+}
+
 export const DEFAULT_DESATURATION_SETTINGS: Readonly<DesaturationSettings> = Object.freeze({
   dropPct: AASM_DESATURATION_PCT.rule1A,
   minDurationSec: 10,

@@ -1,9 +1,11 @@
 /** A unit's settings as the app uses them; the defaults apply to a unit no admin has configured yet. */
-import { DEFAULT_ESCALATION_SETTINGS } from '~/lib/oxygenation/settings.ts';
-import type { BoardSettings } from '~/lib/board/tiles.ts';
+import { DEFAULT_ESCALATION_SETTINGS, type EscalationSettings } from '~/lib/oxygenation/settings.ts';
 import { SEA_LEVEL_MMHG, type GasUnit } from '~/lib/bloodgas/compute.ts';
 
-export interface UnitSettings extends BoardSettings {
+export interface UnitSettings extends EscalationSettings {
+  /** Minutes after the last charted obs when the board marks obs overdue. */
+  overdueMin: number;
+  /** Minutes after which an unclaimed below-band escalation is mailed again. */
   renotifyMin: number;
   outreachEmails: string[];
   /** Blood gases are shown in this unit (stored in mmHg). */

@@ -3,10 +3,11 @@ import { buildTile, sortTiles, type BedInput, type BoardTile } from '~/lib/board
 import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { boardBeds, lastChartedPerPatient, recentReadings } from '~/lib/server/queries/board.ts';
+import { boardBeds } from '~/lib/server/queries/board.ts';
+import { lastChartedPerPatient, recentReadings } from '~/lib/server/queries/recent-readings.ts';
 import { unitSettingsRow } from '~/lib/server/queries/unit-settings.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
-import { readingsByPatient, recentWindow } from '~/lib/server/charting/readings.ts';
+import { readingsByPatient, recentWindow, toChartedObs } from '~/lib/server/charting/readings.ts';
 import { visibleUnits } from '~/lib/server/charting/patients.ts';
 import { openEscalationsByPatient } from './escalation-source.ts';
 
@@ -44,11 +45,7 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
       patient: b.patient_id === null ? null : { id: b.patient_id, label: patientLabel(b.given_name!, b.family_name!, b.mrn!), co2RetentionRisk: Boolean(b.co2_retention_risk) },
       band: b.band_low === null ? null : { low: b.band_low, high: b.band_high!, news2Scale: Number(b.news2_scale) as 1 | 2, orderedAt: new Date(b.ordered_at!).getTime() },
       readings: b.patient_id === null ? [] : readingsBy.get(b.patient_id) ?? [],
-      lastCharted: last ? {
-        at: new Date(last.taken_at).getTime(), spo2: last.spo2, heartRate: last.heart_rate, respRate: last.resp_rate,
-        fio2: last.fio2 === null ? null : Number(last.fio2), fio2Estimated: Boolean(last.fio2_estimated), device: (last.device as never) ?? null,
-        systolic: last.systolic, temperature: last.temperature === null ? null : Number(last.temperature), consciousness: last.consciousness,
-      } : null,
+      lastCharted: last ? toChartedObs(last) : null,
       escalation: b.patient_id === null ? null : escalations.get(b.patient_id) ?? null,
       nurse: b.nurse_id === null ? null : { id: b.nurse_id, name: b.nurse_name! },
       occultHypoxaemia: b.patient_id === null ? null : escalations.occult.get(b.patient_id) ?? null,

@@ -1,6 +1,8 @@
 /** Database rows → the computation modules' Reading and BandOrder shapes. */
+import type { ChartedObs } from '~/lib/charting/charted-obs.ts';
+import { asConsciousness } from '~/lib/oxygenation/news2.ts';
 import type { BandOrder, OxygenDevice, Reading } from '~/lib/oxygenation/types.ts';
-import type { ReadingRow } from '~/lib/server/queries/observations.ts';
+import type { ChartedObsRow, ReadingRow } from '~/lib/server/queries/observations.ts';
 import type { OrderRow } from '~/lib/server/queries/orders.ts';
 
 /** Device readings: enough for the dwell, cannot-verify and above-on-oxygen windows and a state duration. */
@@ -29,6 +31,15 @@ export function toReading(r: ReadingRow): Reading {
     at: new Date(r.taken_at).getTime(), spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate,
     fio2: r.fio2 === null ? null : Number(r.fio2), fio2Estimated: Boolean(r.fio2_estimated), device: (r.device as OxygenDevice | null) ?? null,
     trace: r.trace, perfusionIndex: r.perfusion_index === null ? null : Number(r.perfusion_index), source: r.source,
+  };
+}
+
+/** The newest charted obs row → the one shape the board, bed chart and mail compute NEWS2 from. */
+export function toChartedObs(r: ChartedObsRow): ChartedObs {
+  return {
+    at: new Date(r.taken_at).getTime(), spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate, respRate: r.resp_rate,
+    fio2: r.fio2 === null ? null : Number(r.fio2), fio2Estimated: Boolean(r.fio2_estimated), device: (r.device as OxygenDevice | null) ?? null,
+    systolic: r.systolic, temperature: r.temperature === null ? null : Number(r.temperature), consciousness: asConsciousness(r.consciousness),
   };
 }
 

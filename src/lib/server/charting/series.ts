@@ -9,7 +9,8 @@ import { escalationsInWindow } from '~/lib/server/queries/escalations.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
 import { gasMarks } from '~/lib/server/bloodgas/blood-gases.ts';
-import { toBandOrders, toReading } from './readings.ts';
+import { toBandOrders, toChartedObs, toReading } from './readings.ts';
+import { news2InputOf } from '~/lib/charting/charted-obs.ts';
 
 export const SERIES_WINDOWS = [6, 12, 24, 72] as const;
 /** Points per line after downsampling: enough for a wide screen, small enough to draw fast. */
@@ -131,11 +132,7 @@ function derivedFigures(readings: Reading[], lastCharted: ObservationListRow | u
         else rox = round(r.rox, 2);
       } else roxNote = 'Needs SpO₂, FiO₂ and respiratory rate charted together';
     }
-    const result = news2({
-      respRate: lastCharted.resp_rate, spo2, onOxygen: lastCharted.device ? lastCharted.device !== 'room_air' : null,
-      systolic: lastCharted.systolic, pulse: lastCharted.heart_rate, temperature: lastCharted.temperature === null ? null : Number(lastCharted.temperature),
-      consciousness: (lastCharted.consciousness as never) ?? null,
-    }, scale);
+    const result = news2(news2InputOf(toChartedObs(lastCharted)), scale);
     news = { total: result.total, complete: result.complete, missing: result.missing, response: result.response, scale, takenAt: new Date(lastCharted.taken_at).toISOString() };
   }
 

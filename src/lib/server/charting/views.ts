@@ -1,6 +1,7 @@
 /** Database rows → the JSON shapes of src/lib/charting/api-types.ts. */
 import type { ObsView, OrderView, StayView, PatientSummary } from '~/lib/charting/api-types.ts';
-import { obsNotices, type Consciousness } from '~/lib/charting/obs-input.ts';
+import { obsNotices } from '~/lib/charting/obs-input.ts';
+import { asConsciousness } from '~/lib/oxygenation/news2.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
 import type { OxygenDevice } from '~/lib/oxygenation/types.ts';
 import type { ObservationListRow } from '~/lib/server/queries/observations.ts';
@@ -47,7 +48,7 @@ export function obsView(o: ObservationListRow): ObsView {
     id: Number(o.id), takenAt: iso(o.taken_at)!, source: o.source, spo2, heartRate: o.heart_rate, respRate: o.resp_rate,
     fio2: num(o.fio2), fio2Estimated: Boolean(o.fio2_estimated), device: (o.device as OxygenDevice | null) ?? null, flowLpm: num(o.flow_lpm),
     trace: o.trace, perfusionIndex: num(o.perfusion_index), probeSite: o.probe_site, systolic: o.systolic, temperature: num(o.temperature),
-    consciousness: (o.consciousness as Consciousness | null) ?? null, note: o.note, status: o.status,
+    consciousness: asConsciousness(o.consciousness), note: o.note, status: o.status,
     replacesId: o.replaces_id === null ? null : Number(o.replaces_id), replacedById: o.replaced_by_id === null ? null : Number(o.replaced_by_id),
     statusReason: o.status_reason, statusBy: o.status_by_name, statusAt: iso(o.status_at), recordedBy: o.recorded_by_name, recordedAt: iso(o.recorded_at)!,
     notices: obsNotices({ spo2: spo2 ?? undefined }),

@@ -4,18 +4,19 @@
  * the escalation, its timeline event, the audit entry and the outbox mail commit together or not at all.
  */
 import type { Knex } from 'knex';
-import { bandState, detectConcerns, news2 } from '~/lib/oxygenation/index.ts';
+import { news2, type Reading } from '~/lib/oxygenation/index.ts';
+import { news2InputOf } from '~/lib/charting/charted-obs.ts';
 import { buildEscalationMail } from '~/lib/escalations/mail.ts';
-import { decideEscalations, EMAILED_KINDS, type EscalationAction, type EscalationKind, type OpenEscalation } from '~/lib/escalations/decide.ts';
-import { escalationSettingsOf } from '~/lib/board/tiles.ts';
+import { EMAILED_KINDS, type EscalationAction, type EscalationKind } from '~/lib/escalations/decide.ts';
+import { judgePatient, lastClosedRunStarts, toOpenEscalation } from '~/lib/escalations/judge.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow, type UnitSettings } from '~/lib/units/settings.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { insertEscalation, insertEvent, lastClosedRunStartsFor, openEscalationsOf, updateEscalation, type EscalationRow } from '~/lib/server/queries/escalations.ts';
 import { enqueueMail } from '~/lib/server/queries/outbox.ts';
 import { patientContext, type PatientContext } from '~/lib/server/queries/escalation-context.ts';
-import { recentReadings } from '~/lib/server/queries/board.ts';
-import { recentWindow, toReading } from '~/lib/server/charting/readings.ts';
+import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
+import { recentWindow, toChartedObs, toReading } from '~/lib/server/charting/readings.ts';
 
 export function publicOrigin(): string {
   return (process.env.PUBLIC_ORIGIN ?? 'http://127.0.0.1:4321').replace(/\/$/, '');
@@ -28,18 +29,11 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
   const settings = settingsFromRow(ctx.settings ?? undefined);
   const nowMs = now.getTime();
   const all = (await recentReadings([patientId], recentWindow(nowMs), trx)).map(toReading);
-  const band = ctx.band ? { low: ctx.band.low, high: ctx.band.high } : null;
-  // Judge only readings taken under the band in force now.
-  const readings = ctx.band ? all.filter((r) => r.at >= ctx.band!.orderedAt.getTime()) : all;
-  const concerns = detectConcerns(readings, band, nowMs, escalationSettingsOf(settings));
-  const state = bandState(readings, band, nowMs, { minPerfusionIndexPct: settings.minPerfusionIndexPct });
-
   const openRows = await openEscalationsOf(trx, patientId);
-  const open: OpenEscalation[] = openRows.map((e) => ({ id: e.id, kind: e.kind, severity: e.severity, runStart: new Date(e.run_start).getTime(), backInBandNoted: e.back_in_band_at !== null }));
-  const closed = await lastClosedRunStartsFor([patientId], trx);
-  const lastClosedRunStart = Object.fromEntries(closed.map((c) => [c.kind, new Date(c.run_start).getTime()])) as Partial<Record<EscalationKind, number>>;
-
-  const actions = decideEscalations({ concerns, state, open, lastClosedRunStart });
+  const { readings, band, concerns, state, actions } = judgePatient({
+    readings: all, band: ctx.band ? { low: ctx.band.low, high: ctx.band.high, orderedAt: ctx.band.orderedAt.getTime() } : null, settings,
+    open: openRows.map(toOpenEscalation), lastClosedRunStart: lastClosedRunStarts(await lastClosedRunStartsFor([patientId], trx)), now: nowMs,
+  });
   for (const action of actions) {
     switch (action.type) {
       case 'raise': {
@@ -56,7 +50,10 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
         await insertEvent(trx, { escalation_id: id, type: 'raised', actor_id: null, at: now, detail: { severity: action.severity, runStart: action.runStart, runEnd: action.runEnd } });
         await writeAudit(trx, { actorId: null, action: 'escalation.raise', entity: 'escalation', entityId: id, after: { patientId, kind: action.kind, severity: action.severity }, at: now });
         if (EMAILED_KINDS.includes(action.kind)) {
-          await notify(trx, { id, kind: action.kind, severity: action.severity, run_start: new Date(action.runStart), run_end: new Date(action.runEnd), notify_count: 0 }, ctx, settings, readings, `esc:${id}:raised`, 'notified', now, below?.nadir ?? null, below?.rule ?? null);
+          await notify(trx, {
+            esc: { id, kind: action.kind, severity: action.severity, run_start: new Date(action.runStart), run_end: new Date(action.runEnd), notify_count: 0 },
+            ctx, settings, readings, key: `esc:${id}:raised`, eventType: 'notified', now, nadir: below?.nadir ?? null, rule: below?.rule ?? null,
+          });
         }
         break;
       }
@@ -66,7 +63,10 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
         await insertEvent(trx, { escalation_id: action.id, type: 'severity_raised', actor_id: null, at: now, detail: { from: row.severity, to: 'urgent', reasons: concerns.belowBand?.urgentReasons ?? [] } });
         await writeAudit(trx, { actorId: null, action: 'escalation.severity_raised', entity: 'escalation', entityId: action.id, before: { severity: row.severity }, after: { severity: 'urgent' }, at: now });
         if (row.state === 'raised' || row.state === 'claimed') {
-          await notify(trx, { ...row, severity: 'urgent' }, ctx, settings, readings, `esc:${action.id}:urgent`, 'notified', now, concerns.belowBand?.nadir ?? null, concerns.belowBand?.rule ?? null);
+          await notify(trx, {
+            esc: { ...row, severity: 'urgent' }, ctx, settings, readings, key: `esc:${action.id}:urgent`, eventType: 'notified', now,
+            nadir: concerns.belowBand?.nadir ?? null, rule: concerns.belowBand?.rule ?? null,
+          });
         }
         break;
       }
@@ -86,22 +86,28 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
   return actions;
 }
 
+export interface NotifyOptions {
+  esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'>;
+  ctx: PatientContext;
+  settings: UnitSettings;
+  /** Recent readings, oldest first: the mail shows the last few and the oxygen in use. */
+  readings: Reading[];
+  /** Idempotency key of the outbox row (one mail per key, whatever retries). */
+  key: string;
+  eventType: 'notified' | 'renotified';
+  now: Date;
+  nadir: number | null;
+  rule: string | null;
+}
+
 /** Queues the mail for an escalation (first notice, urgent upgrade or reminder) and records it. */
-export async function notify(
-  trx: Knex.Transaction, esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'>, ctx: PatientContext,
-  settings: UnitSettings, readings: ReturnType<typeof toReading>[], key: string, eventType: 'notified' | 'renotified', now: Date,
-  nadir: number | null, rule: string | null,
-): Promise<void> {
+export async function notify(trx: Knex.Transaction, { esc, ctx, settings, readings, key, eventType, now, nadir, rule }: NotifyOptions): Promise<void> {
   const lastCharted = [...readings].reverse().find((r) => r.source === 'charted');
   const oxygenFrom = [...readings].reverse().find((r) => r.fio2 !== null && r.fio2 !== undefined);
   let news: { total: number; scale: 1 | 2 } | null = null;
   if (ctx.lastCharted) {
     const scale = (ctx.band?.news2Scale ?? 1) as 1 | 2;
-    const n = news2({
-      respRate: ctx.lastCharted.resp_rate, spo2: ctx.lastCharted.spo2, onOxygen: ctx.lastCharted.device ? ctx.lastCharted.device !== 'room_air' : null,
-      systolic: ctx.lastCharted.systolic, pulse: ctx.lastCharted.heart_rate, temperature: ctx.lastCharted.temperature === null ? null : Number(ctx.lastCharted.temperature),
-      consciousness: ctx.lastCharted.consciousness as never,
-    }, scale);
+    const n = news2(news2InputOf(toChartedObs(ctx.lastCharted)), scale);
     if (n.complete && n.total !== null) news = { total: n.total, scale };
   }
   const renotify = eventType === 'renotified' ? esc.notify_count : 0;

@@ -3,10 +3,9 @@
  * notes patients back in band. Safe on any number of instances: each patient and each escalation
  * is claimed with a row lock (SKIP LOCKED), and one open escalation per kind is a unique index.
  */
-import { decideEscalations, renotifyDue } from '~/lib/escalations/decide.ts';
-import { bandState, detectConcerns } from '~/lib/oxygenation/index.ts';
-import { escalationSettingsOf } from '~/lib/board/tiles.ts';
-import { recentReadings } from '~/lib/server/queries/board.ts';
+import { renotifyDue } from '~/lib/escalations/decide.ts';
+import { judgePatient, lastClosedRunStarts, toOpenEscalation } from '~/lib/escalations/judge.ts';
+import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '~/lib/server/queries/escalations.ts';
@@ -49,18 +48,15 @@ async function patientsWithActions(ids: number[], nowMs: number, window: { devic
   const readingsBy = readingsByPatient(readings);
   const due: number[] = [];
   for (const c of contexts) {
-    const settings = settingsFromRow(c.outreach_emails === null ? undefined : (c as never));
-    const band = c.band_low === null ? null : { low: c.band_low, high: c.band_high! };
-    const all = readingsBy.get(c.patient_id) ?? [];
-    const judged = band ? all.filter((r) => r.at >= new Date(c.ordered_at!).getTime()) : all;
-    const concerns = detectConcerns(judged, band, nowMs, escalationSettingsOf(settings));
-    const state = bandState(judged, band, nowMs, { minPerfusionIndexPct: settings.minPerfusionIndexPct });
-    const actions = decideEscalations({
-      concerns, state,
-      open: open.filter((e) => e.patient_id === c.patient_id).map((e) => ({ id: e.id, kind: e.kind, severity: e.severity, runStart: new Date(e.run_start).getTime(), backInBandNoted: e.back_in_band_at !== null })),
-      lastClosedRunStart: Object.fromEntries(closed.filter((x) => x.patient_id === c.patient_id).map((x) => [x.kind, new Date(x.run_start).getTime()])),
+    const { actions } = judgePatient({
+      readings: readingsBy.get(c.patientId) ?? [],
+      band: c.band ? { low: c.band.low, high: c.band.high, orderedAt: c.band.orderedAt.getTime() } : null,
+      settings: settingsFromRow(c.settings ?? undefined),
+      open: open.filter((e) => e.patient_id === c.patientId).map(toOpenEscalation),
+      lastClosedRunStart: lastClosedRunStarts(closed.filter((x) => x.patient_id === c.patientId)),
+      now: nowMs,
     });
-    if (actions.length > 0) due.push(c.patient_id);
+    if (actions.length > 0) due.push(c.patientId);
   }
   return due;
 }
@@ -79,7 +75,10 @@ export async function renotifyUnclaimed(now: Date, onlyUnitId?: number): Promise
       }
       const rows = await recentReadings([esc.patient_id], recentWindow(now.getTime()), trx);
       const evidence = (typeof esc.evidence === 'string' ? JSON.parse(esc.evidence) : esc.evidence) as { nadir?: number | null; rule?: string | null };
-      await notify(trx, esc, ctx, settings, rows.map(toReading), `esc:${esc.id}:renotify:${esc.notify_count}`, 'renotified', now, evidence.nadir ?? null, evidence.rule ?? null);
+      await notify(trx, {
+        esc, ctx, settings, readings: rows.map(toReading), key: `esc:${esc.id}:renotify:${esc.notify_count}`, eventType: 'renotified', now,
+        nadir: evidence.nadir ?? null, rule: evidence.rule ?? null,
+      });
       count += 1;
     }
     return count;

@@ -1,5 +1,6 @@
 /** What the admin mail page shows: the outbox (always) and, in development, what the SMTP fake received. */
 import { recentOutbox } from '~/lib/server/queries/outbox.ts';
+import { devMailbox } from './dev-mailbox.ts';
 
 export async function mailOverview(limit = 50) {
   const outbox = (await recentOutbox(limit)).map((r) => ({
@@ -7,16 +8,6 @@ export async function mailOverview(limit = 50) {
     attempts: r.attempts, lastError: r.last_error, createdAt: new Date(r.created_at).toISOString(), sentAt: r.sent_at ? new Date(r.sent_at).toISOString() : null,
     nextAttemptAt: new Date(r.next_attempt_at).toISOString(), text: r.text_body,
   }));
-  const api = process.env.SMTP_FAKE_API_URL;
-  let received: unknown[] | null = null;
-  let receivedError: string | null = null;
-  if (api) {
-    try {
-      const res = await fetch(`${api.replace(/\/$/, '')}/messages`, { signal: AbortSignal.timeout(2_000) });
-      received = ((await res.json()) as { messages: unknown[] }).messages.slice(0, limit);
-    } catch (err) {
-      receivedError = `The development SMTP fake is not answering (${(err as Error).message}).`;
-    }
-  }
-  return { outbox, received, receivedError, smtpFake: Boolean(api) };
+  const dev = await devMailbox(limit);
+  return { outbox, received: dev.received, receivedError: dev.error, smtpFake: dev.enabled };
 }

@@ -79,27 +79,6 @@ export async function insertDeviceReadings(trx: Knex.Transaction, rows: DeviceOb
   return stored;
 }
 
-/** Occupied beds with the patient's latest device readings: where the demo feeder carries on. */
-export async function occupiedBedsWithDeviceReadings(unitCodes: string[], conn: Conn = db()): Promise<{ bed_id: number; bed_label: string; patient_id: number }[]> {
-  return conn('bed_stays as s')
-    .join('beds as b', 'b.id', 's.open_bed_id')
-    .join('units as u', 'u.id', 'b.unit_id')
-    .whereIn('u.code', unitCodes)
-    .whereExists((q) => q.select(conn.raw('1')).from('observations as o').whereRaw('o.patient_id = s.patient_id').andWhere('o.source', 'device'))
-    .orderBy('b.id')
-    .select('b.id as bed_id', 'b.label as bed_label', 's.patient_id');
-}
-
-export async function recentDeviceReadings(patientId: number, limit: number, conn: Conn = db()) {
-  return conn('observations').where({ patient_id: patientId, source: 'device', status: 'current' }).orderBy('taken_at', 'desc').limit(limit)
-    .select('taken_at', 'spo2', 'heart_rate', 'perfusion_index', 'trace');
-}
-
-/** Live keys with a given label (the feeder's own, revoked when it restarts). */
-export async function liveKeyIdsLabelled(trx: Conn, label: string): Promise<number[]> {
-  return trx('device_keys').where({ label }).whereNull('revoked_at').pluck('id');
-}
-
 /** Every active bed with its unit, for the admin's key form. */
 export async function activeBeds(conn: Conn = db()): Promise<{ id: number; label: string; unit_code: string; unit_name: string }[]> {
   return conn('beds as b').join('units as u', 'u.id', 'b.unit_id').where('b.active', true)

@@ -1,13 +1,14 @@
 import type { Knex } from 'knex';
 import type { UnitSettingsRow } from './unit-settings.ts';
-import type { ReadingRow } from './observations.ts';
+import type { UnitSettingsColumns } from '~/lib/units/settings.ts';
+import type { ChartedObsRow } from './observations.ts';
 
 export interface PatientContext {
   patientId: number; givenName: string; familyName: string; mrn: string;
   bedId: number; bedLabel: string; unitId: number; unitName: string; hospital: string; timeZone: string;
   band: { low: number; high: number; news2Scale: number; orderedAt: Date } | null;
   settings: UnitSettingsRow | null;
-  lastCharted: (ReadingRow & { systolic: number | null; temperature: string | number | null; consciousness: string | null }) | null;
+  lastCharted: ChartedObsRow | null;
 }
 
 /** Everything the escalation engine needs about a patient in a bed, or undefined when not admitted. */
@@ -35,22 +36,33 @@ export async function patientContext(trx: Knex.Transaction, patientId: number): 
   };
 }
 
-export interface SweepContextRow {
-  patient_id: number; unit_id: number; band_low: number | null; band_high: number | null; ordered_at: Date | null;
-  consecutive_charted: number | null; device_dwell_min: number | null; urgent_margin_points: number | null; urgent_floor_pct: number | null;
-  cannot_verify_min: number | null; above_on_oxygen_min: number | null; renotify_min: number | null; overdue_min: number | null; outreach_emails: string | null;
+export interface SweepContext {
+  patientId: number; unitId: number;
+  band: { low: number; high: number; orderedAt: Date } | null;
+  /** Null when no admin has configured the unit (the defaults apply). */
+  settings: UnitSettingsColumns | null;
 }
 
 /** Band and unit settings of many admitted patients in one query (the sweep's read-only first pass). */
-export async function sweepContexts(conn: Knex, patientIds: number[]): Promise<SweepContextRow[]> {
+export async function sweepContexts(conn: Knex, patientIds: number[]): Promise<SweepContext[]> {
   if (patientIds.length === 0) return [];
   const latest = conn('target_orders').whereIn('patient_id', patientIds).groupBy('patient_id').select('patient_id').max('id as id').as('lo');
-  return conn('bed_stays as s')
+  const rows = await conn('bed_stays as s')
     .join('beds as b', 'b.id', 's.bed_id')
     .leftJoin('unit_settings as us', 'us.unit_id', 'b.unit_id')
     .leftJoin(latest, 'lo.patient_id', 's.patient_id')
     .leftJoin('target_orders as o', 'o.id', 'lo.id')
     .whereIn('s.patient_id', patientIds).whereNull('s.ended_at')
-    .select('s.patient_id', 'b.unit_id', 'o.low as band_low', 'o.high as band_high', 'o.ordered_at', 'us.consecutive_charted', 'us.device_dwell_min',
-      'us.urgent_margin_points', 'us.urgent_floor_pct', 'us.cannot_verify_min', 'us.above_on_oxygen_min', 'us.renotify_min', 'us.overdue_min', 'us.outreach_emails');
+    .select('s.patient_id', 'b.unit_id', 'o.low as band_low', 'o.high as band_high', 'o.ordered_at', 'us.unit_id as settings_unit_id', 'us.consecutive_charted',
+      'us.device_dwell_min', 'us.urgent_margin_points', 'us.urgent_floor_pct', 'us.cannot_verify_min', 'us.above_on_oxygen_min', 'us.renotify_min',
+      'us.overdue_min', 'us.outreach_emails');
+  return rows.map((r) => ({
+    patientId: r.patient_id, unitId: r.unit_id,
+    band: r.band_low === null ? null : { low: r.band_low, high: r.band_high, orderedAt: new Date(r.ordered_at) },
+    settings: r.settings_unit_id === null ? null : {
+      consecutive_charted: r.consecutive_charted, device_dwell_min: r.device_dwell_min, urgent_margin_points: r.urgent_margin_points,
+      urgent_floor_pct: r.urgent_floor_pct, cannot_verify_min: r.cannot_verify_min, above_on_oxygen_min: r.above_on_oxygen_min,
+      renotify_min: r.renotify_min, overdue_min: r.overdue_min, outreach_emails: r.outreach_emails,
+    },
+  }));
 }

@@ -62,6 +62,9 @@ export interface ReadingRow {
   trace: 'clean' | 'weak' | 'noisy' | 'absent'; perfusion_index: string | number | null;
 }
 
+/** A charted obs as the NEWS2 input needs it: the reading columns and the vital signs charted with it. */
+export interface ChartedObsRow extends ReadingRow { systolic: number | null; temperature: string | number | null; consciousness: string | null }
+
 /** Current (not superseded, not in error) readings of a patient in [from, to), oldest first. */
 export async function currentReadingsBetween(patientId: number, from: Date, to: Date, conn: Conn = db()): Promise<ReadingRow[]> {
   return conn('observations')

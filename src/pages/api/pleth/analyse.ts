@@ -1,9 +1,9 @@
 import { z } from 'zod';
 import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
-import { MAX_STRIP_BYTES } from '~/lib/imports/strip-csv.ts';
+import { MAX_STRIP_BYTES } from '~/lib/pleth-strips/strip-csv.ts';
 import { ApiError, endpoint, json, parseQuery, requireRole } from '~/lib/server/http.ts';
-import { analyseStripText } from '~/lib/server/imports/pleth.ts';
-import { readUpload } from '~/lib/server/imports/upload.ts';
+import { analyseStripText } from '~/lib/server/pleth-strips/checks.ts';
+import { readUpload } from '~/lib/server/upload-body.ts';
 
 const query = z.object({
   sampleRateHz: z.coerce.number({ invalid_type_error: 'Sample rate must be a number' }).positive('Sample rate must be above 0').max(10_000).optional(),

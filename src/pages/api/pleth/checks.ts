@@ -1,8 +1,8 @@
 import { z } from 'zod';
 import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
-import { MAX_STRIP_BYTES } from '~/lib/imports/strip-csv.ts';
+import { MAX_STRIP_BYTES } from '~/lib/pleth-strips/strip-csv.ts';
 import { endpoint, json, parseBody, parseQuery, requireRole } from '~/lib/server/http.ts';
-import { attachCheck, listChecks } from '~/lib/server/imports/pleth.ts';
+import { attachCheck, listChecks } from '~/lib/server/pleth-strips/checks.ts';
 
 const listQuery = z.object({ patientId: z.coerce.number({ invalid_type_error: 'must be a number' }).int().positive() });
 

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
-import { withdrawImport } from '~/lib/server/imports/trend.ts';
+import { withdrawImport } from '~/lib/server/trend-files/imports.ts';
 
 const withdrawSchema = z.object({
   reason: z.string({ required_error: 'Give the reason for withdrawing' }).trim().min(3, 'Give the reason for withdrawing').max(400, '400 characters at most'),

@@ -1,7 +1,7 @@
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { endpoint, json, parseParams, requireRole } from '~/lib/server/http.ts';
-import { commitTrend } from '~/lib/server/imports/trend.ts';
-import { readTrendUpload } from './_upload.ts';
+import { commitTrend } from '~/lib/server/trend-files/imports.ts';
+import { readTrendUpload } from '~/lib/server/trend-files/request.ts';
 
 export const POST = endpoint(async ({ locals, params, request, url }) => {
   const user = requireRole(locals, ['nurse', 'charge']);

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { trendMappingSchema } from '~/lib/imports/mapping.ts';
 import { MAX_TREND_FILE_BYTES } from '~/lib/imports/trend-csv.ts';
 import { ApiError, parseQuery } from '~/lib/server/http.ts';
-import { readUpload } from '~/lib/server/imports/upload.ts';
+import { readUpload } from '~/lib/server/upload-body.ts';
 
 const metaSchema = z.object({
   fileName: z.string({ required_error: 'Give the file name' }).trim().min(1, 'Give the file name').max(255, 'File name: 255 characters at most')

@@ -4,7 +4,7 @@
  */
 import { parse } from 'csv-parse/sync';
 import type { PlethStrip } from '~/lib/oxygenation/pleth.ts';
-import { detectDelimiter } from './mapping.ts';
+import { detectDelimiter } from '~/lib/imports/mapping.ts';
 
 export const MAX_STRIP_BYTES = 2 * 1024 * 1024;
 export const MAX_STRIP_SAMPLES = 60_000;

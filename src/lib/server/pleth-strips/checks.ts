@@ -4,13 +4,13 @@
  */
 import { createHash } from 'node:crypto';
 import { CLINICAL_ROLES, hasRole } from '~/lib/auth/roles.ts';
-import { StripFileError, parseStripCsv } from '~/lib/imports/strip-csv.ts';
+import { StripFileError, parseStripCsv } from '~/lib/pleth-strips/strip-csv.ts';
 import { analysePlethStrip, beerLambertCurve, type PlethAnalysis } from '~/lib/oxygenation/index.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
-import { insertPlethCheck, observationOfPatient, plethChecksOf, recentReadingsOf } from '~/lib/server/queries/imports.ts';
+import { attachableReadingsOf, insertPlethCheck, observationOfPatient, plethChecksOf } from '~/lib/server/queries/pleth-checks.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 
 /** Points per waveform sent to the page: a strip of a minute at 100 Hz is drawn whole. */
@@ -87,7 +87,7 @@ export async function attachCheck(user: SessionUser, input: AttachInput, now = n
 export async function listChecks(user: SessionUser, patientId: number) {
   assertClinician(user);
   await authorisePatient(user, patientId, 'read');
-  const [rows, readings] = await Promise.all([plethChecksOf(patientId), recentReadingsOf(patientId, 60)]);
+  const [rows, readings] = await Promise.all([plethChecksOf(patientId), attachableReadingsOf(patientId, 60)]);
   const num = (v: string | number | null) => (v === null ? null : Number(v));
   return {
     checks: rows.map((r) => ({

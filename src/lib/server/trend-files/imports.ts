@@ -15,10 +15,10 @@ import { writeAudit } from '~/lib/server/queries/audit.ts';
 import {
   activeImportOfFile, findImport, importsOf, insertImport, insertImportReadings, lockImport, markImportWithdrawn, readingSecondsBetween,
   saveUnitMapping, unitMapping, withdrawImportReadings, type ImportListRow,
-} from '~/lib/server/queries/imports.ts';
+} from '~/lib/server/queries/trend-imports.ts';
 import { staysOf, type StayRow } from '~/lib/server/queries/patients.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
-import type { UploadedFile } from './upload.ts';
+import type { UploadedFile } from '~/lib/server/upload-body.ts';
 
 /** How many refused rows and examples the preview lists in full (the counts are always exact). */
 const LIST_LIMIT = 200;

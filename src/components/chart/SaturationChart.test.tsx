@@ -37,6 +37,17 @@ describe('SaturationChart', () => {
     expect(latest.querySelector('[data-state="below"]')!.textContent).toBe('below band');
   });
 
+  it('draws blood gases as SaO₂ diamonds, ringed and named when the pair shows occult hypoxaemia', () => {
+    const gases = [
+      { id: 1, t: T0 - 3 * 3_600_000, sao2: 91, spo2AtSample: 95, sampleType: 'arterial' as const, occult: false },
+      { id: 2, t: T0 - 60 * 60_000, sao2: 86, spo2AtSample: 93, sampleType: 'arterial' as const, occult: true },
+    ];
+    const { container } = render(<SaturationChart series={series({ bloodGases: gases })} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    expect(container.querySelectorAll('[data-mark="sao2"]')).toHaveLength(1);
+    expect(container.querySelectorAll('[data-mark="sao2-occult"]')).toHaveLength(1);
+    expect(screen.getByTestId('chart-summary').textContent).toContain('Blood gas at 11:00: SaO₂ 86 % while SpO₂ read 93 % — occult hypoxaemia.');
+  });
+
   it('uses the unit’s zone, not the browser’s, for times', () => {
     const s = chartSummary(series(), 'Australia/Sydney');
     // 11:50Z on 12 March is 22:50 in Sydney (AEDT, +11).

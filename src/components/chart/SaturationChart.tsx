@@ -46,6 +46,7 @@ const COLOURS = {
   hr: '#97aac6', // ink-300
   fio2: '#a3321f', // coral-700
   escalation: '#e8553a', // coral-500
+  sao2: '#0e1726', // ink-950: a measured value, drawn as a diamond
 };
 /** Break the SpO₂ line over gaps longer than this (no reading is not "carried on"). */
 const LINE_GAP_MS = 75 * 60_000;
@@ -91,10 +92,27 @@ export function chartSummary(s: SeriesResponse, timeZone: string): string {
   const bandChanges = Math.max(0, s.bands.length - 1);
   if (bandChanges) sentence += ` The band changed ${bandChanges === 1 ? 'once' : `${bandChanges} times`}.`;
   if (s.escalations.length) sentence += ` ${s.escalations.length} escalation${s.escalations.length === 1 ? '' : 's'} in this window.`;
+  for (const g of s.bloodGases ?? []) {
+    sentence += ` Blood gas at ${formatClock(g.t, timeZone)}: SaO₂ ${g.sao2} %${g.spo2AtSample !== null ? ` while SpO₂ read ${g.spo2AtSample} %` : ''}${g.occult ? ' — occult hypoxaemia' : ''}.`;
+  }
   return sentence;
 }
 
 interface MarkPoint extends Spo2Point { state: BandState }
+
+/** A blood gas's measured SaO₂: a diamond (ringed and labelled when the pair shows occult hypoxaemia). */
+function Sao2Mark(props: { cx?: number; cy?: number; payload?: { occult: boolean } }) {
+  const { cx, cy, payload } = props;
+  if (cx === undefined || cy === undefined || !payload) return <g />;
+  const d = `M${cx},${cy - 6} L${cx + 6},${cy} L${cx},${cy + 6} L${cx - 6},${cy} Z`;
+  return (
+    <g data-mark={payload.occult ? 'sao2-occult' : 'sao2'}>
+      {payload.occult && <circle cx={cx} cy={cy} r={10} fill="none" stroke={COLOURS.below} strokeWidth={2} />}
+      <path d={d} fill={COLOURS.sao2} stroke="#ffffff" strokeWidth={1} />
+      {payload.occult && <text x={cx + 12} y={cy + 4} fill={COLOURS.below} fontSize={11} fontWeight={700}>occult hypoxaemia</text>}
+    </g>
+  );
+}
 
 /** A mark per reading: filled dot / down mark / up mark for trusted, hollow ring for untrusted. */
 function ReadingMark(props: { cx?: number; cy?: number; payload?: MarkPoint }) {
@@ -163,6 +181,9 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
       {model.marks.length > 0 && (
         <Scatter yAxisId="spo2" dataKey="v" data={model.marks} shape={(p: unknown) => <ReadingMark {...(p as object)} />} isAnimationActive={false} name="SpO₂ readings" />
       )}
+      {model.gases.length > 0 && (
+        <Scatter yAxisId="spo2" dataKey="v" data={model.gases} shape={(p: unknown) => <Sao2Mark {...(p as object)} />} isAnimationActive={false} name="SaO₂ (blood gas)" />
+      )}
       {series.escalations.flatMap((e) => [
         <ReferenceLine key={`r${e.id}`} yAxisId="spo2" x={e.raisedAt} stroke={COLOURS.escalation} strokeWidth={2} strokeDasharray="4 2" ifOverflow="hidden"
           label={{ value: `▼ escalation${e.severity === 'urgent' ? ' (urgent)' : ''}`, position: 'insideTopLeft', fill: COLOURS.escalation, fontSize: 11 }} />,
@@ -219,6 +240,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
             <span className="inline-flex items-center gap-1"><svg viewBox="0 0 16 16" className="h-3.5 w-3.5" aria-hidden="true"><circle cx="8" cy="8" r="5" fill="none" stroke="currentColor" strokeWidth="1.6" /></svg> untrusted (hollow)</span>
             <span className="inline-flex items-center gap-1"><span className="inline-block h-0.5 w-5 bg-ink-300" aria-hidden="true" /> heart rate (right axis)</span>
             <span className="inline-flex items-center gap-1"><span className="inline-block w-5 border-t-2 border-dashed border-coral-700" aria-hidden="true" /> FiO₂ (right axis, 0.21–1.0)</span>
+            {model && model.gases.length > 0 && <span className="inline-flex items-center gap-1"><svg viewBox="0 0 16 16" className="h-3.5 w-3.5" aria-hidden="true"><path d="M8 2l6 6-6 6-6-6z" fill="currentColor" /></svg> SaO₂ from a blood gas{model.gases.some((g) => g.occult) ? ' (ringed: occult hypoxaemia)' : ''}</span>}
             {series.escalations.length > 0 && <span className="inline-flex items-center gap-1 text-coral-700 dark:text-coral-300"><span aria-hidden="true">┆</span> escalation</span>}
           </figcaption>
           <p className="mt-1 text-xs text-ink-500 dark:text-ink-400" data-testid="reading-counts">
@@ -250,14 +272,15 @@ function buildModel(s: SeriesResponse) {
   const hr: { t: number; v: number | null }[] = breakGaps(s.heartRate);
   const lastF = s.fio2[s.fio2.length - 1];
   const fio2 = lastF && lastF.t < s.to ? [...s.fio2, { t: s.to, v: lastF.v }] : s.fio2;
-  const lows = [...s.spo2.map((p) => p.v), ...s.bands.map((b) => b.low)];
+  const gases = (s.bloodGases ?? []).filter((g) => g.sampleType === 'arterial').map((g) => ({ t: g.t, v: g.sao2, occult: g.occult }));
+  const lows = [...s.spo2.map((p) => p.v), ...s.bands.map((b) => b.low), ...gases.map((g) => g.v)];
   const floor = lows.length ? Math.min(...lows) : 85;
   const spo2Domain: [number, number] = [Math.max(0, Math.min(85, Math.floor((floor - 3) / 5) * 5)), 100];
   const hrs = s.heartRate.map((p) => p.v);
   const hrDomain: [number, number] = hrs.length
     ? [Math.max(0, Math.min(40, Math.floor((Math.min(...hrs) - 10) / 10) * 10)), Math.max(160, Math.ceil((Math.max(...hrs) + 10) / 10) * 10)]
     : [40, 160];
-  return { spo2Line, marks, hr, fio2, spo2Domain, hrDomain };
+  return { spo2Line, marks, hr, fio2, spo2Domain, hrDomain, gases };
 }
 
 function breakGaps(points: readonly SeriesPoint[]) {

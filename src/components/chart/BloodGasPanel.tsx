@@ -51,7 +51,7 @@ export function GasBias({ patientId }: { patientId: number }) {
   const over = m > 0;
   return (
     <p className={`text-sm ${over && m >= 4 ? 'font-bold text-coral-800 dark:text-coral-200' : 'text-ink-600 dark:text-ink-300'}`} data-testid="gas-bias">
-      Oximeter bias for this patient: SpO₂ {over ? 'reads' : 'reads'} {m > 0 ? `${fmt(m)} points above` : m < 0 ? `${fmt(-m)} points below` : 'the same as'} the measured SaO₂
+      Oximeter bias for this patient: SpO₂ reads {m > 0 ? `${fmt(m)} points above` : m < 0 ? `${fmt(-m)} points below` : 'the same as'} the measured SaO₂
       {' '}(median of {data.bias.pairs} pair{data.bias.pairs === 1 ? '' : 's'}{data.occultCount ? `; ${data.occultCount} with occult hypoxaemia` : ''})
       {over && m >= 2 && <> — a band set on SpO₂ may need to be higher for this patient: a question for the intensivist, never an automatic change.</>}
     </p>
@@ -90,6 +90,7 @@ function GasTable({ list, timeZone, canChart, patientId }: { list: BloodGasList;
           ))}
         </tbody>
       </table>
+      <p className="mt-1 text-xs text-ink-500 dark:text-ink-400">Berlin P/F bands (JAMA 2012) apply with PEEP or CPAP ≥ 5 cmH₂O; they are shown, not a diagnosis. A–a from the alveolar gas equation at {list.barometricMmHg} mmHg.</p>
     </div>
   );
 }
@@ -130,7 +131,7 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
           {canAct && <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" aria-expanded={marking} onClick={() => onMark(!marking)}>Entered in error<span className="sr-only">: gas of {formatDayTime(g.sampledAt, timeZone)}</span></button>}
         </td>
       </tr>
-      {d.notes.length > 0 && !struck && (
+      {g.sampleType !== 'arterial' && !struck && (
         <tr className="border-b border-ink-100 dark:border-ink-800"><td colSpan={12} className="pb-1 text-xs text-ink-500 dark:text-ink-400">{d.notes.join(' · ')}</td></tr>
       )}
       {marking && (

@@ -48,6 +48,20 @@ describe('blood gases in a real browser', () => {
     const flag = page.getByTestId('tile-4-11').getByTestId('tile-occult');
     expect(await flag.textContent()).toContain('gas SaO₂ 85 % while SpO₂ read 94 %');
     expect(await page.getByTestId('tile-4-11').getByTestId('tile-sentence').textContent()).toContain('Occult hypoxaemia');
+
+    // A correction keeps the original, struck through; the corrected gas no longer shows the flag.
+    await page.goto(`${APP_URL}/patients/${patientId}`);
+    await waitForIsland(page, 'bed-chart');
+    await page.getByTestId('gas-table').waitFor({ timeout: 20_000 });
+    await page.getByTestId('gas-table').locator('tbody tr[data-occult]').first().getByRole('button', { name: /^Correct/ }).click();
+    const fix = page.getByTestId('gas-correct-form');
+    expect(await fix.getByLabel('SaO₂ (%) co-oximetry').inputValue()).toBe('85');
+    await fix.getByLabel('SaO₂ (%) co-oximetry').fill('93');
+    await fix.getByLabel('Reason for the correction').fill('Read the wrong line of the printout');
+    await fix.getByRole('button', { name: 'Save correction' }).click();
+    await page.waitForFunction(() => document.querySelector('[data-testid="gas-table"] tbody tr[data-status="superseded"]') !== null, null, { timeout: 20_000 });
+    expect(await page.getByTestId('gas-table').locator('tbody tr[data-status="superseded"]').first().textContent()).toContain('Read the wrong line of the printout');
+    expect(await page.getByTestId('gas-table').locator('tbody tr[data-status="current"]').first().textContent()).toContain('SaO₂ 93 %');
     await context.close();
   });
 });

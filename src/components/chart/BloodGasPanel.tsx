@@ -7,8 +7,9 @@
 import { useEffect, useId, useState, type FormEvent, type ReactNode } from 'react';
 import useSWR from 'swr';
 import type { BloodGasCreated, BloodGasList, BloodGasView, NearestSpo2 } from '~/lib/bloodgas/api-types.ts';
-import { bloodGasInputSchema, enteredInErrorSchema, SAMPLE_TYPE_LABELS } from '~/lib/bloodgas/bloodgas-input.ts';
-import { BERLIN_WORDS, formatGas, SAMPLE_TYPES, type GasUnit } from '~/lib/bloodgas/compute.ts';
+import { bloodGasCorrectionSchema, bloodGasInputSchema, enteredInErrorSchema, SAMPLE_TYPE_LABELS } from '~/lib/bloodgas/bloodgas-input.ts';
+import { BERLIN_WORDS, formatGas, fromMmHg, SAMPLE_TYPES, type GasUnit } from '~/lib/bloodgas/compute.ts';
+import { formatInTimeZone } from 'date-fns-tz';
 import { clockIn, sampleInstant, unitDayOptions } from '~/lib/bloodgas/sample-time.ts';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
@@ -69,7 +70,7 @@ function OccultMark({ className = '' }: { className?: string }) {
 }
 
 function GasTable({ list, timeZone, canChart, patientId }: { list: BloodGasList; timeZone: string; canChart: boolean; patientId: number }) {
-  const [marking, setMarking] = useState<number | null>(null);
+  const [marking, setMarking] = useState<{ id: number; kind: 'error' | 'correct' } | null>(null);
   const unit = list.gasUnit;
   if (list.bloodGases.length === 0) return <p className="text-sm text-ink-500">No blood gases charted.</p>;
   return (
@@ -86,7 +87,7 @@ function GasTable({ list, timeZone, canChart, patientId }: { list: BloodGasList;
         </thead>
         <tbody>
           {list.bloodGases.map((g) => (
-            <GasRow key={g.id} g={g} unit={unit} timeZone={timeZone} canAct={canChart && g.status === 'current'} marking={marking === g.id} onMark={(on) => setMarking(on ? g.id : null)} patientId={patientId} />
+            <GasRow key={g.id} g={g} unit={unit} timeZone={timeZone} canAct={canChart && g.status === 'current'} marking={marking?.id === g.id ? marking.kind : null} onMark={(kind) => setMarking(kind ? { id: g.id, kind } : null)} patientId={patientId} />
           ))}
         </tbody>
       </table>
@@ -95,7 +96,7 @@ function GasTable({ list, timeZone, canChart, patientId }: { list: BloodGasList;
   );
 }
 
-function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: BloodGasView; unit: GasUnit; timeZone: string; canAct: boolean; marking: boolean; onMark: (on: boolean) => void; patientId: number }) {
+function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: BloodGasView; unit: GasUnit; timeZone: string; canAct: boolean; marking: 'error' | 'correct' | null; onMark: (kind: 'error' | 'correct' | null) => void; patientId: number }) {
   const struck = g.status !== 'current';
   const tone = struck ? 'text-ink-500 line-through decoration-2 dark:text-ink-400' : '';
   const cell = (c: ReactNode) => (struck ? <s>{c}</s> : c);
@@ -128,14 +129,24 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
           {g.status === 'entered_in_error' && <p><strong>Entered in error</strong>{g.statusBy ? ` by ${g.statusBy}` : ''}{g.statusReason ? ` — why: “${g.statusReason}”` : ''}</p>}
           {g.replacesId !== null && <p>corrects an earlier gas</p>}
           {g.note && <p className="italic">Note: {g.note}</p>}
-          {canAct && <button type="button" className="btn-quiet mt-1 px-2 py-0.5 text-xs" aria-expanded={marking} onClick={() => onMark(!marking)}>Entered in error<span className="sr-only">: gas of {formatDayTime(g.sampledAt, timeZone)}</span></button>}
+          {canAct && (
+            <div className="mt-1 flex flex-wrap gap-1">
+              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" aria-expanded={marking === 'correct'} onClick={() => onMark(marking === 'correct' ? null : 'correct')}>Correct<span className="sr-only"> gas of {formatDayTime(g.sampledAt, timeZone)}</span></button>
+              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" aria-expanded={marking === 'error'} onClick={() => onMark(marking === 'error' ? null : 'error')}>Entered in error<span className="sr-only">: gas of {formatDayTime(g.sampledAt, timeZone)}</span></button>
+            </div>
+          )}
         </td>
       </tr>
       {g.sampleType !== 'arterial' && !struck && (
         <tr className="border-b border-ink-100 dark:border-ink-800"><td colSpan={12} className="pb-1 text-xs text-ink-500 dark:text-ink-400">{d.notes.join(' · ')}</td></tr>
       )}
-      {marking && (
-        <tr><td colSpan={12} className="bg-ink-50 p-3 dark:bg-ink-950/40"><GasErrorForm gasId={g.id} patientId={patientId} onDone={() => onMark(false)} /></td></tr>
+      {marking === 'error' && (
+        <tr><td colSpan={12} className="bg-ink-50 p-3 dark:bg-ink-950/40"><GasErrorForm gasId={g.id} patientId={patientId} onDone={() => onMark(null)} /></td></tr>
+      )}
+      {marking === 'correct' && (
+        <tr><td colSpan={12} className="bg-ink-50 p-3 dark:bg-ink-950/40">
+          <div className="max-w-2xl"><GasForm patientId={patientId} timeZone={timeZone} gasUnit={g.enteredUnit} correcting={g} onSaved={() => onMark(null)} onCancel={() => onMark(null)} /></div>
+        </td></tr>
       )}
     </>
   );
@@ -167,21 +178,39 @@ function GasErrorForm({ gasId, patientId, onDone }: { gasId: number; patientId: 
   );
 }
 
-type GasFieldName = 'day' | 'clock' | 'sampleType' | 'gasUnit' | 'ph' | 'pao2' | 'paco2' | 'sao2' | 'hco3' | 'baseExcess' | 'lactate' | 'hb' | 'fio2' | 'spo2AtSample' | 'note';
+type GasFieldName = 'day' | 'clock' | 'sampleType' | 'gasUnit' | 'ph' | 'pao2' | 'paco2' | 'sao2' | 'hco3' | 'baseExcess' | 'lactate' | 'hb' | 'fio2' | 'spo2AtSample' | 'note' | 'reason';
 
-function GasForm({ patientId, timeZone, gasUnit, now, onSaved }: { patientId: number; timeZone: string; gasUnit: GasUnit; now: () => Date; onSaved: (words: string) => void }) {
+interface GasFormProps {
+  patientId: number; timeZone: string; gasUnit: GasUnit; now?: () => Date; onSaved: (words: string) => void;
+  /** Correct this gas instead of charting a new one: prefilled, a reason required; the original is kept. */
+  correcting?: BloodGasView; onCancel?: () => void;
+}
+
+const str = (v: number | null | undefined, dp?: number) => (v === null || v === undefined ? '' : dp === undefined ? String(v) : v.toFixed(dp));
+
+function GasForm({ patientId, timeZone, gasUnit, now = () => new Date(), onSaved, correcting, onCancel }: GasFormProps) {
   const uid = useId();
   const id = (f: string) => `${uid}-${f}`;
   const refresh = useRefreshChart(patientId);
   const days = unitDayOptions(now(), timeZone);
   const blank = (): Record<GasFieldName, string> => ({
-    day: days[0]!.value, clock: clockIn(now(), timeZone), sampleType: 'arterial', gasUnit, ph: '', pao2: '', paco2: '', sao2: '', hco3: '', baseExcess: '', lactate: '', hb: '', fio2: '', spo2AtSample: '', note: '',
+    day: days[0]!.value, clock: clockIn(now(), timeZone), sampleType: 'arterial', gasUnit, ph: '', pao2: '', paco2: '', sao2: '', hco3: '', baseExcess: '', lactate: '', hb: '', fio2: '', spo2AtSample: '', note: '', reason: '',
   });
-  const [v, setV] = useState(blank);
+  const fromGas = (g: BloodGasView): Record<GasFieldName, string> => ({
+    day: formatInTimeZone(new Date(g.sampledAt), timeZone, 'yyyy-MM-dd'), clock: clockIn(new Date(g.sampledAt), timeZone), sampleType: g.sampleType, gasUnit: g.enteredUnit,
+    ph: str(g.ph), pao2: str(fromMmHg(g.pao2MmHg, g.enteredUnit), g.enteredUnit === 'kPa' ? 1 : 0), paco2: str(fromMmHg(g.paco2MmHg, g.enteredUnit), g.enteredUnit === 'kPa' ? 1 : 0),
+    sao2: str(g.sao2), hco3: str(g.hco3), baseExcess: str(g.baseExcess), lactate: str(g.lactate), hb: str(g.hbGdl), fio2: str(Math.round(g.fio2 * 1000) / 10),
+    spo2AtSample: str(g.spo2AtSample), note: g.note ?? '', reason: '',
+  });
+  if (correcting) {
+    const day = formatInTimeZone(new Date(correcting.sampledAt), timeZone, 'yyyy-MM-dd');
+    if (!days.some((d) => d.value === day)) days.push({ value: day, label: formatInTimeZone(new Date(correcting.sampledAt), timeZone, 'd MMM') });
+  }
+  const [v, setV] = useState(() => (correcting ? fromGas(correcting) : blank()));
   const [errors, setErrors] = useState<FieldErrors>({});
   const [alert, setAlert] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
-  const [spo2Touched, setSpo2Touched] = useState(false);
+  const [spo2Touched, setSpo2Touched] = useState(Boolean(correcting));
   const [nearestWords, setNearestWords] = useState<string>('');
 
   // Prefill the pair's SpO₂ from the nearest trusted reading within 2 min of the sample time (editable).
@@ -218,19 +247,29 @@ function GasForm({ patientId, timeZone, gasUnit, now, onSaved }: { patientId: nu
       sampledAt: at.at, sampleType: v.sampleType, gasUnit: v.gasUnit, ph: clean('ph'), pao2: clean('pao2'), paco2: clean('paco2'), sao2: clean('sao2'),
       hco3: clean('hco3'), baseExcess: clean('baseExcess'), lactate: clean('lactate'), hb: clean('hb'), fio2: clean('fio2'), spo2AtSample: clean('spo2AtSample'), note: v.note.trim(),
     };
-    const parsed = bloodGasInputSchema(now()).safeParse(raw);
-    if (!parsed.success) { setErrors(mapTime(zodFieldErrors(parsed.error))); return; }
+    let url = `${chartKeys(patientId).patient}/blood-gases`;
+    let body: unknown;
+    if (correcting) {
+      const parsed = bloodGasCorrectionSchema(now()).safeParse({ reason: v.reason, gas: raw });
+      if (!parsed.success) { setErrors(mapTime(Object.fromEntries(Object.entries(zodFieldErrors(parsed.error)).map(([k, m]) => [k.replace(/^gas\./, ''), m])))); return; }
+      url = `/api/blood-gases/${correcting.id}/correct`;
+      body = { reason: parsed.data.reason, gas: { ...parsed.data.gas, sampledAt: parsed.data.gas.sampledAt.toISOString() } };
+    } else {
+      const parsed = bloodGasInputSchema(now()).safeParse(raw);
+      if (!parsed.success) { setErrors(mapTime(zodFieldErrors(parsed.error))); return; }
+      body = { ...parsed.data, sampledAt: parsed.data.sampledAt.toISOString() };
+    }
     setErrors({});
     setBusy(true);
     try {
-      const res = await postJson<BloodGasCreated>(`${chartKeys(patientId).patient}/blood-gases`, { ...parsed.data, sampledAt: parsed.data.sampledAt.toISOString() });
+      const res = await postJson<BloodGasCreated>(url, body);
       const occult = res.flags.includes('occult_hypoxaemia');
-      onSaved(`Saved: gas of ${formatDayTime(res.bloodGas.sampledAt, timeZone)}${occult ? ' — occult hypoxaemia: SaO₂ under 88 % while SpO₂ read 92 % or more; a bedside task is raised' : ''}`);
+      onSaved(`${correcting ? 'Correction saved; the original stays, struck through' : 'Saved'}: gas of ${formatDayTime(res.bloodGas.sampledAt, timeZone)}${occult ? ' — occult hypoxaemia: SaO₂ under 88 % while SpO₂ read 92 % or more; a bedside task is raised' : ''}`);
       setV(blank());
       setSpo2Touched(false);
       void refresh();
     } catch (err) {
-      if (err instanceof ApiClientError) { setErrors(mapTime(apiFieldErrors(err))); setAlert(`Not saved: ${err.message}`); }
+      if (err instanceof ApiClientError) { setErrors(mapTime(Object.fromEntries(Object.entries(apiFieldErrors(err)).map(([k, m]) => [k.replace(/^gas\./, ''), m])))); setAlert(`Not saved: ${err.message}`); }
       else setAlert(`Not saved: ${errorText(err)}`);
     } finally { setBusy(false); }
   }
@@ -248,8 +287,8 @@ function GasForm({ patientId, timeZone, gasUnit, now, onSaved }: { patientId: nu
   const u = v.gasUnit as GasUnit;
 
   return (
-    <form onSubmit={submit} noValidate aria-label="Chart a blood gas" data-testid="gas-form" className="rounded-md border border-ink-200 p-3 dark:border-ink-700">
-      <h3 className="mb-2 text-base font-bold">Chart a blood gas</h3>
+    <form onSubmit={submit} noValidate aria-label={correcting ? 'Correct a blood gas' : 'Chart a blood gas'} data-testid={correcting ? 'gas-correct-form' : 'gas-form'} className="rounded-md border border-ink-200 p-3 dark:border-ink-700">
+      <h3 className="mb-2 text-base font-bold">{correcting ? `Correct the gas of ${formatDayTime(correcting.sampledAt, timeZone)}` : 'Chart a blood gas'}</h3>
       <div className="grid grid-cols-2 gap-x-3 gap-y-2">
         <div>
           <label htmlFor={id('day')} className="block text-sm font-bold">Sample day</label>
@@ -285,9 +324,13 @@ function GasForm({ patientId, timeZone, gasUnit, now, onSaved }: { patientId: nu
           <label htmlFor={id('note')} className="block text-sm font-bold">Note</label>
           <input id={id('note')} name="note" className="field" type="text" autoComplete="off" value={v.note} onChange={(e) => set('note', e.target.value)} />
         </div>
+        {correcting && <div className="col-span-2">{input('reason', 'Reason for the correction', { mode: 'text' })}</div>}
       </div>
       {alert && <p role="alert" className="mt-2 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200">{alert}</p>}
-      <button type="submit" className="btn-primary mt-3" disabled={busy}>{busy ? 'Saving…' : 'Save blood gas'}</button>
+      <div className="mt-3 flex gap-2">
+        <button type="submit" className="btn-primary" disabled={busy}>{busy ? 'Saving…' : correcting ? 'Save correction' : 'Save blood gas'}</button>
+        {onCancel && <button type="button" className="btn-quiet" onClick={onCancel}>Cancel</button>}
+      </div>
     </form>
   );
 }

@@ -6,6 +6,7 @@ import { formatMinutes, stateWords } from '~/lib/board/tiles.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { KIND_LABELS, type EscalationKind } from '~/lib/escalations/decide.ts';
+import { formatClock } from '~/lib/time/format.ts';
 
 interface Props { initial: BoardResponse; me: { id: number; role: string }; pollMs?: number }
 
@@ -121,7 +122,7 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
         {tile.occultHypoxaemia && (
           <p className="mt-2 flex items-start gap-1 rounded border-2 border-coral-600 bg-white px-2 py-1 text-sm font-bold text-coral-800 dark:border-coral-300 dark:bg-ink-900 dark:text-coral-200" data-testid="tile-occult">
             <svg width="16" height="16" viewBox="0 0 24 24" aria-hidden="true" className="mt-0.5 shrink-0"><path d="M12 3l10 18H2z" fill="none" stroke="currentColor" strokeWidth="3" strokeLinejoin="round" /></svg>
-            <span>Occult hypoxaemia · gas SaO₂ {tile.occultHypoxaemia.sao2} % while SpO₂ read {tile.occultHypoxaemia.spo2AtSample} % ({timeIn(tile.occultHypoxaemia.sampledAt, zone).slice(0, 5)}) · {tile.occultHypoxaemia.state}</span>
+            <span>Occult hypoxaemia · gas SaO₂ {tile.occultHypoxaemia.sao2} % while SpO₂ read {tile.occultHypoxaemia.spo2AtSample} % ({formatClock(tile.occultHypoxaemia.sampledAt, zone)}) · {tile.occultHypoxaemia.state}</span>
           </p>
         )}
         {tile.escalation && (

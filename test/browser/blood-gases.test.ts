@@ -22,7 +22,7 @@ describe('blood gases in a real browser', () => {
     await signInThroughForm(page, 'nurse@harbourside.example');
     await page.goto(`${APP_URL}/patients/${patientId}`);
     await waitForIsland(page, 'bed-chart');
-    await page.getByTestId('gas-form').waitFor({ timeout: 20_000 });
+    await waitForIsland(page, 'gas-form');
     const form = page.getByTestId('gas-form');
     await form.getByLabel('SpO₂ on the monitor (%)').fill('94');
     await form.getByLabel('pH').fill('7.34');
@@ -52,7 +52,7 @@ describe('blood gases in a real browser', () => {
     // A correction keeps the original, struck through; the corrected gas no longer shows the flag.
     await page.goto(`${APP_URL}/patients/${patientId}`);
     await waitForIsland(page, 'bed-chart');
-    await page.getByTestId('gas-table').waitFor({ timeout: 20_000 });
+    await waitForIsland(page, 'gas-table');
     await page.getByTestId('gas-table').locator('tbody tr[data-occult]').first().getByRole('button', { name: /^Correct/ }).click();
     const fix = page.getByTestId('gas-correct-form');
     expect(await fix.getByLabel('SaO₂ (%) co-oximetry').inputValue()).toBe('85');

@@ -17,7 +17,7 @@ import ObsEntryForm from './ObsEntryForm.tsx';
 import ObsRecordTable from './ObsRecordTable.tsx';
 import SaturationChart from './SaturationChart.tsx';
 import TargetOrderPanel from './TargetOrderPanel.tsx';
-import BloodGasPanel, { GasBias } from './BloodGasPanel.tsx';
+import { GasBias } from './BloodGasPanel.tsx';
 import { DEFAULT_WINDOW_HOURS, POLL_MS, chartKeys, errorText, formatDateTime, useRefreshChart, type WindowHours } from './chart-shared.tsx';
 
 export interface BedChartPageProps {
@@ -84,10 +84,6 @@ export default function BedChartPage({ patientId, initial, chartSize }: BedChart
         <div className={`panel min-w-0 ${patient.can.chart ? 'xl:col-span-2' : 'xl:col-span-3'}`}>
           <ObsRecordTable patientId={patientId} timeZone={tz} canChart={patient.can.chart} orders={patient.orders} lastCharted={patient.lastCharted} />
         </div>
-      </div>
-
-      <div className="panel">
-        <BloodGasPanel patientId={patientId} timeZone={tz} canChart={patient.can.chart || patient.can.order} />
       </div>
 
       <div className="panel">

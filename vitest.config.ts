@@ -12,6 +12,8 @@ export default getViteConfig({
           name: 'unit',
           include: ['src/**/*.test.{ts,tsx}'],
           environment: 'node',
+          // React island tests render recharts in jsdom: seconds each on a loaded 2-core machine.
+          testTimeout: 20_000,
         },
       },
       {
@@ -32,6 +34,16 @@ export default getViteConfig({
           environment: 'node',
           testTimeout: 60_000,
           hookTimeout: 120_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          // The short cluster drill: starts its own Galera cluster, HAProxy and app instances.
+          name: 'cluster',
+          include: ['test/cluster/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 15 * 60_000,
         },
       },
     ],

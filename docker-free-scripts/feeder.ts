@@ -5,6 +5,12 @@
  * It makes one device key per monitored demo bed at start (audited, actor "system"), revoking the
  * keys of its previous run; the keys stay in this process's memory and are never printed.
  * Each bed carries on from its patient's latest device readings (a desaturating patient stays low).
+ *
+ * It plays until Ctrl-C (SIGINT/SIGTERM): its wait timer holds the process open (an unref'd timer
+ * let Node exit after the first cycle once the database pool was idle). Failures are reported —
+ * the first of a run and then every 20th — and it recovers by itself: when the database is down at
+ * start it retries the set-up, when the app is away the readings of the missed cycles are sent
+ * once it answers again, and when its keys are refused (another feeder took over) it sets up anew.
  */
 import { createDeviceKey, revokeKey } from '../src/lib/server/devices/keys.ts';
 import { closeDb, db } from '../src/lib/server/queries/db.ts';
@@ -13,7 +19,7 @@ import { liveKeyIdsLabelled, occupiedBedsWithDeviceReadings, recentDeviceReading
 const APP_URL = process.env.APP_URL ?? `http://127.0.0.1:${process.env.PORT ?? 4321}`;
 const LABEL = 'demo feeder';
 const STEP_MS = 5_000;
-const CYCLE_MS = 15_000;
+const CYCLE_MS = Number(process.env.EBB_FEEDER_CYCLE_MS ?? 15_000);
 const UNITS = (process.env.EBB_FEEDER_UNITS ?? 'L4ICU,L5HDU').split(',');
 
 interface BedFeed { bedLabel: string; key: string; level: number; spo2: number; hr: number; pi: number; lastAt: number; motionUntil: number }
@@ -60,37 +66,74 @@ function nextReadings(f: BedFeed, until: number) {
   return out;
 }
 
-async function cycle(feeds: BedFeed[]) {
-  let stored = 0;
+interface CycleResult { stored: number; failures: string[]; keysRefused: boolean }
+
+async function cycle(feeds: BedFeed[]): Promise<CycleResult> {
+  const result: CycleResult = { stored: 0, failures: [], keysRefused: false };
   for (const f of feeds) {
+    const lastAt = f.lastAt;
+    const state = { spo2: f.spo2, hr: f.hr, motionUntil: f.motionUntil };
     const readings = nextReadings(f, Date.now());
     if (readings.length === 0) continue;
     try {
       const res = await fetch(`${APP_URL}/api/ingest`, {
         method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${f.key}` }, body: JSON.stringify({ readings: readings.slice(-3600) }),
       });
-      const body = (await res.json()) as { stored?: number; error?: { message: string } };
-      if (!res.ok) log(`bed ${f.bedLabel}: ${res.status} ${body.error?.message ?? ''}`);
-      else stored += body.stored ?? 0;
+      const body = (await res.json().catch(() => ({}))) as { stored?: number; error?: { message: string } };
+      if (res.ok) { result.stored += body.stored ?? 0; continue; }
+      result.failures.push(`bed ${f.bedLabel}: ${res.status} ${body.error?.message ?? ''}`);
+      if (res.status === 401) result.keysRefused = true;
     } catch (err) {
-      log(`bed ${f.bedLabel}: ${(err as Error).message}`);
+      result.failures.push(`bed ${f.bedLabel}: ${(err as Error).message}`);
     }
+    // Not stored: play the same span again next cycle (a gap of hours is trimmed to the newest 3,600).
+    Object.assign(f, state, { lastAt });
   }
-  return stored;
+  return result;
 }
 
 let stopping = false;
-const stop = () => { stopping = true; };
+let wake: (() => void) | null = null;
+const stop = () => { stopping = true; wake?.(); };
 process.on('SIGTERM', stop);
 process.on('SIGINT', stop);
+/** Waits `ms` — a timer that holds the process open — or less when asked to stop. */
+const pause = (ms: number) => new Promise<void>((r) => {
+  const t = setTimeout(() => { wake = null; r(); }, ms);
+  wake = () => { clearTimeout(t); wake = null; r(); };
+});
 
-const feeds = await setUp();
-log(`playing readings into ${feeds.length} beds (${feeds.map((f) => f.bedLabel).join(', ')}) every ${CYCLE_MS / 1000} s`);
-let cycles = 0;
-while (!stopping) {
-  const stored = await cycle(feeds);
-  if (++cycles % 20 === 1) log(`cycle ${cycles}: ${stored} readings stored`);
-  await new Promise((r) => setTimeout(r, CYCLE_MS).unref());
-  if (stopping) break;
+async function setUpUntilReady(): Promise<BedFeed[] | null> {
+  for (let attempt = 1; !stopping; attempt++) {
+    try {
+      return await setUp();
+    } catch (err) {
+      if (attempt === 1 || attempt % 20 === 0) log(`cannot set up (attempt ${attempt}), retrying every ${CYCLE_MS / 1000} s: ${(err as Error).message}`);
+      await pause(CYCLE_MS);
+    }
+  }
+  return null;
 }
+
+let feeds = await setUpUntilReady();
+if (feeds) log(`playing readings into ${feeds.length} beds (${feeds.map((f) => f.bedLabel).join(', ')}) every ${CYCLE_MS / 1000} s until Ctrl-C`);
+let cycles = 0;
+let failingSince = 0;
+while (feeds && !stopping) {
+  const { stored, failures, keysRefused } = await cycle(feeds);
+  cycles += 1;
+  if (failures.length) {
+    failingSince += 1;
+    if (failingSince === 1 || failingSince % 20 === 0) log(`cycle ${cycles}: ${failures.length} of ${feeds.length} beds failed (${failingSince} cycle(s) in a row): ${failures.slice(0, 3).join('; ')}`);
+  } else if (failingSince) {
+    log(`cycle ${cycles}: recovered after ${failingSince} failing cycle(s); ${stored} readings stored`);
+    failingSince = 0;
+  } else if (cycles % 20 === 1) log(`cycle ${cycles}: ${stored} readings stored`);
+  if (keysRefused && !stopping) {
+    log('keys refused: setting up again');
+    feeds = await setUpUntilReady();
+  }
+  if (!stopping) await pause(CYCLE_MS);
+}
+log('stopped');
 await closeDb();

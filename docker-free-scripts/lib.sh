@@ -62,11 +62,13 @@ start_mariadb() {
     sleep 0.2
   done
   mariadb --no-defaults --socket="$DB_SOCKET" -uroot -e 'select 1' >/dev/null 2>&1 || { tail -20 "$dir/error.log"; die "MariaDB did not start"; }
-  MARIADB_PID="$(cat "$pidfile")"
+  MARIADB_PID="$(cat "$pidfile")"; MARIADB_PIDFILE="$pidfile"
 }
 
 stop_mariadb() {
   [ -n "${MARIADB_STARTED_HERE:-}" ] && [ -n "${MARIADB_PID:-}" ] || return 0
+  # A fault test may have stopped and restarted the server: stop the one the pid file names now.
+  if [ -n "${MARIADB_PIDFILE:-}" ] && [ -f "$MARIADB_PIDFILE" ]; then MARIADB_PID="$(cat "$MARIADB_PIDFILE")"; fi
   log "stopping MariaDB"
   kill "$MARIADB_PID" 2>/dev/null || true
   for _ in $(seq 1 100); do kill -0 "$MARIADB_PID" 2>/dev/null || return 0; sleep 0.1; done

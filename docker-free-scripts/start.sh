@@ -58,7 +58,16 @@ HOST=127.0.0.1 PORT="$APP_PORT" node dist/server/entry.mjs &
 APP_PID=$!
 wait_for_http "http://127.0.0.1:$APP_PORT/api/health" 60 || die "the app did not answer"
 
-# The demo feeder plays invented monitor readings into the demo beds through POST /api/ingest.
+# The HL7 v2 MLLP listener (its own process; EBB_MLLP=off skips it, e.g. on a second app host).
+export EBB_MLLP_PORT="${EBB_MLLP_PORT:-2575}" EBB_MLLP_HOST="${EBB_MLLP_HOST:-127.0.0.1}"
+if [ "${EBB_MLLP:-on}" != "off" ]; then
+  log "HL7 v2 (MLLP) listener on $EBB_MLLP_HOST:$EBB_MLLP_PORT"
+  node --import tsx docker-free-scripts/mllp.ts >var/mllp.log 2>&1 &
+  EXTRA_PIDS="${EXTRA_PIDS:-} $!"
+fi
+
+# The demo feeder plays invented monitor readings into the demo beds through POST /api/ingest,
+# or through the MLLP listener as HL7 v2 ORU^R01 with EBB_FEEDER_VIA=mllp.
 if [ "${EBB_FEEDER:-on}" != "off" ]; then
   APP_URL="http://127.0.0.1:$APP_PORT" node --import tsx docker-free-scripts/feeder.ts &
   EXTRA_PIDS="${EXTRA_PIDS:-} $!"

@@ -7,10 +7,12 @@
 TEST_DB_PORT="${EBB_TEST_DB_PORT:-3417}"
 TEST_APP_PORT="${EBB_TEST_APP_PORT:-4399}"
 TEST_DB_NAME="test-db-$TEST_DB_PORT"
+# The fault tests stop and restart this server by its pid file.
+export EBB_TEST_DB_DIR="$EBB_ROOT/var/$TEST_DB_NAME"
 export EBB_OUT_DIR="${EBB_OUT_DIR:-dist}"
 RESULTS="$EBB_ROOT/var/test-results-$TEST_APP_PORT"
 
-apt_install mariadb-server mariadb-client chromium
+apt_install mariadb-server mariadb-client chromium poppler-utils galera-4 rsync haproxy
 ensure_node_modules
 
 export AUTH_SECRET="test-secret-$(node -e 'console.log(require("crypto").randomBytes(16).toString("hex"))')"
@@ -18,6 +20,8 @@ export DB_HOST=127.0.0.1 DB_PORT="$TEST_DB_PORT" DB_USER=ebbwatch_test DB_PASSWO
 export MIGRATIONS_DB_NAME=ebbwatch_migrations_test
 export APP_URL="http://127.0.0.1:$TEST_APP_PORT"
 export PUBLIC_ORIGIN="$APP_URL"
+# Tests stand in for callers at different addresses with X-Forwarded-For (sign-in throttling per address).
+export EBB_TRUST_PROXY=1
 export CHROMIUM_PATH="${CHROMIUM_PATH:-/usr/bin/chromium}"
 export EBB_SWEEP_INTERVAL_MS="${EBB_SWEEP_INTERVAL_MS:-1000}"
 export EBB_OUTBOX_INTERVAL_MS="${EBB_OUTBOX_INTERVAL_MS:-300}" EBB_MAIL_RETRY_BASE_MS="${EBB_MAIL_RETRY_BASE_MS:-1000}"
@@ -25,6 +29,8 @@ export EBB_OUTBOX_INTERVAL_MS="${EBB_OUTBOX_INTERVAL_MS:-300}" EBB_MAIL_RETRY_BA
 export SMTP_FAKE_PORT=$((TEST_APP_PORT + 1100)) SMTP_FAKE_HTTP_PORT=$((TEST_APP_PORT + 1101))
 export SMTP_FAKE_DIR="$EBB_ROOT/var/smtp-fake-$TEST_APP_PORT"
 export SMTP_URL="smtp://127.0.0.1:$SMTP_FAKE_PORT" SMTP_FAKE_API_URL="http://127.0.0.1:$SMTP_FAKE_HTTP_PORT"
+# The HL7 v2 MLLP listener: its port follows the app port too.
+export EBB_MLLP_PORT=$((TEST_APP_PORT + 1200)) EBB_MLLP_HOST=127.0.0.1
 
 cleanup() {
   local code=$?
@@ -52,6 +58,15 @@ wait_for_http "$SMTP_FAKE_API_URL/health" 30 || { cat "var/smtp-fake-$TEST_APP_P
 log "migrating and seeding the test database"
 npm run --silent migrate
 node --import tsx docker-free-scripts/seed-if-empty.ts
+
+# The MLLP listener is its own process (see docker-free-scripts/mllp.ts); it needs the migrated database.
+node --import tsx docker-free-scripts/mllp.ts >"var/mllp-$TEST_APP_PORT.log" 2>&1 &
+EXTRA_PIDS="${EXTRA_PIDS:-} $!"
+for _ in $(seq 1 100); do
+  grep -q "HL7 v2 listener on" "var/mllp-$TEST_APP_PORT.log" 2>/dev/null && break
+  sleep 0.2
+done
+grep -q "HL7 v2 listener on" "var/mllp-$TEST_APP_PORT.log" || { cat "var/mllp-$TEST_APP_PORT.log"; die "the MLLP listener did not start"; }
 
 
 start_test_app() {

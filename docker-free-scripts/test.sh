@@ -21,6 +21,8 @@ start_test_app
 
 run_project integration || status=1
 run_project browser || status=1
+# Last: the short cluster drill (its own Galera cluster and app instances, reusing this build).
+run_project cluster || status=1
 
 # One closing line over all projects, in the plain form CI reads.
 node -e '

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { rebuildAllRollups } from '../../src/lib/server/queries/rollup.ts';
 import bcrypt from 'bcryptjs';
 import {
   DEMO_HOSPITAL, DEMO_PASSWORD, demoBloodGases, demoPatients, demoUnits, demoUsers, generateDemoObservations,
@@ -95,6 +96,7 @@ export async function seed(knex: Knex): Promise<void> {
         });
       }
     }
+    await rebuildAllRollups(trx); // the per-minute rollup every writer keeps, here in one pass
     console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length} patients, ${rows.length} obs`);
   });
 }

@@ -1,6 +1,6 @@
 /**
  * Time from the obs POST that triggers a below-band escalation to its mail arriving in the SMTP
- * fake, 20 runs, median printed (wanted: under 5 s). Runs with the production outbox cadence
+ * fake, 20 runs, median printed (wanted: under 0.5 s — the worker is woken in-process on commit). Runs with the production outbox cadence
  * (EBB_OUTBOX_INTERVAL_MS 2000) unless bench.sh is told otherwise. Figures only.
  *
  * Run through `npm run bench -- escalation-mail`.
@@ -43,5 +43,5 @@ for (let run = 0; run < RUNS; run++) {
 }
 times.sort((a, b) => a - b);
 const median = (times[(RUNS - 1) >> 1]! + times[RUNS >> 1]!) / 2;
-console.log(`obs POST → mail in the SMTP fake, ${RUNS} runs: median ${(median / 1000).toFixed(2)} s · min ${(times[0]! / 1000).toFixed(2)} s · max ${(times[RUNS - 1]! / 1000).toFixed(2)} s (wanted: median under 5 s; outbox polled every ${process.env.EBB_OUTBOX_INTERVAL_MS ?? 2000} ms)`);
+console.log(`obs POST → mail in the SMTP fake, ${RUNS} runs: median ${(median / 1000).toFixed(2)} s · min ${(times[0]! / 1000).toFixed(2)} s · max ${(times[RUNS - 1]! / 1000).toFixed(2)} s (wanted: median ≤ 0.5 s; the worker is woken when the transaction commits; poll backstop every ${process.env.EBB_OUTBOX_INTERVAL_MS ?? 2000} ms)`);
 await db.destroy();

@@ -39,7 +39,7 @@ describe('blood gases in a real browser', () => {
     expect(await row.textContent()).toContain('SaO₂ 85 %');
     expect(await row.textContent()).toContain('SpO₂ 94 %');
     expect(await row.textContent()).toContain('Occult hypoxaemia');
-    await page.waitForFunction(() => document.querySelector('[data-testid="chart-area"] [data-mark="sao2-occult"]') !== null, null, { timeout: 30_000 });
+    await page.waitForFunction(() => document.querySelector('[data-testid="chart-area"] [data-mark="extra"][data-flag="occult hypoxaemia"]') !== null, null, { timeout: 30_000 });
     await page.waitForFunction(() => document.querySelector('[data-testid="patient-escalations"]')?.textContent?.includes('Occult hypoxaemia'), null, { timeout: 30_000 });
     expect(await page.getByTestId('gas-bias').textContent()).toMatch(/9 points above/);
 

@@ -50,7 +50,10 @@ describe('outreach queue in a real browser', () => {
     await row.waitFor({ state: 'detached', timeout: 15_000 });
 
     await page.goto(`${APP_URL}/board?unit=L4ICU`);
-    expect(await page.getByTestId('tile-4-01').getByTestId('tile-escalation').count()).toBe(0);
+    // The below-band escalation is gone from the tile. (A probe check may stand in its place: the seeded
+    // monitor readings stop when the seed ran, and silence right after below-band readings asks for one.)
+    const strip = page.getByTestId('tile-4-01').getByTestId('tile-escalation');
+    if (await strip.count()) expect(await strip.textContent()).toMatch(/^Probe check/);
     await context.close();
   });
 });

@@ -84,6 +84,37 @@ describe('monitor trend file upload on the bed chart', () => {
   });
 });
 
+describe('trend upload: a column that does not fit (issue 10 point 10)', () => {
+  it('names the column, offers to leave it unmapped, and groups refused lines by reason', async () => {
+    const end = Date.now() - 6 * 3_600_000;
+    const lines = ['Time,SpO2,HR,Signal'];
+    for (let i = 0; i < 30; i++) lines.push(`${new Date(end - (29 - i) * 60_000).toISOString()},${i < 3 ? 140 : 95},80,ok`);
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInThroughForm(page, nurse.email, nurse.password);
+    await page.goto(`${APP_URL}/patients/${patientId}`);
+    const section = page.getByTestId('trend-upload');
+    await section.scrollIntoViewIfNeeded();
+    await waitForIsland(page, 'trend-upload');
+    await page.getByTestId('trend-file').setInputFiles({ name: 'signal-ok.csv', mimeType: 'text/csv', buffer: Buffer.from(`${lines.join('\n')}\n`) });
+    expect(await page.getByLabel('Trace quality column').inputValue()).toBe('Signal');
+    await page.getByRole('button', { name: 'Preview' }).click();
+    const unfit = page.getByTestId('unfit-column');
+    await unfit.waitFor({ timeout: 20_000 });
+    expect(await unfit.textContent()).toContain('Column “Signal”, mapped as trace quality, does not fit: 27 of 30 rows were refused for its values (such as “ok”)');
+    const groups = await page.getByTestId('refused-groups').textContent();
+    expect(groups).toContain('quality is not one of clean, weak, noisy, absent275, 6, 7, 8, 9, …');
+    expect(groups).toContain('SpO₂ over 100 %32, 3, 4');
+    await page.getByRole('button', { name: 'Leave “Signal” unmapped' }).click();
+    expect(await page.getByLabel('Trace quality column').inputValue()).toBe('');
+    await page.getByRole('button', { name: 'Preview' }).click();
+    await page.getByTestId('trend-preview').waitFor({ timeout: 20_000 });
+    expect(await page.getByTestId('preview-to-store').textContent()).toBe('27');
+    expect(await page.getByTestId('unfit-column').count()).toBe(0);
+    await context.close();
+  });
+});
+
 describe('device keys page', () => {
   it('an admin makes a key for a bed, sees it once, and revokes it', async () => {
     const context = await browser.newContext();

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let browser: Browser;
@@ -25,7 +25,7 @@ describe('pleth strip check page', () => {
     await signInThroughForm(page, 'intensivist@harbourside.example');
     await page.getByTestId('main-nav').getByRole('link', { name: 'Strip check' }).click();
     await page.waitForURL(`${APP_URL}/pleth`);
-    await page.locator('astro-island:not([ssr])').first().waitFor();
+    await waitForIsland(page, 'strip-file'); // the header's search is an island too: wait for this page's own
 
     expect(await verdictOf(page, 'Clean trace', 'clean.csv', 'trustworthy')).toContain('Trustworthy');
     expect(await page.getByTestId('pleth-figures').textContent()).toMatch(/SpO₂ from the curve9[67]\.\d %/);
@@ -53,7 +53,7 @@ describe('pleth strip check page', () => {
     const page = await context.newPage();
     await signInThroughForm(page, nurse.email, nurse.password);
     await page.goto(`${APP_URL}/pleth?patient=${pid}`);
-    await page.locator('astro-island:not([ssr])').first().waitFor();
+    await waitForIsland(page, 'strip-file'); // the header's search is an island too: wait for this page's own
 
     await page.getByTestId('strip-file').setInputFiles({ name: 'broken.csv', mimeType: 'text/csv', buffer: Buffer.from('time,red,infrared,dark\n0,1,1,0\n0.01,x,1,0\n') });
     expect(await page.getByTestId('strip-problem').textContent()).toContain('line 3: red "x" is not a number');

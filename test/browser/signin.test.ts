@@ -10,11 +10,11 @@ afterAll(async () => { await browser?.close(); });
 
 // What each demo role must see in its navigation (and must not).
 const expectations: Record<string, { sees: string[]; not: string[] }> = {
-  nurse: { sees: ['Units'], not: ['Users'] },
-  charge: { sees: ['Units'], not: ['Users'] },
-  intensivist: { sees: ['Units'], not: ['Users'] },
-  outreach: { sees: ['Units'], not: ['Users'] },
-  admin: { sees: ['Users'], not: ['Units'] },
+  nurse: { sees: ['Units', 'My account'], not: ['Staff', 'Audit'] },
+  charge: { sees: ['Units'], not: ['Staff', 'Audit'] },
+  intensivist: { sees: ['Units'], not: ['Staff', 'Audit'] },
+  outreach: { sees: ['Units'], not: ['Staff', 'Audit'] },
+  admin: { sees: ['Staff', 'Units and beds', 'Audit', 'My account'], not: ['Ward board', 'Outreach queue'] },
 };
 
 describe('signing in through the real form', () => {

@@ -75,7 +75,7 @@ describe('GET /api/board', () => {
     const order = board.tiles.map((t: { bedLabel: string }) => t.bedLabel);
     expect(order).toEqual(['F-1', 'F-3', 'F-4', 'F-5', 'F-6', 'F-2', 'F-7', 'F-8']);
     const by = Object.fromEntries(board.tiles.map((t: { bedLabel: string }) => [t.bedLabel, t]));
-    expect(by['F-1'].state).toEqual({ name: 'below', sinceMin: 18 });
+    expect(by['F-1'].state).toMatchObject({ name: 'below', sinceMin: 18 });
     expect(by['F-1'].concern.reason).toBe('Below band 18 min');
     expect(by['F-3'].concern.key).toBe('cannot_verify');
     expect(by['F-3'].concerns.belowBand).toBeNull();

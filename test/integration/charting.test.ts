@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, testDb, unique } from '../support/db.ts';
+import { countRows, createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
 let db: Knex;
@@ -265,6 +265,7 @@ describe('series for the bed chart', () => {
       rows.push({ patient_id: id, taken_at: new Date(t), source: 'device', spo2: dip ? 85 : 94, heart_rate: 80, trace: 'clean' });
     }
     for (let i = 0; i < rows.length; i += 5000) await db('observations').insert(rows.slice(i, i + 5000));
+    await rebuildPatientRollup(db, id);
   });
 
   it('downsamples 72 h to at most 1,500 points a line and keeps the band steps', async () => {

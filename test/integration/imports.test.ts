@@ -78,7 +78,7 @@ describe('trend file upload: preview and commit', () => {
     const { preview } = await res.json();
     expect(preview).toMatchObject({ rowCount: 120, readable: 119, toStore: 119, fileName: 'bed-monitor-export.csv', timeZone: 'Europe/London' });
     expect(preview.span).toEqual({ first: new Date(start).toISOString(), last: new Date(start + 119 * 60_000).toISOString() });
-    expect(preview.refused).toEqual({ count: 1, rows: [{ line: 9, reason: 'SpO₂ "n/a" is not a number' }] });
+    expect(preview.refused).toMatchObject({ count: 1, rows: [{ line: 9, reason: 'SpO₂ "n/a" is not a number' }], groups: [{ reason: 'SpO₂ is not a number', field: 'spo2', count: 1, firstLines: [9] }] });
     expect(preview.headers).toEqual(['Signal', 'Pulse', 'Bed', 'Recorded', 'PI', 'Sat %']);
     expect(await countRows(db, 'observations')).toBe(obsBefore);
     expect(await countRows(db, 'observation_imports')).toBe(impBefore);
@@ -182,7 +182,7 @@ describe('trend file upload: unit local time across daylight-saving changes (Eur
   it('refuses the spring hour that does not exist, with line numbers, and stores the rest', async () => {
     const csv = tag('Time,SpO2,HR\n29/03/2026 00:58:00,96,70\n29/03/2026 00:59:00,96,70\n29/03/2026 01:00:00,96,70\n29/03/2026 01:59:00,96,70\n29/03/2026 02:00:00,96,70\n');
     const { preview } = await (await upload(s.nurse, patientId, 'preview', csv, local)).json();
-    expect(preview.refused.rows).toEqual([
+    expect(preview.refused.rows).toMatchObject([
       { line: 4, reason: 'time 2026-03-29 01:00:00 does not exist in Europe/London (the clocks went forward)' },
       { line: 5, reason: 'time 2026-03-29 01:59:00 does not exist in Europe/London (the clocks went forward)' },
     ]);

@@ -124,7 +124,9 @@ describe('POST /api/ingest', () => {
     expect(again).toMatchObject({ received: 20, stored: 0, duplicates: 20 });
     expect(again.message).toMatch(/20 already stored/);
     // Half old, half new; and one time twice inside the batch.
-    const mixed = [...batch.slice(10), ...readings(10, 2_900_000), readings(10, 2_900_000)[0]];
+    // (One call: two calls of readings() a millisecond apart would give two different times.)
+    const fresh = readings(10, 2_900_000);
+    const mixed = [...batch.slice(10), ...fresh, fresh[0]];
     expect(await (await send(key, { readings: mixed })).json()).toMatchObject({ received: 21, stored: 10, duplicates: 11 });
     const times = (await deviceRows(patientId).select('taken_at')).map((r) => new Date(r.taken_at).getTime());
     expect(new Set(times).size).toBe(times.length);

@@ -2,6 +2,10 @@
 import knexFactory, { type Knex } from 'knex';
 import bcrypt from 'bcryptjs';
 import { connectionFromEnv } from '../../knexfile.ts';
+import { rebuildPatientRollup } from '../../src/lib/server/queries/rollup.ts';
+
+/** Fixtures that insert readings straight into the table rebuild the patient's per-minute rollup (the app's writers keep it). */
+export { rebuildPatientRollup };
 
 export function testDb(database = process.env.DB_NAME): Knex {
   return knexFactory(connectionFromEnv({ ...process.env, DB_NAME: database, DB_POOL_MAX: '4' }));

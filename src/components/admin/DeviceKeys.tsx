@@ -1,14 +1,16 @@
 import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { formatDateTime } from '~/lib/time/format.ts';
 import type { DeviceKeyView } from '~/lib/server/devices/keys.ts';
 
 interface ListResponse { keys: DeviceKeyView[]; beds: { id: number; label: string; unitCode: string; unitName: string }[] }
 
-const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString('en-GB') : '—');
+const whenIn = (timeZone: string) => (iso: string | null) => (iso ? formatDateTime(iso, timeZone) : '—');
 
 /** Admin: device keys for bedside-monitor gateways (one bed each); a new key is shown once. */
-export default function DeviceKeys() {
+export default function DeviceKeys({ timeZone }: { timeZone: string }) {
+  const when = whenIn(timeZone);
   const { data, error, mutate } = useSWR<ListResponse>('/api/admin/device-keys', fetchJson);
   const [bedId, setBedId] = useState('');
   const [label, setLabel] = useState('');

@@ -1,13 +1,14 @@
 import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson } from '~/lib/client/fetch-json.ts';
+import { formatDateTimeSeconds } from '~/lib/time/format.ts';
 
 interface OutboxItem { id: number; key: string; to: string; subject: string; status: string; attempts: number; lastError: string | null; createdAt: string; sentAt: string | null; nextAttemptAt: string; text: string }
 interface Received { id: number; receivedAt: string; messageId: string | null; key: string | null; from: string; to: string[]; subject: string; text: string; html: string }
 interface MailOverview { outbox: OutboxItem[]; received: Received[] | null; receivedError: string | null; smtpFake: boolean }
 
 /** The mail outbox, and what the development SMTP fake received — newest first, each mail whole. */
-export default function MailBox() {
+export default function MailBox({ timeZone }: { timeZone: string }) {
   const { data, error } = useSWR<MailOverview>('/api/admin/mail', fetchJson, { refreshInterval: 10_000 });
   const [open, setOpen] = useState<string | null>(null);
   if (error) return <p role="alert">Could not load mail: {(error as Error).message}</p>;
@@ -22,7 +23,7 @@ export default function MailBox() {
             <li key={m.id} className="py-2">
               <button className="text-left" onClick={() => setOpen(open === `o${m.id}` ? null : `o${m.id}`)} aria-expanded={open === `o${m.id}`}>
                 <span className="font-bold">{m.subject}</span>
-                <span className="block text-sm text-ink-600 dark:text-ink-300">to {m.to} · {m.status}{m.status === 'sent' ? ` ${new Date(m.sentAt!).toLocaleString()}` : ` · attempts ${m.attempts}${m.lastError ? ` · last error: ${m.lastError}` : ''}`}</span>
+                <span className="block text-sm text-ink-600 dark:text-ink-300">to {m.to} · {m.status}{m.status === 'sent' ? ` ${formatDateTimeSeconds(m.sentAt!, timeZone)}` : ` · attempts ${m.attempts}${m.lastError ? ` · last error: ${m.lastError}` : ''}`}</span>
               </button>
               {open === `o${m.id}` && <pre className="mt-2 whitespace-pre-wrap rounded bg-ink-50 p-2 text-sm dark:bg-ink-950">{m.text}</pre>}
             </li>
@@ -40,7 +41,7 @@ export default function MailBox() {
               <li key={m.id} className="py-2">
                 <button className="text-left" onClick={() => setOpen(open === `r${m.id}` ? null : `r${m.id}`)} aria-expanded={open === `r${m.id}`}>
                   <span className="font-bold">{m.subject}</span>
-                  <span className="block text-sm text-ink-600 dark:text-ink-300">{new Date(m.receivedAt).toLocaleString()} · to {m.to.join(', ')}</span>
+                  <span className="block text-sm text-ink-600 dark:text-ink-300">{formatDateTimeSeconds(m.receivedAt, timeZone)} · to {m.to.join(', ')}</span>
                 </button>
                 {open === `r${m.id}` && <pre className="mt-2 whitespace-pre-wrap rounded bg-ink-50 p-2 text-sm dark:bg-ink-950">{`From: ${m.from}\nTo: ${m.to.join(', ')}\nMessage-ID: ${m.messageId}\nSubject: ${m.subject}\n\n${m.text}`}</pre>}
               </li>

@@ -2,10 +2,10 @@ import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
-interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; outreachEmails: string[]; gasUnit: 'kPa' | 'mmHg'; barometricMmHg: number }
+interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null; gasUnit: 'kPa' | 'mmHg'; barometricMmHg: number }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
 
-const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'gasUnit'>, string, string][] = [
+const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone' | 'gasUnit'>, string, string][] = [
   ['consecutiveCharted', 'Consecutive charted obs below band', 'trusted charted obs in a row that raise a below-band escalation'],
   ['deviceDwellMin', 'Device dwell (min)', 'minutes of trusted monitor readings below band that raise one'],
   ['urgentMarginPoints', 'Urgent margin (points)', 'a reading this far under the lower limit makes it urgent'],
@@ -15,6 +15,8 @@ const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'gasUnit'>, string, strin
   ['renotifyMin', 'Re-notify after (min)', 'unclaimed escalations are e-mailed again after this'],
   ['overdueMin', 'Obs overdue after (min)', 'the board marks a bed overdue past this'],
   ['barometricMmHg', 'Barometric pressure (mmHg)', 'for the alveolar gas equation (760 at sea level)'],
+  ['monitorSilentMin', 'Monitor silent after (min)', 'a monitored bed with no newer device reading is shown as silent'],
+  ['silentBelowProbeMin', 'Silent after below band: probe check (min)', 'silence this long right after trusted below-band readings asks for a bedside probe check'],
 ];
 
 /** A unit's escalation settings. Defaults are settings, not clinical advice: each unit decides. */
@@ -28,6 +30,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     const v: Record<string, string> = Object.fromEntries(FIELDS.map(([k]) => [k, String(data.settings[k])]));
     v.outreachEmails = data.settings.outreachEmails.join('\n');
     v.gasUnit = data.settings.gasUnit;
+    v.unitPhone = data.settings.unitPhone ?? '';
     setValues(v);
   }, [data]);
   if (!data) return <p>Loading…</p>;
@@ -39,6 +42,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     const body: Record<string, unknown> = Object.fromEntries(FIELDS.map(([k]) => [k, values[k] === '' ? undefined : Number(values[k])]));
     body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
     body.gasUnit = values.gasUnit;
+    body.unitPhone = (values.unitPhone ?? '').trim() || null;
     try {
       await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
       setStatus('Saved.');
@@ -65,6 +69,12 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
           <option value="kPa">kPa</option><option value="mmHg">mmHg</option>
         </select>
         <span id={`${unitCode}-gasUnit-hint`} className={`text-sm ${errors.gasUnit ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors.gasUnit ?? 'PaO₂ and PaCO₂ are shown in this unit (stored in mmHg)'}</span>
+      </label>
+      <label className="block">
+        <span className="block font-bold">Unit phone</span>
+        <input className="field" inputMode="tel" value={values.unitPhone ?? ''} onChange={(e) => setValues({ ...values, unitPhone: e.target.value })}
+          aria-invalid={errors.unitPhone ? true : undefined} aria-describedby={`${unitCode}-unitPhone-hint`} />
+        <span id={`${unitCode}-unitPhone-hint`} className={`text-sm ${errors.unitPhone ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors.unitPhone ?? 'given in escalation e-mail, so outreach can call the bedside'}</span>
       </label>
       <label className="block md:col-span-2">
         <span className="block font-bold">Outreach e-mail addresses (one per line)</span>

@@ -1,53 +1,131 @@
 import useSWR from 'swr';
 import { useState } from 'react';
-import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { ROLES, ROLE_LABELS, spansUnits, type Role } from '~/lib/auth/roles.ts';
+import { formatDayTime } from '~/lib/time/format.ts';
+import type { AdminUnit, StaffListItem } from '~/lib/staff/api-types.ts';
 
-interface UserListItem {
-  id: number; email: string; name: string; role: string; unit_code: string | null; active: boolean;
-  failed_signins: number; locked_until: string | null; last_signin_at: string | null;
+const needsUnit = (role: Role) => !spansUnits(role) && role !== 'admin';
+
+async function send(url: string, body: unknown, method: 'POST' | 'PATCH' = 'POST') {
+  if (method === 'POST') return postJson(url, body);
+  const res = await fetch(url, { method, headers: { 'content-type': 'application/json', accept: 'application/json' }, credentials: 'same-origin', body: JSON.stringify(body) });
+  const data = await res.json();
+  if (!res.ok) throw new ApiClientError(res.status, data.error?.code, data.error?.message, data.error?.fields);
+  return data;
 }
 
-/** Admin list of accounts, with unlock for those locked after repeated wrong passwords. */
-export default function UserTable() {
-  const { data, error, mutate } = useSWR<{ users: UserListItem[] }>('/api/admin/users', fetchJson);
+/** Staff accounts: add a person (a set-password link goes by e-mail), change role or unit, end or restore access. */
+export default function UserTable({ timeZone }: { timeZone: string }) {
+  const { data, error, mutate } = useSWR<{ users: StaffListItem[] }>('/api/admin/users', fetchJson);
+  const { data: unitData } = useSWR<{ units: AdminUnit[] }>('/api/admin/units', fetchJson);
   const [message, setMessage] = useState<string | null>(null);
-  if (error) return <p role="alert">Could not load users: {String(error.message ?? error)}</p>;
-  if (!data) return <p>Loading users…</p>;
+  const [fields, setFields] = useState<Record<string, string>>({});
+  const [form, setForm] = useState({ name: '', email: '', role: 'nurse' as Role, unitCode: '' });
+  const [editing, setEditing] = useState<number | null>(null);
+  const [edit, setEdit] = useState({ role: 'nurse' as Role, unitCode: '' });
+  if (error) return <p role="alert">Could not load staff: {String(error.message ?? error)}</p>;
+  if (!data) return <p>Loading staff…</p>;
+  const units = unitData?.units ?? [];
   const now = Date.now();
 
-  async function unlock(user: UserListItem) {
+  async function act(label: string, fn: () => Promise<unknown>) {
+    setMessage(null);
+    setFields({});
     try {
-      await postJson(`/api/admin/users/${user.id}/unlock`, {});
-      setMessage(`${user.email} unlocked.`);
+      await fn();
+      setMessage(label);
       await mutate();
+      return true;
     } catch (err) {
-      setMessage(`Unlock failed: ${(err as Error).message}`);
+      if (err instanceof ApiClientError) setFields(err.fields);
+      setMessage(`Not done: ${(err as Error).message}`);
+      return false;
     }
   }
 
+  async function create(event: React.FormEvent) {
+    event.preventDefault();
+    const body = { name: form.name, email: form.email, role: form.role, ...(needsUnit(form.role) ? { unitCode: form.unitCode || undefined } : {}) };
+    const ok = await act(`Account made for ${form.email}; a set-password link is on its way by e-mail.`, () => send('/api/admin/users', body));
+    if (ok) setForm({ name: '', email: '', role: form.role, unitCode: form.unitCode });
+  }
+
+  const unitSelect = (value: string, onChange: (v: string) => void, id: string) => (
+    <select id={id} className="field" value={value} onChange={(e) => onChange(e.target.value)}>
+      <option value="">— choose —</option>
+      {units.map((u) => <option key={u.code} value={u.code}>{u.name} ({u.code})</option>)}
+    </select>
+  );
+
   return (
     <div>
-      {message && <p role="status" className="mb-3 rounded bg-glass-50 p-2 dark:bg-glass-900/40">{message}</p>}
+      <form onSubmit={create} className="mb-6 grid gap-3 md:grid-cols-5 md:items-end" data-testid="create-user" noValidate>
+        <label className="block"><span className="mb-1 block font-bold">Name</span>
+          <input className="field" name="name" value={form.name} onChange={(e) => setForm({ ...form, name: e.target.value })} aria-invalid={Boolean(fields.name)} />
+          {fields.name && <span className="text-sm text-coral-700 dark:text-coral-300">{fields.name}</span>}</label>
+        <label className="block"><span className="mb-1 block font-bold">E-mail</span>
+          <input className="field" name="email" type="email" value={form.email} onChange={(e) => setForm({ ...form, email: e.target.value })} aria-invalid={Boolean(fields.email)} />
+          {fields.email && <span className="text-sm text-coral-700 dark:text-coral-300">{fields.email}</span>}</label>
+        <label className="block"><span className="mb-1 block font-bold">Role</span>
+          <select className="field" name="role" value={form.role} onChange={(e) => setForm({ ...form, role: e.target.value as Role })}>
+            {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
+          </select></label>
+        <label className="block" htmlFor="new-unit"><span className="mb-1 block font-bold">Unit</span>
+          {needsUnit(form.role) ? unitSelect(form.unitCode, (v) => setForm({ ...form, unitCode: v }), 'new-unit') : <span className="block py-1.5 text-ink-600 dark:text-ink-300">all units</span>}
+          {fields.unitCode && <span className="text-sm text-coral-700 dark:text-coral-300">{fields.unitCode}</span>}</label>
+        <button className="btn-primary justify-center" type="submit">Add person</button>
+      </form>
+      {message && <p role="status" data-testid="staff-message" className="mb-3 rounded bg-glass-50 p-2 dark:bg-glass-900/40">{message}</p>}
+      <div className="overflow-x-auto">
       <table className="w-full text-sm" data-testid="user-table">
         <thead>
-          <tr className="text-left text-ink-500"><th className="py-1">Name</th><th>Email</th><th>Role</th><th>Unit</th><th>Sign-in</th><th /></tr>
+          <tr className="text-left text-ink-500 dark:text-ink-300"><th className="py-1">Name</th><th>E-mail</th><th>Role</th><th>Unit</th><th>Access</th><th>Sign-in</th><th /></tr>
         </thead>
         <tbody>
           {data.users.map((user) => {
             const locked = user.locked_until !== null && new Date(user.locked_until).getTime() > now;
+            const isEditing = editing === user.id;
             return (
-              <tr key={user.id} className="border-t border-ink-100 dark:border-ink-800">
-                <td className="py-1.5">{user.name}{!user.active && ' (inactive)'}</td>
+              <tr key={user.id} className="border-t border-ink-100 align-top dark:border-ink-800" data-testid={`user-${user.email}`}>
+                <td className="py-1.5">{user.name}</td>
                 <td>{user.email}</td>
-                <td>{user.role}</td>
-                <td>{user.unit_code ?? 'all units'}</td>
-                <td>{locked ? <strong>locked until {new Date(user.locked_until!).toLocaleTimeString()}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : 'ok'}</td>
-                <td>{(locked || user.failed_signins > 0) && <button className="btn-quiet" onClick={() => unlock(user)}>Unlock</button>}</td>
+                <td>{isEditing
+                  ? <select aria-label="New role" className="field" value={edit.role} onChange={(e) => setEdit({ ...edit, role: e.target.value as Role })}>{ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}</select>
+                  : ROLE_LABELS[user.role]}</td>
+                <td>{isEditing
+                  ? (needsUnit(edit.role) ? unitSelect(edit.unitCode, (v) => setEdit({ ...edit, unitCode: v }), `unit-${user.id}`) : 'all units')
+                  : user.unit_code ?? 'all units'}</td>
+                <td>{user.active
+                  ? (user.must_change_password ? 'active · password not yet chosen' : 'active')
+                  : <strong>deactivated{user.deactivated_at ? ` ${formatDayTime(user.deactivated_at, timeZone)}` : ''}</strong>}</td>
+                <td>{locked ? <strong>locked until {formatDayTime(user.locked_until!, timeZone)}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : user.last_signin_at ? `last ${formatDayTime(user.last_signin_at, timeZone)}` : 'never'}</td>
+                <td className="space-x-1 whitespace-nowrap py-1">
+                  {isEditing ? (
+                    <>
+                      <button className="btn-quiet" onClick={async () => {
+                        const body = { role: edit.role, unitCode: needsUnit(edit.role) ? (edit.unitCode || null) : null };
+                        if (await act(`${user.email} changed.`, () => send(`/api/admin/users/${user.id}`, body, 'PATCH'))) setEditing(null);
+                      }}>Save</button>
+                      <button className="btn-quiet" onClick={() => setEditing(null)}>Cancel</button>
+                    </>
+                  ) : (
+                    <>
+                      <button className="btn-quiet" onClick={() => { setEditing(user.id); setEdit({ role: user.role, unitCode: user.unit_code ?? '' }); }}>Change role</button>
+                      {user.active && <button className="btn-quiet" onClick={() => act(`A set-password link was sent to ${user.email}.`, () => send(`/api/admin/users/${user.id}/send-link`, {}))}>Send password link</button>}
+                      {user.active
+                        ? <button className="btn-quiet" onClick={() => window.confirm(`End ${user.name}'s access now?`) && act(`${user.email} deactivated; their sessions stop at the next request.`, () => send(`/api/admin/users/${user.id}/deactivate`, {}))}>Deactivate</button>
+                        : <button className="btn-quiet" onClick={() => act(`${user.email} reactivated.`, () => send(`/api/admin/users/${user.id}/reactivate`, {}))}>Reactivate</button>}
+                      {(locked || user.failed_signins > 0) && <button className="btn-quiet" onClick={() => act(`${user.email} unlocked.`, () => send(`/api/admin/users/${user.id}/unlock`, {}))}>Unlock</button>}
+                    </>
+                  )}
+                </td>
               </tr>
             );
           })}
         </tbody>
       </table>
+      </div>
     </div>
   );
 }

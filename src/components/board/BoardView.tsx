@@ -1,17 +1,16 @@
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import useSWR from 'swr';
 import type { BoardResponse } from '~/lib/server/board/board.ts';
 import type { BoardTile } from '~/lib/board/tiles.ts';
-import { formatMinutes, stateWords } from '~/lib/board/tiles.ts';
+import { formatMinutes, latestWords, monitorWords, stateWords } from '~/lib/board/tiles.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { KIND_LABELS, type EscalationKind } from '~/lib/escalations/decide.ts';
-import { formatClock } from '~/lib/time/format.ts';
+import { formatClock, formatClockSeconds } from '~/lib/time/format.ts';
 
 interface Props { initial: BoardResponse; me: { id: number; role: string }; pollMs?: number }
 
-const timeIn = (iso: string | number, zone: string) =>
-  new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false, timeZone: zone }).format(new Date(iso));
+const timeIn = (iso: string | number, zone: string) => formatClockSeconds(iso, zone);
 
 /** The ward board: server-rendered first, then kept fresh by polling; stale data is said plainly. */
 export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
@@ -26,8 +25,42 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
   const board = data ?? initial;
   const [mine, setMine] = useState(false);
   const nurses = useSWR<{ nurses: { id: number; name: string }[] }>(me.role === 'charge' ? '/api/nurses' : null, fetchJson);
-  const tiles = useMemo(() => (mine ? board.tiles.filter((t) => t.nurse?.id === me.id) : board.tiles), [board, mine, me.id]);
+  const filtered = useMemo(() => (mine ? board.tiles.filter((t) => t.nurse?.id === me.id) : board.tiles), [board, mine, me.id]);
   const zone = board.unit.timeZone;
+  // While keyboard focus is inside the board, tiles keep their places (new data, old order): nothing
+  // jumps under the focus. The concern order comes back once focus leaves.
+  const [focusInside, setFocusInside] = useState(false);
+  const listRef = useRef<HTMLUListElement>(null);
+  // Focus can also leave by the focused control vanishing (a claim button once claimed): re-check on
+  // every focus change and pointer press anywhere, and on every poll.
+  useEffect(() => {
+    const check = () => setFocusInside(Boolean(listRef.current?.contains(document.activeElement)));
+    const later = () => setTimeout(check, 0);
+    document.addEventListener('focusin', check);
+    document.addEventListener('pointerdown', later);
+    return () => { document.removeEventListener('focusin', check); document.removeEventListener('pointerdown', later); };
+  }, []);
+  useEffect(() => { setFocusInside(Boolean(listRef.current?.contains(document.activeElement))); }, [data]);
+  const order = useRef<number[]>(filtered.map((t) => t.bedId));
+  const tiles = useMemo(() => {
+    if (!focusInside) return filtered;
+    const pos = new Map(order.current.map((id, i) => [id, i]));
+    return [...filtered].sort((a, b) => (pos.get(a.bedId) ?? 1e9) - (pos.get(b.bedId) ?? 1e9));
+  }, [filtered, focusInside]);
+  useEffect(() => { order.current = tiles.map((t) => t.bedId); }, [tiles]);
+  // Changes of concern are announced politely to screen readers (never on the first paint).
+  const [announcement, setAnnouncement] = useState('');
+  const previous = useRef<Map<number, string> | null>(null);
+  useEffect(() => {
+    const now = new Map(board.tiles.map((t) => [t.bedId, t.concern.reason]));
+    if (previous.current) {
+      const changed = board.tiles.filter((t) => t.patient && previous.current!.has(t.bedId) && previous.current!.get(t.bedId) !== t.concern.reason
+        && previous.current!.get(t.bedId)!.replace(/\d+/g, '#') !== t.concern.reason.replace(/\d+/g, '#'));
+      if (changed.length) setAnnouncement(changed.map((t) => `Bed ${t.bedLabel}: ${t.concern.reason}.`).join(' '));
+    }
+    previous.current = now;
+  }, [board]);
+  const [notice, setNotice] = useState<{ ok: boolean; text: string } | null>(null);
 
   return (
     <div>
@@ -46,10 +79,22 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
           Board not updating — showing data from {timeIn(board.generatedAt, zone)}. Retrying on its own; check the bedside if in doubt.
         </div>
       )}
+      <BoardKey />
+      <p className="sr-only" aria-live="polite" data-testid="board-announcer">{announcement}</p>
+      {notice && (
+        <p role={notice.ok ? 'status' : 'alert'} data-testid="board-notice"
+          className={`mb-3 rounded-md p-2 text-sm font-bold ${notice.ok ? 'bg-glass-50 text-glass-900 dark:bg-glass-900/40 dark:text-glass-100' : 'border-2 border-coral-500 bg-coral-50 text-coral-900 dark:bg-coral-900/30 dark:text-coral-100'}`}>
+          {notice.text}
+        </p>
+      )}
+      {focusInside && <p className="sr-only" data-testid="board-order-held">Tile order held while you are in the board.</p>}
       {tiles.length === 0 && <p className="panel">No beds to show{mine ? ' assigned to you' : ''}.</p>}
-      <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-4" data-testid="board-tiles">
+      <ul ref={listRef} className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3 xl:grid-cols-4" data-testid="board-tiles" data-order-held={focusInside ? 'yes' : 'no'}
+        onFocus={() => setFocusInside(true)}
+        onBlur={(e) => { if (!e.currentTarget.contains(e.relatedTarget as Node | null)) setFocusInside(false); }}>
         {tiles.map((tile) => (
-          <Tile key={tile.bedId} tile={tile} zone={zone} nurses={nurses.data?.nurses ?? null} onAssigned={() => mutate()} />
+          <Tile key={tile.bedId} tile={tile} zone={zone} me={me} nurses={nurses.data?.nurses ?? null}
+            onDone={(text, ok) => { setNotice({ ok, text }); if (ok) void mutate(); }} />
         ))}
       </ul>
     </div>
@@ -75,7 +120,46 @@ function StateMark({ name }: { name: string }) {
   return <svg {...common} className="text-ink-400"><rect x="5" y="11" width="14" height="3" fill="currentColor" /></svg>;
 }
 
-function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: string; nurses: { id: number; name: string }[] | null; onAssigned: () => void }) {
+/** Every colour and shape the board uses, in words: open on demand, always printed. */
+function BoardKey() {
+  const rows: [string, string, string][] = [
+    ['below', 'Below band', 'coral, chevron down'],
+    ['above', 'Above band', 'violet, chevron up'],
+    ['in', 'In band', 'sea-glass, dot'],
+    ['untrusted', 'Untrusted reading (with the reason)', 'hatched tile, dashed ring'],
+    ['no_reading', 'No current reading (monitor silent, or nothing charted)', 'plain tile, bar'],
+  ];
+  const list = (
+    <ul className="grid gap-1 text-sm sm:grid-cols-2">
+      {rows.map(([name, words, look]) => (
+        <li key={name} className="flex items-center gap-2"><StateMark name={name} /><span><strong>{words}</strong> — {look}</span></li>
+      ))}
+      <li className="flex items-center gap-2"><span className="rounded border-2 border-dashed border-ink-500 px-1 text-xs">dashed</span><span><strong>No band ordered</strong> — dashed border</span></li>
+      <li><strong>overdue</strong> (underlined) — no obs charted within the unit's limit</li>
+      <li><strong>monitor silent since hh:mm</strong> — no device reading within the unit's limit</li>
+      <li>Dark strip — an open escalation: kind, severity, claimed or not, time raised</li>
+    </ul>
+  );
+  return (
+    <>
+      <details className="mb-3 print:hidden" data-testid="board-key">
+        <summary className="cursor-pointer text-sm font-bold">Key to colours and shapes</summary>
+        <div className="mt-2 rounded-md border border-ink-200 p-2 dark:border-ink-700">{list}</div>
+      </details>
+      <div className="hidden print:block" data-testid="board-key-print"><h2 className="font-bold">Key</h2>{list}</div>
+    </>
+  );
+}
+
+function escalationWords(e: NonNullable<BoardTile['escalation']>, zone: string): string {
+  // Kind, severity, state and time, each said once.
+  const kind = KIND_LABELS[e.kind as EscalationKind] ?? 'Escalation';
+  return `${kind}${e.severity === 'urgent' ? ' · urgent' : ''} · ${e.state === 'claimed' ? `claimed by ${e.claimedBy ?? 'someone'}` : 'not yet claimed'} · raised ${formatClock(e.raisedAt, zone)}`;
+}
+
+function Tile({ tile, zone, me, nurses, onDone }: {
+  tile: BoardTile; zone: string; me: { id: number; role: string }; nurses: { id: number; name: string }[] | null; onDone: (text: string, ok: boolean) => void;
+}) {
   const [assignError, setAssignError] = useState<string | null>(null);
   if (!tile.patient) {
     return (
@@ -89,19 +173,37 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
   const spo2 = tile.latest?.spo2;
   async function assign(value: string) {
     setAssignError(null);
+    const name = value === '' ? null : nurses?.find((n) => String(n.id) === value)?.name ?? 'the nurse';
     try {
       await postJson(`/api/beds/${tile.bedId}/assignment`, { nurseId: value === '' ? null : Number(value) }, 'PUT');
-      onAssigned();
+      onDone(name ? `Bed ${tile.bedLabel}: ${name} assigned.` : `Bed ${tile.bedLabel}: no nurse assigned now.`, true);
     } catch (err) {
-      setAssignError((err as Error).message);
+      const text = `Bed ${tile.bedLabel}: assignment not saved — ${(err as Error).message}`;
+      setAssignError(text);
+      onDone(text, false);
+    }
+  }
+  const esc = tile.escalation;
+  const mayClaim = esc && esc.state === 'raised' && esc.kind !== 'wean_prompt' && (me.role === 'charge' || (me.role === 'nurse' && tile.nurse?.id === me.id));
+  async function claim() {
+    if (!esc) return;
+    try {
+      await postJson(`/api/escalations/${esc.id}/claim`, {});
+      onDone(`Bed ${tile.bedLabel}: you claimed the ${(KIND_LABELS[esc.kind as EscalationKind] ?? 'escalation').toLowerCase()}.`, true);
+    } catch (err) {
+      onDone(`Bed ${tile.bedLabel}: not claimed — ${(err as Error).message}`, false);
     }
   }
   return (
     <li className={`relative rounded-lg border-2 p-3 shadow-sm ${tone}`} data-testid={`tile-${tile.bedLabel}`} data-concern={tile.concern.key} data-state={tile.state.name}>
-      <span className="sr-only" data-testid="tile-sentence">{tile.sentence}</span>
+      {/* The whole tile is one link named by the sentence; the visible parts below are hidden from
+          screen readers and hold nothing focusable (WCAG: no focusable element inside aria-hidden). */}
+      <a href={`/patients/${tile.patient.id}`} className="peer absolute inset-0 rounded-lg">
+        <span className="sr-only" data-testid="tile-sentence">{tile.sentence}</span>
+      </a>
       <div aria-hidden="true">
         <div className="flex items-baseline justify-between gap-2">
-          <a href={`/patients/${tile.patient.id}`} className="font-mono text-lg font-bold underline-offset-2 hover:underline after:absolute after:inset-0" >{tile.bedLabel}</a>
+          <span className="font-mono text-lg font-bold underline-offset-2 peer-hover:underline">{tile.bedLabel}</span>
           <span className="font-bold">{tile.patient.label}</span>
           <span className="rounded bg-ink-100 px-1.5 text-sm dark:bg-ink-800">{tile.band ? `band ${tile.band.low}–${tile.band.high}${tile.band.news2Scale === 2 ? ' · S2' : ''}` : 'no band ordered'}</span>
         </div>
@@ -110,10 +212,12 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
           <span className="text-4xl font-bold tabular-nums" data-testid="tile-spo2">{spo2 ?? '—'}<span className="text-lg font-normal">{spo2 != null ? ' %' : ''}</span></span>
           <span className="font-bold" data-testid="tile-state">{stateWords(tile)}</span>
         </div>
+        {tile.latest && <p className="text-sm text-ink-600 dark:text-ink-300" data-testid="tile-age">{spo2 != null ? `${spo2} % · ` : ''}{latestWords(tile)}</p>}
+        {monitorWords(tile) && <p className="text-sm font-bold text-amberline-700 dark:text-amberline-400" data-testid="tile-monitor">{monitorWords(tile)}</p>}
         {tile.latest?.belowCalibratedRange && <p className="text-sm font-bold">below calibrated range — confirm with arterial blood gas</p>}
         <p className="mt-1 text-sm" data-testid="tile-reason"><strong>{tile.concern.reason}</strong></p>
         <dl className="mt-2 grid grid-cols-2 gap-x-3 text-sm">
-          <div><dt className="inline text-ink-500 dark:text-ink-300">trace </dt><dd className="inline">{tile.latest ? (tile.latest.trusted ? tile.latest.trace : `${tile.latest.trace} (untrusted)`) : '—'}</dd></div>
+          <div><dt className="inline text-ink-500 dark:text-ink-300">trace </dt><dd className="inline" data-testid="tile-trace">{tile.latest ? (tile.latest.trusted ? tile.latest.trace : `not trusted: ${tile.latest.untrustedReason}`) : '—'}</dd></div>
           <div><dt className="inline text-ink-500 dark:text-ink-300">HR </dt><dd className="inline">{tile.latest?.heartRate ?? '—'}</dd></div>
           <div className="col-span-2"><dt className="inline text-ink-500 dark:text-ink-300">O₂ </dt><dd className="inline">{tile.oxygen.device ? DEVICE_LABELS[tile.oxygen.device] : '—'}{tile.oxygen.fio2 !== null ? ` · FiO₂ ${tile.oxygen.fio2.toFixed(2)}${tile.oxygen.fio2Estimated ? ' (est.)' : ''}` : ''}</dd></div>
           <div><dt className="inline text-ink-500 dark:text-ink-300">obs </dt><dd className={`inline ${tile.overdue ? 'font-bold underline decoration-amberline-400 decoration-2' : ''}`}>{tile.minutesSinceCharted === null ? 'none' : `${formatMinutes(tile.minutesSinceCharted)} ago`}{tile.overdue ? ' · overdue' : ''}</dd></div>
@@ -125,13 +229,12 @@ function Tile({ tile, zone, nurses, onAssigned }: { tile: BoardTile; zone: strin
             <span>Occult hypoxaemia · gas SaO₂ {tile.occultHypoxaemia.sao2} % while SpO₂ read {tile.occultHypoxaemia.spo2AtSample} % ({formatClock(tile.occultHypoxaemia.sampledAt, zone)}) · {tile.occultHypoxaemia.state}</span>
           </p>
         )}
-        {tile.escalation && (
-          <p className="mt-2 rounded bg-ink-900 px-2 py-1 text-sm text-white dark:bg-ink-700" data-testid="tile-escalation">
-            {KIND_LABELS[tile.escalation.kind as EscalationKind] ?? 'Escalation'}{tile.escalation.severity === 'urgent' ? ' · urgent' : ''} · {tile.escalation.state}{tile.escalation.claimedBy ? ` by ${tile.escalation.claimedBy}` : ''} · raised {timeIn(tile.escalation.raisedAt, zone).slice(0, 5)}
-          </p>
+        {esc && (
+          <p className="mt-2 rounded bg-ink-900 px-2 py-1 text-sm text-white dark:bg-ink-700" data-testid="tile-escalation">{escalationWords(esc, zone)}</p>
         )}
       </div>
       <div className="relative z-10 mt-2 text-sm">
+        {mayClaim && <button type="button" className="btn-primary mb-2 py-0.5" onClick={claim} data-testid="tile-claim">Claim for bed {tile.bedLabel}</button>}
         {nurses ? (
           <label className="flex items-center gap-2">
             <span className="text-ink-500 dark:text-ink-300">nurse</span>

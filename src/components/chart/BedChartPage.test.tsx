@@ -43,10 +43,13 @@ describe('chartKeys', () => {
   });
 });
 
+// Three chart panels and four islands' worth of UI in jsdom: slow on a shared machine.
+vi.setConfig({ testTimeout: 20_000 });
+
 describe('BedChartPage', () => {
   it('lays out the chart, figures, entry form, obs record and orders for a nurse', async () => {
     setup(patient({ can: { chart: true, order: false, admit: false } }));
-    expect(screen.getByRole('heading', { level: 1 }).textContent).toBe('Bed 4 · AQ·123');
+    expect(screen.getByRole('heading', { level: 2, name: 'Bed 4 · AQ·123' }).textContent).toBe('Bed 4 · AQ·123');
     expect(screen.getByRole('group', { name: 'Chart window' })).toBeTruthy();
     await waitFor(() => expect(screen.getByTestId('chart-summary').textContent).toContain('latest 90 % at 11:50, below band 92–96 %'));
     expect(screen.getByTestId('derived-figures')).toBeTruthy();
@@ -54,6 +57,9 @@ describe('BedChartPage', () => {
     await waitFor(() => expect(document.getElementById('obs-101')).not.toBeNull());
     expect(screen.getByTestId('target-panel')).toBeTruthy();
     expect(screen.queryByTestId('order-form')).toBeNull();
+    // Printed: a header and every charted obs of the window (hidden on screen).
+    expect(screen.getByTestId('print-header').textContent).toMatch(/Printed \d+ \w{3} \d\d:\d\d/);
+    await waitFor(() => expect(screen.getByTestId('print-record').querySelectorAll('tbody tr')).toHaveLength(1));
     // Device and FiO₂ come from the last charted obs.
     expect((screen.getByLabelText('Oxygen device') as HTMLSelectElement).value).toBe('simple_mask');
   });
@@ -69,7 +75,7 @@ describe('BedChartPage', () => {
   it('loads the patient itself when the page gave none', async () => {
     const stub = setup(patient(), { initial: false });
     expect(screen.getByText('Loading the bed chart…')).toBeTruthy();
-    await waitFor(() => expect(screen.getByRole('heading', { level: 1 }).textContent).toBe('Bed 4 · AQ·123'));
+    await waitFor(() => expect(screen.getByRole('heading', { level: 2, name: 'Bed 4 · AQ·123' }).textContent).toBe('Bed 4 · AQ·123'));
     expect(stub.calls.some((c) => c.url === '/api/patients/3')).toBe(true);
   });
 

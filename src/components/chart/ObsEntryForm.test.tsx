@@ -13,7 +13,7 @@ afterEach(() => {
 const savedObs = (body: Record<string, unknown>): ObsView =>
   obs({ id: 555, takenAt: String(body.takenAt), spo2: (body.spo2 as number) ?? null, notices: (body.spo2 as number) < 70 ? ['Below calibrated range — confirm with arterial blood gas'] : [] });
 
-function setup(opts: { lastCharted?: ObsView | null; correcting?: ObsView; post?: (c: StubCall) => { status?: number; body: unknown } } = {}) {
+function setup(opts: { lastCharted?: ObsView | null; correcting?: ObsView; post?: (c: StubCall) => { status?: number; body: unknown }; timeZone?: string } = {}) {
   const post = opts.post ?? ((c: StubCall) => ({ status: 201, body: { observation: savedObs(c.body as Record<string, unknown>) } }));
   const stub = stubFetch({
     'POST /api/patients/3/observations': post,
@@ -27,7 +27,7 @@ function setup(opts: { lastCharted?: ObsView | null; correcting?: ObsView; post?
         patientId={3}
         lastCharted={opts.lastCharted === undefined ? obs() : opts.lastCharted}
         correcting={opts.correcting}
-        timeZone="Europe/London"
+        timeZone={opts.timeZone ?? 'Europe/London'}
         onSaved={onSaved}
         now={() => new Date(T0)}
       />
@@ -53,7 +53,53 @@ describe('ObsEntryForm', () => {
     expect((screen.getByLabelText('Oxygen device') as HTMLSelectElement).value).toBe('simple_mask');
     expect(input('FiO₂').value).toBe('40');
     expect(input('Flow (L/min)').value).toBe('6');
-    expect(input('Time taken').value).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d$/);
+    expect(input('Date taken').value).toMatch(/^\d{4}-\d\d-\d\d$/);
+    expect(input('Time taken').value).toMatch(/^\d\d:\d\d$/);
+  });
+
+  describe('time taken: date + 24-hour HH:MM in the unit zone (issue 10 point 8)', () => {
+    const wall = (ms: number, timeZone: string) => {
+      const p = Object.fromEntries(new Intl.DateTimeFormat('en-GB', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(new Date(ms)).map((x) => [x.type, x.value]));
+      return { date: `${p.year}-${p.month}-${p.day}`, time: `${p.hour}:${p.minute}` };
+    };
+
+    it('defaults to now in the unit zone (not the browser zone), and never uses the browser date-time widget', () => {
+      setup({ timeZone: 'America/New_York' });
+      expect(input('Date taken').value).toBe(wall(T0, 'America/New_York').date);
+      expect(input('Time taken').value).toBe(wall(T0, 'America/New_York').time);
+      expect(input('Time taken').type).toBe('text');
+      expect(document.querySelector('input[type="datetime-local"], input[type="date"], input[type="time"]')).toBeNull();
+    });
+
+    it('−5 and −15 min step back from now; Now returns', () => {
+      setup();
+      fireEvent.click(screen.getByRole('button', { name: '15 minutes ago' }));
+      expect(input('Time taken').value).toBe(wall(T0 - 15 * 60_000, 'Europe/London').time);
+      fireEvent.click(screen.getByRole('button', { name: '5 minutes ago' }));
+      expect(input('Time taken').value).toBe(wall(T0 - 5 * 60_000, 'Europe/London').time);
+      fireEvent.click(screen.getByRole('button', { name: 'Now' }));
+      expect(input('Time taken').value).toBe(wall(T0, 'Europe/London').time);
+    });
+
+    it('reads a typed 24-hour time in the unit zone and posts it as UTC', async () => {
+      const { calls } = setup({ timeZone: 'America/New_York' });
+      const tenAgo = wall(T0 - 10 * 60_000, 'America/New_York');
+      type('Time taken', tenAgo.time.replace(':', '')); // "0604" typed without the colon
+      expect(screen.getByTestId('taken-at-reads').textContent).toMatch(/^Reads \d{1,2} [A-Z][a-z]{2} \d\d:\d\d \(unit time\)/);
+      type('SpO₂ (%)', '95');
+      save();
+      await waitFor(() => expect(posts(calls)).toHaveLength(1));
+      expect((posts(calls)[0]!.body as { takenAt: string }).takenAt).toBe(iso(Math.floor((T0 - 10 * 60_000) / 60_000) * 60_000));
+    });
+
+    it('a 12-hour time is refused in words and nothing is posted', () => {
+      const { calls } = setup();
+      type('Time taken', '6:14 PM');
+      type('SpO₂ (%)', '95');
+      save();
+      expect(describedErrors(input('Time taken'))).toBe('Time taken must be a 24-hour time such as 06:14');
+      expect(posts(calls)).toHaveLength(0);
+    });
   });
 
   it('does not offer an estimated FiO₂ as if it had been charted', () => {

@@ -3,9 +3,9 @@
  * The browser checks with the same schema as the API (`obsInputSchema`), so the nurse reads the
  * same words in both places; the API's own field errors are mapped back onto the inputs.
  *
- * Time taken is a `datetime-local` value, read in the browser's local time and sent as an ISO
- * string in UTC. The bedside PC is assumed to run in the unit's time zone (as ward PCs do); the
- * chart and the record table show every time in the unit's zone from the server.
+ * Time taken is typed as a date and a 24-hour HH:MM in the unit's time zone (never the browser's
+ * date-time widget, whose format follows the browser's language), "now" by default, with quick
+ * −5 / −15 min buttons; it is sent as an ISO string in UTC.
  *
  * What the server receives: the schema's output, not the raw text. FiO₂ typed as 40 or 0.4 is
  * posted as 0.4; empty fields are left out; takenAt is an ISO string. The server re-parses with
@@ -15,7 +15,6 @@
  * required, and it posts `{ reason, obs }` to /api/observations/:id/correct.
  */
 import { useId, useMemo, useRef, useState, type FormEvent, type KeyboardEvent, type ReactNode, type Ref } from 'react';
-import { format, subHours } from 'date-fns';
 import type { ObsView } from '~/lib/charting/api-types.ts';
 import { CONSCIOUSNESS } from '~/lib/oxygenation/news2.ts';
 import {
@@ -31,12 +30,14 @@ import {
 import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
 import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '~/lib/oxygenation/types.ts';
 import { apiFieldErrors, errorText, formatClock, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
+import { formatDayTime } from '~/lib/time/format.ts';
+import { parseWallEntry, toWallEntry } from '~/lib/time/wall-clock.ts';
 
 export interface ObsEntryFormProps {
   patientId: number;
   /** The last current charted obs: device, FiO₂ and flow default from it. */
   lastCharted: ObsView | null;
-  /** Unit time zone, for the "Saved" announcement. */
+  /** Unit time zone: the time taken is typed and shown in it. */
   timeZone: string;
   /** Correct this obs instead of charting a new one. */
   correcting?: ObsView | null;
@@ -48,7 +49,7 @@ export interface ObsEntryFormProps {
 }
 
 type FieldName =
-  | 'takenAt' | 'spo2' | 'heartRate' | 'respRate' | 'device' | 'fio2' | 'flowLpm' | 'trace' | 'perfusionIndex'
+  | 'takenDate' | 'takenAt' | 'spo2' | 'heartRate' | 'respRate' | 'device' | 'fio2' | 'flowLpm' | 'trace' | 'perfusionIndex'
   | 'probeSite' | 'systolic' | 'temperature' | 'consciousness' | 'note' | 'reason';
 type Values = Record<FieldName, string>;
 
@@ -62,27 +63,23 @@ const TRACE_LABELS: Record<string, string> = {
   absent: 'Absent (no reading)',
 };
 
-/** "yyyy-MM-ddTHH:mm" in the browser's local time, for a datetime-local input. */
-export const toLocalInput = (d: Date) => format(d, "yyyy-MM-dd'T'HH:mm");
-/** A datetime-local value read as the browser's local time (no offset means local, by the spec). */
-export function localInputToDate(value: string): Date | undefined {
-  if (!value) return undefined;
-  const d = new Date(value);
-  return Number.isNaN(d.getTime()) ? undefined : d;
-}
+/** Minutes the quick buttons step back from now. */
+const QUICK_MINUTES = [5, 15];
 
 const pct = (fraction: number) => String(Math.round(fraction * 1000) / 10);
 const str = (v: number | string | null | undefined) => (v === null || v === undefined ? '' : String(v));
 
-function initialValues(lastCharted: ObsView | null, correcting: ObsView | null | undefined, now: Date): Values {
+function initialValues(lastCharted: ObsView | null, correcting: ObsView | null | undefined, now: Date, timeZone: string): Values {
   const src = correcting ?? null;
   const deviceFrom = src ?? lastCharted;
   const device = deviceFrom?.device ?? '';
   // An estimated FiO₂ was never charted: do not offer it as if it had been.
   const fio2 = deviceFrom && deviceFrom.fio2 !== null && !deviceFrom.fio2Estimated ? pct(deviceFrom.fio2) : '';
   const flow = deviceFrom && device && FLOW_DEVICES.includes(device as OxygenDevice) ? str(deviceFrom.flowLpm) : '';
+  const taken = toWallEntry(src ? new Date(src.takenAt) : now, timeZone);
   return {
-    takenAt: toLocalInput(src ? new Date(src.takenAt) : now),
+    takenDate: taken.date,
+    takenAt: taken.time,
     spo2: str(src?.spo2),
     heartRate: str(src?.heartRate),
     respRate: str(src?.respRate),
@@ -105,7 +102,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   const id = (f: string) => `${uid}-${f}`;
   const formRef = useRef<HTMLFormElement>(null);
   const spo2Ref = useRef<HTMLInputElement>(null);
-  const [values, setValues] = useState<Values>(() => initialValues(lastCharted, correcting, now()));
+  const [values, setValues] = useState<Values>(() => initialValues(lastCharted, correcting, now(), timeZone));
   const [errors, setErrors] = useState<FieldErrors>({});
   const [formError, setFormError] = useState<string | null>(null);
   const [status, setStatus] = useState('');
@@ -132,13 +129,22 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
     setStatus('');
   }
 
+  /** Sets the time taken to now minus `minutes`, in the unit's zone. */
+  function setTakenAgo(minutes: number) {
+    const w = toWallEntry(now().getTime() - minutes * 60_000, timeZone);
+    setValues((v) => ({ ...v, takenDate: w.date, takenAt: w.time }));
+    if (errors.takenAt || errors.takenDate) setErrors(({ takenAt: _a, takenDate: _b, ...rest }) => rest);
+    setStatus('');
+  }
+  const typedTaken = parseWallEntry({ date: values.takenDate, time: values.takenAt }, timeZone);
+
   function rawObs() {
     const clean = (f: FieldName) => {
       const t = values[f].trim();
       return NUMERIC.includes(f) ? t.replace(',', '.') : t;
     };
     return {
-      takenAt: localInputToDate(values.takenAt),
+      takenAt: 'at' in typedTaken ? typedTaken.at : undefined,
       spo2: clean('spo2'),
       heartRate: clean('heartRate'),
       respRate: clean('respRate'),
@@ -156,7 +162,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   }
 
   function focusFirstError(errs: FieldErrors) {
-    const order: FieldName[] = ['takenAt', 'spo2', 'heartRate', 'respRate', 'device', 'fio2', 'flowLpm', 'trace', 'perfusionIndex', 'probeSite', 'systolic', 'temperature', 'consciousness', 'note', 'reason'];
+    const order: FieldName[] = ['takenDate', 'takenAt', 'spo2', 'heartRate', 'respRate', 'device', 'fio2', 'flowLpm', 'trace', 'perfusionIndex', 'probeSite', 'systolic', 'temperature', 'consciousness', 'note', 'reason'];
     const first = order.find((f) => errs[f]);
     const el = first ? formRef.current?.elements.namedItem(first) : null;
     if (el instanceof HTMLElement) el.focus();
@@ -169,6 +175,12 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
     setStatus('');
     const at = now();
     const raw = rawObs();
+    if ('error' in typedTaken) {
+      const errs = { [/^Date/.test(typedTaken.error) ? 'takenDate' : 'takenAt']: typedTaken.error };
+      setErrors(errs);
+      focusFirstError(errs);
+      return;
+    }
     let url: string;
     let body: unknown;
     if (correcting) {
@@ -199,7 +211,8 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
       const saved = res?.observation;
       if (!correcting) {
         setValues((v) => {
-          const next = { ...v, takenAt: toLocalInput(now()), trace: 'clean' };
+          const w = toWallEntry(now(), timeZone);
+          const next = { ...v, takenDate: w.date, takenAt: w.time, trace: 'clean' };
           for (const f of VITALS) next[f] = '';
           return next;
         });
@@ -270,7 +283,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
     </div>
   );
 
-  const earliest = toLocalInput(subHours(clock, MAX_BACKDATE_HOURS));
+  const earliest = clock.getTime() - MAX_BACKDATE_HOURS * 3_600_000;
   const fio2Required = device !== '' && SET_FIO2_DEVICES.includes(device);
   const title = correcting ? `Correct obs of ${formatClock(correcting.takenAt, timeZone)}` : 'Chart obs';
   const unknownServerFields = Object.keys(errors).filter((k) => !(k in values));
@@ -279,9 +292,32 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
     <form ref={formRef} onSubmit={submit} onKeyDown={onKeyDown} noValidate aria-label={title} data-testid={correcting ? 'obs-correct-form' : 'obs-entry-form'}>
       <h3 className="mb-2 text-lg font-bold">{title}</h3>
       <div className="grid grid-cols-1 gap-x-3 gap-y-2 sm:grid-cols-2">
-        {field('takenAt', 'Time taken', (
-          <input {...fieldProps('takenAt', [id('takenAt-hint')])} type="datetime-local" min={earliest} max={toLocalInput(clock)} onChange={(e) => set('takenAt', e.target.value)} />
-        ), { hint: `Now, or up to ${MAX_BACKDATE_HOURS} h earlier (this PC's clock)`, wide: true })}
+        <fieldset className="sm:col-span-2" aria-describedby={id('takenAt-hint')} data-testid="taken-at">
+          <legend className="mb-0.5 block text-sm font-bold">Time taken</legend>
+          <div className="flex flex-wrap items-end gap-2">
+            <label className="text-xs">Date
+              <input {...fieldProps('takenDate')} type="text" inputMode="numeric" autoComplete="off" placeholder="yyyy-mm-dd" size={11}
+                aria-label="Date taken" onChange={(e) => set('takenDate', e.target.value)} />
+            </label>
+            <label className="text-xs">Time (24 h)
+              <input {...fieldProps('takenAt')} type="text" inputMode="numeric" autoComplete="off" placeholder="hh:mm" size={6}
+                aria-label="Time taken" onChange={(e) => set('takenAt', e.target.value)} />
+            </label>
+            <span className="flex gap-1" role="group" aria-label="Quick times">
+              <button type="button" className="btn-quiet" onClick={() => setTakenAgo(0)}>Now</button>
+              {QUICK_MINUTES.map((m) => <button key={m} type="button" className="btn-quiet" onClick={() => setTakenAgo(m)} aria-label={`${m} minutes ago`}>−{m} min</button>)}
+            </span>
+          </div>
+          <p id={id('takenAt-hint')} className="mt-0.5 text-xs text-ink-500 dark:text-ink-400" data-testid="taken-at-reads">
+            {'at' in typedTaken ? `Reads ${formatDayTime(typedTaken.at, timeZone)} (unit time). ` : ''}Now, or up to {correcting ? 'a few days' : `${MAX_BACKDATE_HOURS} h`} earlier{correcting ? '' : ` (from ${formatDayTime(earliest, timeZone)})`}.
+          </p>
+          {(['takenDate', 'takenAt'] as const).map((f) => errors[f] && (
+            <p key={f} className="mt-0.5 flex items-start gap-1 text-sm text-coral-700 dark:text-coral-300">
+              <span aria-hidden="true">✕</span>
+              <span id={id(`${f}-error`)} data-field-error={f}>{errors[f]}</span>
+            </p>
+          ))}
+        </fieldset>
         {field('spo2', 'SpO₂ (%)', numberInput('spo2', { inputRef: spo2Ref, extra: spo2Notices.length ? [id('spo2-hint')] : [] }), {
           hint: spo2Notices.length ? (
             <span className="font-bold text-amberline-700 dark:text-amberline-400" data-testid="spo2-notice">

@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import SaturationChart, { bandAt, chartSummary, timeTicks } from './SaturationChart.tsx';
 import DerivedFigures from './DerivedFigures.tsx';
+import { gasMarksOf } from './BedChartPage.tsx';
 import { T0, series } from './fixtures.tsx';
 
 afterEach(() => cleanup());
@@ -42,9 +43,14 @@ describe('SaturationChart', () => {
       { id: 1, t: T0 - 3 * 3_600_000, sao2: 91, spo2AtSample: 95, sampleType: 'arterial' as const, occult: false },
       { id: 2, t: T0 - 60 * 60_000, sao2: 86, spo2AtSample: 93, sampleType: 'arterial' as const, occult: true },
     ];
-    const { container } = render(<SaturationChart series={series({ bloodGases: gases })} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
-    expect(container.querySelectorAll('[data-mark="sao2"]')).toHaveLength(1);
-    expect(container.querySelectorAll('[data-mark="sao2-occult"]')).toHaveLength(1);
+    const s = series({ bloodGases: gases });
+    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }}
+      extraMarks={{ name: 'SaO₂ (blood gas)', marks: gasMarksOf(s) }} />);
+    expect(container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"]:not([data-flag])')).toHaveLength(1);
+    const occult = container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"][data-flag="occult hypoxaemia"]');
+    expect(occult).toHaveLength(1);
+    expect(occult[0]!.querySelector('circle')).not.toBeNull(); // ringed
+    expect(occult[0]!.textContent).toBe('occult hypoxaemia'); // and named beside the mark
     expect(screen.getByTestId('chart-summary').textContent).toContain('Blood gas at 11:00: SaO₂ 86 % while SpO₂ read 93 % — occult hypoxaemia.');
   });
 
@@ -63,6 +69,52 @@ describe('SaturationChart', () => {
     expect(hollow[0]!.getAttribute('fill')).toBe('none');
     expect(container.querySelectorAll('[data-mark="below"]')).toHaveLength(2); // 89 and 90 under 92–96
     expect(container.querySelectorAll('[data-mark="in"]')).toHaveLength(1); // 95 in 94–98
+  });
+
+  it('draws SpO₂ alone in its panel, heart rate and FiO₂ (labelled with device and flow) in their own', () => {
+    const { container } = render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    const spo2 = container.querySelector('[data-testid="panel-spo2"]')!;
+    const hr = container.querySelector('[data-testid="panel-hr"]')!;
+    const o2 = container.querySelector('[data-testid="panel-o2"]')!;
+    // One line (SpO₂) on the SpO₂ panel, one on each of the others: no second scale anywhere.
+    expect(spo2.querySelectorAll('.recharts-line')).toHaveLength(1);
+    expect(spo2.querySelectorAll('.recharts-yAxis')).toHaveLength(1);
+    expect(hr.querySelectorAll('.recharts-line')).toHaveLength(1);
+    expect(o2.querySelectorAll('.recharts-line')).toHaveLength(1);
+    const labels = [...o2.querySelectorAll('[data-fio2-label]')].map((t) => t.textContent);
+    expect(labels).toEqual(['0.35 Simple mask 6 L/min', '0.50 High-flow nasal 40 L/min']);
+    // Charted obs are drawn apart from device readings.
+    expect(spo2.querySelectorAll('[data-source="charted"]').length).toBe(2);
+  });
+
+  it('shows a band ordered a second ago as a visible step', () => {
+    const s = series();
+    s.bands = [{ ...s.bands[0]!, to: s.to - 1000 }, { from: s.to - 1000, to: s.to, low: 88, high: 92 }];
+    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    const rects = [...container.querySelectorAll('[data-testid="panel-spo2"] .recharts-reference-area-rect')];
+    expect(rects).toHaveLength(2);
+    expect(Number(rects[1]!.getAttribute('width'))).toBeGreaterThan(15);
+  });
+
+  it('reads every value at a time from the keyboard', () => {
+    render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    const area = screen.getByTestId('chart-area');
+    expect(area.getAttribute('tabindex')).toBe('0');
+    fireEvent.keyDown(area, { key: 'End' });
+    // The newest reading is 10 min old: at "now" the chart says there is no reading, not an old one.
+    expect(screen.getByTestId('chart-readout').textContent).toBe('12 Mar 12:00 · SpO₂ no reading · band 92–96 % · HR no reading · FiO₂ 0.50 High-flow nasal 40 L/min');
+    fireEvent.keyDown(area, { key: 'ArrowLeft' }); // a 120th of the window: 6 min
+    expect(screen.getByTestId('chart-readout').textContent).toBe('12 Mar 11:54 · SpO₂ 90 % below band, charted · band 92–96 % · HR 104/min · FiO₂ 0.50 High-flow nasal 40 L/min');
+    fireEvent.keyDown(area, { key: 'Home' });
+    expect(screen.getByTestId('chart-readout').textContent).toContain('12 Mar 00:00 · SpO₂ no reading · band 94–98 %');
+  });
+
+  it('takes an extra set of marks on the SpO₂ panel', () => {
+    const s = series();
+    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }}
+      extraMarks={{ name: 'SaO₂ (blood gas)', marks: [{ key: 1, t: s.to - 3_600_000, v: 86, label: 'SaO₂ 86 %' }] }} />);
+    expect(container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"]')).toHaveLength(1);
+    expect(screen.getByText('SaO₂ (blood gas)')).toBeTruthy();
   });
 
   it('renders without a size (ResponsiveContainer, zero size in jsdom) without throwing', () => {

@@ -8,6 +8,7 @@ import { useSWRConfig } from 'swr';
 import type { ZodError } from 'zod';
 import type { OrderView } from '~/lib/charting/api-types.ts';
 import { ApiClientError } from '~/lib/client/fetch-json.ts';
+import { formatClock as fmtClock, formatDayTime as fmtDayTime } from '~/lib/time/format.ts';
 
 export const POLL_MS = 15_000;
 export const OBS_PAGE_SIZE = 20;
@@ -35,36 +36,27 @@ export function useRefreshChart(patientId: number) {
   return useCallback(() => mutate((key) => chartKeys(patientId).matches(key)), [mutate, patientId]);
 }
 
-// ── Time in the unit's zone ──────────────────────────────────────────────────────────────────
-const formatters = new Map<string, Intl.DateTimeFormat>();
-function formatter(timeZone: string, kind: 'time' | 'dayTime' | 'full'): Intl.DateTimeFormat {
-  const key = `${timeZone}|${kind}`;
-  let f = formatters.get(key);
-  if (!f) {
-    const opts: Intl.DateTimeFormatOptions =
-      kind === 'time'
-        ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }
-        : kind === 'dayTime'
-          ? { weekday: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }
-          : { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' };
+// ── Time in the unit's zone (through the one formatting module) ───────────────────────────────
+const zoneOk = new Map<string, boolean>();
+function safeZone(timeZone: string): string {
+  let ok = zoneOk.get(timeZone);
+  if (ok === undefined) {
     try {
-      f = new Intl.DateTimeFormat('en-GB', { ...opts, timeZone });
+      fmtClock(0, timeZone);
+      ok = true;
     } catch {
-      // An unknown zone name must not blank the chart: fall back to UTC and say so in the label.
-      f = new Intl.DateTimeFormat('en-GB', { ...opts, timeZone: 'UTC' });
+      ok = false; // an unknown zone name must not blank the chart
     }
-    formatters.set(key, f);
+    zoneOk.set(timeZone, ok);
   }
-  return f;
+  return ok ? timeZone : 'UTC';
 }
-
-const toDate = (t: string | number | Date) => (t instanceof Date ? t : new Date(t));
 /** "14:05" in the unit's zone. */
-export const formatClock = (t: string | number | Date, timeZone: string) => formatter(timeZone, 'time').format(toDate(t));
-/** "Tue 14:05" in the unit's zone (axis labels of long windows). */
-export const formatDayClock = (t: string | number | Date, timeZone: string) => formatter(timeZone, 'dayTime').format(toDate(t));
-/** "12 Mar, 14:05" in the unit's zone. */
-export const formatDateTime = (t: string | number | Date, timeZone: string) => formatter(timeZone, 'full').format(toDate(t));
+export const formatClock = (t: string | number | Date, timeZone: string) => fmtClock(t, safeZone(timeZone));
+/** "2 Dec 14:05" in the unit's zone (axis labels of long windows). */
+export const formatDayClock = (t: string | number | Date, timeZone: string) => fmtDayTime(t, safeZone(timeZone));
+/** "2 Dec 14:05" in the unit's zone. */
+export const formatDateTime = (t: string | number | Date, timeZone: string) => fmtDayTime(t, safeZone(timeZone));
 
 // ── Numbers ──────────────────────────────────────────────────────────────────────────────────
 export const fmtFio2 = (f: number) => (Math.round(f * 100) / 100).toFixed(2);

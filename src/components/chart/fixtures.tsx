@@ -49,7 +49,8 @@ export function series(over: Partial<SeriesResponse> = {}): SeriesResponse {
       { t: to - 600_000, v: 90, trusted: true, source: 'charted' },
     ],
     heartRate: [{ t: from + 3_600_000, v: 88 }, { t: to - 600_000, v: 104 }],
-    fio2: [{ t: from, v: 0.35 }, { t: from + 4 * 3_600_000, v: 0.5 }],
+    fio2: [{ t: from, v: 0.35, device: 'simple_mask', flowLpm: 6, estimated: false }, { t: from + 4 * 3_600_000, v: 0.5, device: 'high_flow_nasal', flowLpm: 40, estimated: false }],
+    bucketMs: 0,
     bands: [
       { from, to: from + 2 * 3_600_000, low: 94, high: 98 },
       { from: from + 2 * 3_600_000, to, low: 92, high: 96 },

@@ -1,6 +1,7 @@
 import useSWR from 'swr';
 import type { EscalationView } from '~/lib/server/escalations/service.ts';
 import { fetchJson } from '~/lib/client/fetch-json.ts';
+import { formatWhen } from '~/lib/time/format.ts';
 
 type List = { escalations: EscalationView[] };
 
@@ -11,7 +12,7 @@ export default function PatientEscalations({ patientId, timeZone }: { patientId:
   const wean = useSWR<List>(`/api/escalations?state=open&patient=${patientId}&kind=wean_prompt`, fetchJson, opts);
   const list = [...(acting.data?.escalations ?? []), ...(wean.data?.escalations ?? [])];
   if (list.length === 0) return null;
-  const time = (iso: string) => new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', hour12: false, timeZone }).format(new Date(iso));
+  const time = (iso: string) => formatWhen(iso, timeZone);
   return (
     <section aria-label="Open escalations" className="mb-4 space-y-2" data-testid="patient-escalations">
       {list.map((e) => (

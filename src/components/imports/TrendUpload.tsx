@@ -4,6 +4,7 @@ import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { MAX_TREND_FILE_BYTES, guessMapping, headerNames, mappingFits, trendMappingSchema, type TimeMode, type TrendMapping } from '~/lib/imports/mapping.ts';
 import type { ImportView, TrendPreview } from '~/lib/server/trend-files/imports.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
+import { formatCount, formatDateTimeSeconds } from '~/lib/time/format.ts';
 
 interface Props { patientId: number; canChart: boolean }
 interface ImportsResponse { imports: ImportView[]; mapping: TrendMapping | null; timeZone: string }
@@ -13,7 +14,7 @@ const EMPTY_DRAFT: Draft = { time: '', spo2: '', heartRate: '', perfusionIndex: 
 
 function when(iso: string | null, timeZone: string): string {
   if (!iso) return '—';
-  return new Intl.DateTimeFormat('en-GB', { timeZone, dateStyle: 'medium', timeStyle: 'medium' }).format(new Date(iso));
+  return formatDateTimeSeconds(iso, timeZone);
 }
 
 function Progress({ label, fraction }: { label: string; fraction: number }) {
@@ -91,11 +92,17 @@ export default function TrendUpload({ patientId, canChart }: Props) {
     if (res) setPreview(res.preview);
   }
 
+  /** Leaves an unfit optional column out of the mapping; the preview must then be run again. */
+  function unmap(field: 'perfusionIndex' | 'quality', column: string) {
+    setDraft((d) => ({ ...d, [field]: '' }));
+    setMessage({ kind: 'ok', text: `Column "${column}" is now left unmapped. Preview again to see what would be stored.` });
+  }
+
   async function doCommit() {
     if (!preview) return;
     const res = await run<{ import: ImportView }>('Uploading to store', uploadUrl('commit', preview.fileHash));
     if (!res) return;
-    setMessage({ kind: 'ok', text: `Stored ${res.import.rowsStored.toLocaleString('en-GB')} readings from ${res.import.fileName} as import ${res.import.id}.` });
+    setMessage({ kind: 'ok', text: `Stored ${formatCount(res.import.rowsStored)} readings from ${res.import.fileName} as import ${res.import.id}.` });
     setPreview(null);
     setFile(null);
     setHeaders([]);
@@ -183,7 +190,7 @@ export default function TrendUpload({ patientId, canChart }: Props) {
             </fieldset>
           )}
           {progress && <Progress label={progress.label} fraction={progress.fraction} />}
-          {preview && <PreviewPanel preview={preview} timeZone={timeZone} busy={progress !== null} onCommit={doCommit} />}
+          {preview && <PreviewPanel preview={preview} timeZone={timeZone} busy={progress !== null} onCommit={doCommit} onUnmap={unmap} />}
         </div>
       )}
 
@@ -197,7 +204,7 @@ export default function TrendUpload({ patientId, canChart }: Props) {
             {data.imports.map((imp) => (
               <tr key={imp.id} className="border-t border-ink-100 align-top dark:border-ink-800">
                 <td className="py-1.5">{imp.fileName}<br /><span className="font-mono text-xs text-ink-500">{imp.fileHash.slice(0, 12)}…</span></td>
-                <td>{imp.rowsStored.toLocaleString('en-GB')} stored{imp.rowsSkipped ? `, ${imp.rowsSkipped} skipped` : ''}{imp.rowsRefused ? `, ${imp.rowsRefused} refused` : ''}</td>
+                <td>{formatCount(imp.rowsStored)} stored{imp.rowsSkipped ? `, ${imp.rowsSkipped} skipped` : ''}{imp.rowsRefused ? `, ${imp.rowsRefused} refused` : ''}</td>
                 <td>{when(imp.firstAt, timeZone)} – {when(imp.lastAt, timeZone)}</td>
                 <td>{when(imp.committedAt, timeZone)} by {imp.committedBy}</td>
                 <td>{imp.withdrawnAt
@@ -226,8 +233,10 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   );
 }
 
-function PreviewPanel({ preview, timeZone, busy, onCommit }: { preview: TrendPreview; timeZone: string; busy: boolean; onCommit: () => void }) {
-  const n = (v: number) => v.toLocaleString('en-GB');
+const FIELD_WORDS: Record<string, string> = { time: 'time', spo2: 'SpO₂', heartRate: 'heart rate', perfusionIndex: 'perfusion index', quality: 'trace quality' };
+
+function PreviewPanel({ preview, timeZone, busy, onCommit, onUnmap }: { preview: TrendPreview; timeZone: string; busy: boolean; onCommit: () => void; onUnmap: (field: 'perfusionIndex' | 'quality', column: string) => void }) {
+  const n = formatCount;
   const blocked = preview.alreadyImported !== null || preview.toStore === 0;
   return (
     <div className="rounded-md border border-ink-200 p-3 dark:border-ink-700" data-testid="trend-preview">
@@ -257,12 +266,35 @@ function PreviewPanel({ preview, timeZone, busy, onCommit }: { preview: TrendPre
           </ul>
         </details>
       )}
+      {preview.unfitColumns.map((u) => (
+        <div key={u.field} role="alert" className="mt-2 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-900 dark:bg-coral-900/30 dark:text-coral-100" data-testid="unfit-column">
+          Column <strong>“{u.column}”</strong>, mapped as {FIELD_WORDS[u.field]}, does not fit: {n(u.refused)} of {n(preview.rowCount)} rows were refused for its values
+          {u.examples.length ? <> (such as {u.examples.map((x) => `“${x}”`).join(', ')})</> : null}.{' '}
+          {u.canUnmap
+            ? <button type="button" className="btn-quiet ml-1" onClick={() => onUnmap(u.field as 'perfusionIndex' | 'quality', u.column)}>Leave “{u.column}” unmapped</button>
+            : <>Choose another column for {FIELD_WORDS[u.field]}.</>}
+        </div>
+      ))}
       {preview.refused.count > 0 && (
-        <table className="mt-2 w-full text-sm" data-testid="refused-rows">
-          <caption className="text-left font-bold">Refused rows{preview.refused.count > preview.refused.rows.length ? ` (first ${preview.refused.rows.length} of ${n(preview.refused.count)})` : ''}</caption>
-          <thead><tr className="text-left text-ink-500"><th className="w-20">Line</th><th>Reason</th></tr></thead>
-          <tbody>{preview.refused.rows.map((r) => <tr key={r.line} className="border-t border-ink-100 dark:border-ink-800"><td>{r.line}</td><td>{r.reason}</td></tr>)}</tbody>
+        <table className="mt-2 w-full text-sm" data-testid="refused-groups">
+          <caption className="text-left font-bold">Refused rows by reason ({n(preview.refused.count)})</caption>
+          <thead><tr className="text-left text-ink-500"><th>Reason</th><th className="w-20 text-right">Rows</th><th className="pl-4">First lines</th></tr></thead>
+          <tbody>{preview.refused.groups.map((g) => (
+            <tr key={g.reason} className="border-t border-ink-100 dark:border-ink-800">
+              <td>{g.reason}</td><td className="text-right tabular-nums">{n(g.count)}</td>
+              <td className="pl-4">{g.firstLines.join(', ')}{g.count > g.firstLines.length ? ', …' : ''}</td>
+            </tr>
+          ))}</tbody>
         </table>
+      )}
+      {preview.refused.count > 0 && (
+        <details className="mt-1 text-sm">
+          <summary>Each refused line{preview.refused.count > preview.refused.rows.length ? ` (first ${preview.refused.rows.length} of ${n(preview.refused.count)})` : ''}</summary>
+          <table className="mt-1 w-full text-sm" data-testid="refused-rows">
+            <thead><tr className="text-left text-ink-500"><th className="w-20">Line</th><th>Reason</th></tr></thead>
+            <tbody>{preview.refused.rows.map((r) => <tr key={r.line} className="border-t border-ink-100 dark:border-ink-800"><td>{r.line}</td><td>{r.reason}</td></tr>)}</tbody>
+          </table>
+        </details>
       )}
       <button type="button" className="btn-primary mt-3" disabled={blocked || busy} onClick={onCommit}>
         Commit {n(preview.toStore)} readings

@@ -2,12 +2,13 @@ import { useState, type FormEvent, type ReactElement } from 'react';
 import useSWR from 'swr';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { formatDateTime } from '~/lib/time/format.ts';
 
-interface Props { unitCode: string; units: { code: string; name: string }[]; canAdmit: boolean }
+interface Props { timeZone: string; unitCode: string; units: { code: string; name: string }[]; canAdmit: boolean }
 interface BedsResponse { unit: { code: string; name: string }; beds: { id: number; label: string; occupied: boolean }[] }
 
 /** A unit's patients with admit, move and discharge for the charge nurse. */
-export default function PatientList({ unitCode, units, canAdmit }: Props) {
+export default function PatientList({ timeZone, unitCode, units, canAdmit }: Props) {
   const [showDischarged, setShowDischarged] = useState(false);
   const listKey = `/api/patients?unit=${encodeURIComponent(unitCode)}&discharged=${showDischarged ? 'include' : 'exclude'}`;
   const { data, error, mutate } = useSWR<{ patients: PatientSummary[] }>(listKey, fetchJson, { refreshInterval: 15_000 });
@@ -44,7 +45,7 @@ export default function PatientList({ unitCode, units, canAdmit }: Props) {
                   <td className="py-2 font-mono">{p.bed?.label ?? <span className="text-ink-400">discharged</span>}</td>
                   <td><a className="font-bold underline" href={`/patients/${p.id}`}>{p.familyName}, {p.givenName}</a> <span className="text-ink-500">{p.mrn}{p.co2RetentionRisk ? ' · CO₂ retention risk' : ''}</span></td>
                   <td>{p.band ? `${p.band.low}–${p.band.high} %` : <strong>no band ordered</strong>}</td>
-                  <td>{p.admittedAt ? new Date(p.admittedAt).toLocaleString() : ''}</td>
+                  <td>{p.admittedAt ? formatDateTime(p.admittedAt, timeZone) : ''}</td>
                   <td>{canAdmit && p.bed && <StayActions patient={p} units={units} currentUnit={unitCode} onDone={refresh} />}</td>
                 </tr>
               ))}

@@ -5,10 +5,12 @@ import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
 import type { StripResult } from '~/lib/server/pleth-strips/checks.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
+import { formatCount, formatDayTime } from '~/lib/time/format.ts';
 
 interface Props { patientId: number | null }
 interface Loaded { name: string; text: string; result: StripResult }
 interface ChecksResponse {
+  timeZone: string;
   checks: { id: number; fileName: string; verdict: string; summary: string; spo2: number | null; heartRate: number | null; perfusionIndex: number | null; reasons: string[]; note: string | null; checkedAt: string; checkedBy: string; reading: { takenAt: string; spo2: number | null } | null }[];
   readings: { id: number; takenAt: string; source: string; spo2: number | null; trace: string }[];
 }
@@ -111,8 +113,13 @@ function Findings({ loaded }: { loaded: Loaded }) {
           <div><dt className="text-sm text-ink-500">R (median)</dt><dd className="text-2xl font-bold">{fmt(a.rMedian, 3)}</dd></div>
           <div><dt className="text-sm text-ink-500">Beats</dt><dd className="text-2xl font-bold">{clean} clean{a.beats.length > clean ? ` · ${a.beats.length - clean} in motion` : ''}</dd></div>
         </dl>
+        <ul className="mt-3 space-y-1 text-sm text-ink-700 dark:text-ink-200" data-testid="pleth-meanings">
+          <li><strong>R</strong> compares how much of the red light the pulse takes away with how much of the infrared: the lower R, the higher the saturation. An R outside what the curve covers cannot be read as a saturation — suspect the probe.</li>
+          <li><strong>Quality index</strong> (skewness of each pulse): a clean arterial pulse rises fast and falls slowly, giving a clearly positive value; near zero or negative means the shape is not a pulse — movement, a loose probe or light leaking in.</li>
+          <li><strong>Perfusion index</strong> is the pulsing share of the infrared light: under about 0.4 % (common practice) the pulse is too weak for a reliable reading — cold hands, poor circulation.</li>
+        </ul>
         <p className="mt-2 text-xs text-ink-500">
-          {result.samples.toLocaleString('en-GB')} samples at {result.sampleRateHz} Hz ({result.durationSec.toFixed(1)} s). Curve: {result.curve.source}.
+          {formatCount(result.samples)} samples at {result.sampleRateHz} Hz ({result.durationSec.toFixed(1)} s). Curve: {result.curve.source}.
           Motion in {(a.motionFraction * 100).toFixed(0)} % of one-second windows.
         </p>
       </section>
@@ -157,8 +164,8 @@ function Attach({ loaded, initialPatient, sampleRate }: { loaded: Loaded; initia
   const [observationId, setObservationId] = useState('');
   const [note, setNote] = useState('');
   const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
-  const tz = Intl.DateTimeFormat().resolvedOptions().timeZone;
-  const time = (iso: string) => new Intl.DateTimeFormat('en-GB', { timeZone: tz, dateStyle: 'short', timeStyle: 'short' }).format(new Date(iso));
+  // The unit's zone (from the API), never the browser's.
+  const time = (iso: string) => (checks.data ? formatDayTime(iso, checks.data.timeZone) : '');
 
   async function attach() {
     if (!patientId) return;

@@ -26,10 +26,14 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/patients', label: 'Patients', roles: CLINICAL_ROLES },
   { href: '/pleth', label: 'Strip check', roles: CLINICAL_ROLES },
   { href: '/escalations', label: 'Outreach queue', roles: CLINICAL_ROLES },
-  { href: '/admin/users', label: 'Users', roles: ['admin'] },
+  { href: '/admin/users', label: 'Staff', roles: ['admin'] },
+  { href: '/admin/units', label: 'Units and beds', roles: ['admin'] },
+  { href: '/admin/audit', label: 'Audit', roles: ['admin'] },
   { href: '/admin/settings', label: 'Escalation settings', roles: ['admin'] },
   { href: '/admin/mail', label: 'Mail', roles: ['admin'] },
   { href: '/admin/devices', label: 'Device keys', roles: ['admin'] },
+  { href: '/admin/gateways', label: 'HL7 gateways', roles: ['admin'] },
+  { href: '/account', label: 'My account', roles: [...CLINICAL_ROLES, 'admin'] },
 ];
 
 export function navFor(role: Role): NavItem[] {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Reading } from '~/lib/oxygenation/types.ts';
 import { DEFAULT_UNIT_SETTINGS } from '~/lib/units/settings.ts';
-import { buildTile, sortTiles, type BedInput } from './tiles.ts';
+import { buildTile, latestWords, monitorWords, sortTiles, stateWords, type BedInput } from './tiles.ts';
 
 const now = Date.UTC(2026, 11, 2, 12, 0);
 const min = 60_000;
@@ -30,7 +30,7 @@ describe('board tiles', () => {
 
   it('says below band with its duration when trusted device readings stay under the lower limit', () => {
     const t = buildTile(bed('4-01', [charted(30, 94), ...everyMinute(40, 19, () => 94), ...everyMinute(18, 0, () => 88)]), now, settings);
-    expect(t.state).toEqual({ name: 'below', sinceMin: 18 });
+    expect(t.state).toMatchObject({ name: 'below', sinceMin: 18, was: null });
     expect(t.concern.key).toBe('below_band');
     expect(t.concern.reason).toBe('Below band 18 min');
     expect(t.concerns.belowBand?.severity).toBe('standard');
@@ -95,3 +95,51 @@ describe('board tiles', () => {
     expect(t.sentence).toContain('Below band 18 min.');
   });
 });
+
+describe('every value has its age (issue 10 points 1 and 4)', () => {
+  const settings = DEFAULT_UNIT_SETTINGS; // monitor silent after 3 min (a unit setting)
+  const London = 'Europe/London'; // = UTC in December
+  const seconds = (secAgo: number, spo2: number, extra: Partial<Reading> = {}): Reading => ({ at: now - secAgo * 1000, spo2, trace: 'clean', source: 'device', heartRate: 90, ...extra });
+
+  it('the big number says where it comes from and how old it is', () => {
+    const t = buildTile(bed('4-01', [charted(30, 94), seconds(40, 94)]), now, settings, London);
+    expect(latestWords(t)).toBe('monitor · 40 s ago');
+    const c = buildTile(bed('4-02', [charted(59, 94)]), now, settings, London);
+    expect(latestWords(c)).toBe('charted 11:01');
+    expect(c.monitor).toBeNull(); // no monitor readings: never "silent"
+  });
+
+  it('a silent monitor after below-band readings: "was below band until", duration frozen, concern kept, monitor silent since', () => {
+    // Below band 11:30–11:45 every minute, then nothing for 15 minutes (the case seen on the demo).
+    const readings = [charted(60, 94), ...everyMinute(30, 15, () => 89)];
+    const t = buildTile(bed('4-03', readings), now, settings, London);
+    expect(t.state).toMatchObject({ name: 'no_reading', was: 'below', wasMin: 15, until: now - 15 * min });
+    expect(stateWords(t)).toBe('was below band 15 min until 11:45 · no reading since');
+    expect(monitorWords(t)).toBe('monitor silent since 11:45');
+    expect(t.concern.key).toBe('below_band');
+    expect(t.concern.reason).toBe('Was below band 15 min, until 11:45 — no reading since: check the bedside');
+    expect(latestWords(t)).toBe('monitor · 11:45');
+    // Ten minutes later the words are the same: nothing grows while nothing arrives.
+    const later = buildTile(bed('4-03', readings), now + 10 * min, settings, London);
+    expect(stateWords(later)).toBe(stateWords(t));
+    expect(later.concern.reason).toBe(t.concern.reason);
+    expect(later.sentence).toContain('Monitor silent since 11:45.');
+  });
+
+  it('a monitor quiet for less than the unit setting is not silent', () => {
+    const t = buildTile(bed('4-04', [charted(30, 94), seconds(170, 94)]), now, settings, London);
+    expect(t.monitor).toMatchObject({ silent: false });
+    expect(buildTile(bed('4-04', [charted(30, 94), seconds(170, 94)]), now, { ...settings, monitorSilentMin: 2 }, London).monitor?.silent).toBe(true);
+  });
+
+  it('an untrusted reading says why: its trace, or its perfusion index under the unit threshold with the value', () => {
+    const pi = buildTile(bed('4-05', [charted(30, 94), ...Array.from({ length: 20 }, (_, i) => seconds(i * 50, 85, { perfusionIndex: 0.2 })).reverse()]), now, settings, London);
+    expect(pi.latest).toMatchObject({ trusted: false, trace: 'clean', untrustedReason: 'perfusion index 0.2 % under 0.4 %' });
+    expect(stateWords(pi)).toMatch(/^untrusted reading/);
+    expect(pi.sentence).toContain('not trusted: perfusion index 0.2 % under 0.4 %');
+    expect(pi.sentence).not.toContain('poor trace');
+    const noisy = buildTile(bed('4-06', [charted(30, 94), seconds(5, 80, { trace: 'noisy' })]), now, settings, London);
+    expect(noisy.latest?.untrustedReason).toBe('noisy trace');
+  });
+});
+

@@ -53,8 +53,11 @@ export interface ObsView {
 
 export interface ObsPage { items: ObsView[]; page: number; pageSize: number; total: number }
 
-export interface SeriesPoint { t: number; v: number }
+/** `lo` / `hi`: the min–max envelope when the point stands for a bucket of readings (long windows). */
+export interface SeriesPoint { t: number; v: number; lo?: number; hi?: number }
 export interface Spo2Point extends SeriesPoint { trusted: boolean; source: ReadingSource }
+/** FiO₂ step: the value from `t` until the next step, with the device and flow charted with it. */
+export interface Fio2Step extends SeriesPoint { device: OxygenDevice | null; flowLpm: number | null; estimated: boolean }
 export interface BandSegment { from: number; to: number; low: number; high: number }
 
 export interface DerivedFigures {
@@ -75,7 +78,9 @@ export interface SeriesResponse {
   patientId: number; hours: number; from: number; to: number; generatedAt: string;
   spo2: Spo2Point[]; heartRate: SeriesPoint[];
   /** Step line: each point holds until the next. */
-  fio2: SeriesPoint[];
+  fio2: Fio2Step[];
+  /** 0 when the lines are raw readings (downsampled); else the bucket each enveloped point stands for. */
+  bucketMs: number;
   bands: BandSegment[];
   /** Filled once escalations exist: raised/closed marks on the chart. */
   escalations: { id: number; raisedAt: number; closedAt: number | null; kind: string; severity: string | null }[];

@@ -34,6 +34,11 @@ export const MAX_BACKDATE_HOURS = 4;
 /** A little slack for clocks that disagree between a bedside PC and the server. */
 export const FUTURE_SLACK_MS = 2 * 60_000;
 export const CALIBRATED_FLOOR_PCT = 70;
+/**
+ * Obs taken on arrival are often charted a few minutes before the admission is entered; earlier
+ * than this before the stay began, an obs would belong to another bed (or none) and is refused.
+ */
+export const BEFORE_STAY_SLACK_MS = 15 * 60_000;
 
 const emptyToUndefined = (v: unknown) => (v === '' || v === null ? undefined : v);
 const optionalNumber = (label: string, min: number, max: number, unit: string, opts: { int?: boolean } = {}) =>
@@ -54,8 +59,9 @@ export const fio2Field = z.preprocess(
   z.coerce
     .number({ invalid_type_error: 'FiO₂ must be a number' })
     .refine((v) => Number.isFinite(v), 'FiO₂ must be a number')
-    .refine((v) => !(v > 1 && v < 21) && v >= 0.21, 'FiO₂ cannot be under 21 % (0.21) — room air is 21 %')
-    .refine((v) => v <= 100, 'FiO₂ cannot be over 100 % (1.0)')
+    // 2–21 reads as a percentage under room air; just over 1 as a fraction over 1.0 (e.g. 1.01).
+    .refine((v) => v >= 0.21 && !(v >= 2 && v < 21), 'FiO₂ cannot be under 21 % (0.21) — room air is 21 %')
+    .refine((v) => !(v > 1 && v < 2) && v <= 100, 'FiO₂ cannot be over 100 % (1.0)')
     .transform((v) => Math.round((v > 1 ? v / 100 : v) * 1000) / 1000)
     .optional(),
 );

@@ -23,9 +23,11 @@ export interface DecideInput {
   open: OpenEscalation[];
   /** Run start of the newest closed escalation of each kind: the same run is never raised twice. */
   lastClosedRunStart: Partial<Record<EscalationKind, number>>;
+  /** The monitor fell silent right after trusted below-band readings: a probe check too. */
+  silentAfterBelow?: { since: number; lastReading: { at: number } } | null;
 }
 
-export function decideEscalations({ concerns, state, open, lastClosedRunStart }: DecideInput): EscalationAction[] {
+export function decideEscalations({ concerns, state, open, lastClosedRunStart, silentAfterBelow = null }: DecideInput): EscalationAction[] {
   const actions: EscalationAction[] = [];
   const openOf = (kind: EscalationKind) => open.find((e) => e.kind === kind);
 
@@ -43,7 +45,7 @@ export function decideEscalations({ concerns, state, open, lastClosedRunStart }:
 
   // Board prompts: raised while the condition holds, closed by the system once it clears.
   const prompts: [EscalationKind, { since: number; lastReading: { at: number } } | null, string][] = [
-    ['probe_check', concerns.cannotVerify, 'A trusted reading came in: the trace can be verified again'],
+    ['probe_check', concerns.cannotVerify ?? silentAfterBelow, 'A trusted reading came in: the trace can be verified again'],
     ['wean_prompt', concerns.aboveOnOxygen, 'No longer above band on oxygen'],
   ];
   for (const [kind, concern, clearedReason] of prompts) {

@@ -27,6 +27,11 @@ export const unitSettingsSchema = z.object({
   aboveOnOxygenMin: minutes('Above band on O₂ time (min)', 10, 240),
   renotifyMin: minutes('Re-notify after (min)', 5, 120),
   overdueMin: minutes('Obs overdue after (min)', 30, 240),
+  // Added with issue 10; optional so a client that does not know them keeps the defaults.
+  unitPhone: z.string().trim().max(40, 'Unit phone: 40 characters at most').regex(/^[0-9+()\-. x]*$/, 'Unit phone: digits, spaces and + ( ) - . x only').nullable().optional()
+    .transform((v) => (v ? v : null)),
+  monitorSilentMin: minutes('Monitor silent after (min)', 1, 30).default(3),
+  silentBelowProbeMin: minutes('Silent after below band: probe check after (min)', 1, 30).default(3),
   outreachEmails: z.array(z.string().trim().toLowerCase().email('Not an e-mail address')).min(1, 'Give at least one outreach e-mail address').max(20),
   /** Blood-gas display unit and barometric pressure; left out, the unit keeps what it has. */
   gasUnit: z.enum(['kPa', 'mmHg'], { errorMap: () => ({ message: 'Gas unit is kPa or mmHg' }) }).optional(),

@@ -31,6 +31,31 @@ describe('judgePatient', () => {
   });
 });
 
+describe('monitor silent right after trusted below-band readings (issue 10 point 2; unit setting default 3 min)', () => {
+  const device = (secAgo: number, spo2: number, extra: Partial<Reading> = {}): Reading => ({ at: now - secAgo * 1000, spo2, trace: 'clean', source: 'device', ...extra });
+  const belowThenSilent = (silentSec: number) => Array.from({ length: 30 }, (_, i) => device(silentSec + (29 - i) * 2, 88));
+
+  it('raises a bedside probe check once the monitor has been silent for the setting', () => {
+    const j = judgePatient({ ...base, readings: belowThenSilent(181), band: band(600) });
+    expect(j.silentAfterBelow).toMatchObject({ since: now - 181_000 });
+    expect(j.actions).toEqual([{ type: 'raise', kind: 'probe_check', severity: null, runStart: now - 181_000, runEnd: now - 181_000 }]);
+    expect(j.state.state).toBe('no_reading'); // the tile says so; the concern does not vanish silently
+  });
+
+  it('not before the setting, not after in-band or untrusted last readings, and the setting is the unit\'s', () => {
+    expect(judgePatient({ ...base, readings: belowThenSilent(170), band: band(600) }).actions).toEqual([]);
+    expect(judgePatient({ ...base, readings: [...belowThenSilent(300), device(200, 95)], band: band(600) }).silentAfterBelow).toBeNull();
+    expect(judgePatient({ ...base, readings: [...belowThenSilent(300), device(200, 80, { trace: 'noisy' })], band: band(600) }).silentAfterBelow).toBeNull();
+    expect(judgePatient({ ...base, settings: { ...DEFAULT_UNIT_SETTINGS, silentBelowProbeMin: 10 }, readings: belowThenSilent(400), band: band(600) }).actions).toEqual([]);
+  });
+
+  it('closes the probe check when readings come in again', () => {
+    const open = [{ id: 3, kind: 'probe_check' as const, severity: null, runStart: now - 400_000, backInBandNoted: false }];
+    const j = judgePatient({ ...base, open, readings: [...belowThenSilent(400), device(5, 95)], band: band(600) });
+    expect(j.actions).toEqual([{ type: 'auto_close', id: 3, kind: 'probe_check', reason: 'A trusted reading came in: the trace can be verified again' }]);
+  });
+});
+
 describe('row helpers', () => {
   it('keeps every reading when no band is ordered', () => {
     expect(readingsUnderBand([{ at: 1 }, { at: 2 }], null)).toHaveLength(2);

@@ -18,6 +18,7 @@ const FIFTEEN_MIN = 15 * 60_000;
 
 /** Offsets (ms, local − UTC) of one zone, cached per quarter hour: every real transition falls on one. */
 export function zoneOffsets(timeZone: string): (utcMs: number) => number {
+  // Intl here reads zone offsets (a computation), it formats nothing for display.
   const fmt = new Intl.DateTimeFormat('en-GB', {
     timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric',
   });

@@ -3,6 +3,7 @@
  * (POST /api/ingest) and the trend-file upload, so both refuse the same things the same way.
  */
 import { z } from 'zod';
+import { isRealIsoDateTime } from '~/lib/time/iso.ts';
 import { TRACE_QUALITIES, type TraceQuality } from '~/lib/oxygenation/types.ts';
 
 /** Plausibility limits: the same as charted obs for SpO₂ and heart rate (deliberately wide). */
@@ -65,7 +66,7 @@ export function ingestBatchSchema(now: Date) {
         for (let i = 0; i < readings.length; i++) {
           const r = readings[i]!;
           const t = Date.parse(r.at);
-          if (Number.isNaN(t)) ctx.addIssue({ code: z.ZodIssueCode.custom, path: [i, 'at'], message: 'Time is not a real date and time' });
+          if (!ISO_WITH_OFFSET.test(r.at)) { /* already named by the reading's own check */ } else if (Number.isNaN(t) || !isRealIsoDateTime(r.at)) ctx.addIssue({ code: z.ZodIssueCode.custom, path: [i, 'at'], message: 'Time is not a real date and time' });
           else if (t > latest) ctx.addIssue({ code: z.ZodIssueCode.custom, path: [i, 'at'], message: 'Time is in the future: check the gateway clock' });
           else if (t < earliest) ctx.addIssue({ code: z.ZodIssueCode.custom, path: [i, 'at'], message: 'Older than 24 h: send older readings as a trend file' });
           if ((r.spo2 ?? null) === null && (r.heartRate ?? null) === null && r.trace !== 'absent') {

@@ -1,9 +1,39 @@
 import { describe, expect, it } from 'vitest';
-import { TrendFileError, parseTrendCsv } from './trend-csv.ts';
+import { TrendFileError, groupRefusals, parseTrendCsv } from './trend-csv.ts';
 import { guessMapping, headerNames, mappingFits, trendMappingSchema } from './mapping.ts';
 
 const mapping = (extra: Record<string, unknown> = {}) =>
   trendMappingSchema.parse({ time: 'Time', spo2: 'SpO2', heartRate: 'HR', perfusionIndex: 'PI', quality: 'Quality', timeMode: 'iso', ...extra });
+
+describe('trend upload: unfit columns and grouped refusals (issue 10 point 10)', () => {
+  it('names a mapped column whose values do not fit, with examples, and offers to unmap only optional ones', () => {
+    const lines = ['Time,SpO2,HR,Status'];
+    for (let i = 0; i < 10; i++) lines.push(`2026-12-01T10:00:0${i}Z,95,80,${i % 2 ? 'ok' : 'OK'}`);
+    const p = parseTrendCsv(lines.join('\n'), mapping({ perfusionIndex: '', quality: 'Status' }), 'Europe/London');
+    expect(p.rows).toHaveLength(0);
+    expect(p.unfitColumns).toEqual([{ field: 'quality', column: 'Status', refused: 10, examples: ['OK', 'ok'], canUnmap: true }]);
+    // Unmapped, the same file is all readable.
+    expect(parseTrendCsv(lines.join('\n'), mapping({ perfusionIndex: '', quality: '' }), 'Europe/London').rows).toHaveLength(10);
+    const hr = parseTrendCsv('Time,SpO2,HR\n2026-12-01T10:00:00Z,95,fast\n', mapping({ perfusionIndex: '', quality: '' }), 'Europe/London');
+    expect(hr.unfitColumns).toEqual([{ field: 'heartRate', column: 'HR', refused: 1, examples: ['fast'], canUnmap: false }]);
+  });
+
+  it('a few bad values do not make a column unfit', () => {
+    const csv = 'Time,SpO2,HR\n2026-12-01T10:00:00Z,95,80\n2026-12-01T10:00:01Z,95,80\n2026-12-01T10:00:02Z,95,x\n';
+    expect(parseTrendCsv(csv, mapping({ perfusionIndex: '', quality: '' }), 'Europe/London').unfitColumns).toEqual([]);
+  });
+
+  it('groups refused lines by reason, largest first, with counts and the first line numbers', () => {
+    const lines = ['Time,SpO2,HR'];
+    for (let i = 0; i < 8; i++) lines.push(`2026-12-01T10:00:0${i}Z,${101 + i},80`); // lines 2–9: over 100
+    lines.push('nonsense,95,80', 'later,95,80'); // lines 10, 11
+    const p = parseTrendCsv(lines.join('\n'), mapping({ perfusionIndex: '', quality: '' }), 'Europe/London');
+    expect(groupRefusals(p.refused, 3)).toEqual([
+      { reason: 'SpO₂ over 100 %', field: 'spo2', count: 8, firstLines: [2, 3, 4] },
+      { reason: 'time is not a date and time this import understands', field: 'time', count: 2, firstLines: [10, 11] },
+    ]);
+  });
+});
 
 describe('trend file parsing', () => {
   it('reads mapped columns in any order and ignores the rest', () => {
@@ -60,7 +90,7 @@ describe('trend file parsing', () => {
     const csv = 'Time,SpO2,HR\n29/03/2026 00:59:00,95,80\n29/03/2026 01:30:00,95,80\n29/03/2026 02:00:00,95,80\n';
     const p = parseTrendCsv(csv, mapping({ perfusionIndex: null, quality: null, timeMode: 'local' }), 'Europe/London');
     expect(p.rows.map((r) => new Date(r.at).toISOString())).toEqual(['2026-03-29T00:59:00.000Z', '2026-03-29T01:00:00.000Z']);
-    expect(p.refused).toEqual([{ line: 3, reason: 'time 2026-03-29 01:30:00 does not exist in Europe/London (the clocks went forward)' }]);
+    expect(p.refused).toMatchObject([{ line: 3, reason: 'time 2026-03-29 01:30:00 does not exist in Europe/London (the clocks went forward)' }]);
   });
 
   it('refuses the whole file when a mapped column is missing or there is no header', () => {

@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { bandState, detectConcerns } from './concerns';
+import { bandCompliance } from './compliance';
 import { ComputationInputError } from './errors';
 import { isTrusted } from './trust';
 import type { Reading, ReadingSource, TraceQuality } from './types';
@@ -214,5 +215,49 @@ describe('bandState (board tile)', () => {
 
   it('a gap with no reading starts a new run', () => {
     expect(bandState([device(0, 90), device(600, 90)], BAND, T0 + 601_000)).toMatchObject({ state: 'below', since: T0 + 600_000 });
+  });
+});
+
+describe('one rule for runs across gaps (issue 10 point 3): escalation dwell, board state and compliance agree', () => {
+  // A device reading stands for at most 2 min (compliance default); past that is "no reading".
+  const figures = (readings: Reading[], now: number) => ({
+    concerns: detectConcerns(readings, BAND, now),
+    state: bandState(readings, BAND, now),
+    compliance: bandCompliance(readings, [{ from: T0, low: BAND.low, high: BAND.high }], { from: T0, to: now }),
+  });
+
+  it('two trusted below-band device readings 5 min apart with nothing between: no dwell, the state restarts at the gap', () => {
+    const readings = [device(0, 88), device(300, 88)];
+    const { concerns, state, compliance } = figures(readings, T0 + 301_000);
+    expect(concerns.belowBand).toBeNull();
+    expect(state.state).toBe('below');
+    expect(state.since).toBe(T0 + 300_000); // not T0: the gap broke the run
+    expect(compliance.noReadingMin).toBeCloseTo(3, 5); // 2–5 min had no reading
+  });
+
+  it('a 4 h gap between below-band runs starts the run afresh', () => {
+    const readings = [...deviceRun(0, 301, 88), ...deviceRun(4 * 3600, 3, 88)]; // 5 min of readings, 4 h gap, 3 more
+    const before = detectConcerns(readings.slice(0, 301), BAND, T0 + 300_000);
+    expect(before.belowBand?.runStart).toBe(T0);
+    const { concerns, state } = figures(readings, T0 + 4 * 3_600_000 + 20_000);
+    expect(concerns.belowBand).toBeNull(); // 10 s of readings after the gap: no dwell yet
+    expect(state.since).toBe(T0 + 4 * 3_600_000);
+  });
+
+  it('the dwell edge: readings exactly 2 min apart carry the run; 2 min 1 s apart do not', () => {
+    const every = (stepSec: number) => [0, 1, 2, 3].map((k) => device(k * stepSec, 88));
+    const carried = figures(every(120), T0 + 360_000 + 1);
+    expect(carried.concerns.belowBand).toMatchObject({ rule: 'device_dwell', runStart: T0, runEnd: T0 + 360_000 });
+    expect(carried.state.since).toBe(T0);
+    const broken = figures(every(121), T0 + 363_000 + 1);
+    expect(broken.concerns.belowBand).toBeNull();
+    expect(broken.state.since).toBe(T0 + 363_000);
+    // Compliance: each reading counts for its 2 min at most; the extra second a step is "no reading".
+    expect(broken.compliance.noReadingMin).toBeCloseTo(3 / 60, 5);
+  });
+
+  it('charted obs stand for 75 min: two charted obs 20 min apart are one run, as before', () => {
+    const c = detectConcerns([charted(0, 89), charted(20, 88)], BAND, at(21));
+    expect(c.belowBand?.rule).toBe('charted_consecutive');
   });
 });

@@ -98,8 +98,11 @@ class OxygenTracker {
  * judged against `band` (the band in force now): pass readings since the current order began when
  * older readings should not be re-judged. With `band` null only cannot-verify is evaluated.
  *
- * - belowBand: the current run of trusted readings below the lower limit — a run is ended only by
- *   a trusted reading that is not below band; untrusted readings neither end nor extend it, so a
+ * - Gaps: every reading stands for at most its source's validity window (compliance settings: 75 min
+ *   charted, 2 min device/import — the rule bandState and band compliance use); a reading after a
+ *   stretch that no reading covers starts every run afresh.
+ * - belowBand: the current run of trusted readings below the lower limit — a run is ended by a gap or
+ *   by a trusted reading that is not below band; untrusted readings neither end nor extend it, so a
  *   poor trace never hides a desaturation and never causes one. The concern stands when the run
  *   holds `consecutiveCharted` trusted charted readings, or trusted device/import readings span
  *   `deviceDwellMin` (first to last such reading). Urgent when any trusted reading of the run is
@@ -129,6 +132,13 @@ export function detectConcerns(
   const floor = cfg.urgentFloorPct;
   const minPi = cfg.minPerfusionIndexPct;
   const oxygen = new OxygenTracker();
+  // One rule for runs across gaps (shared with bandState and band compliance): a reading stands for
+  // at most its source's validity window; a reading after a stretch no reading covers starts every
+  // run afresh, so time past the window is "no reading" and counts toward no dwell.
+  const chartedMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * MS_PER_MIN;
+  const deviceMs = DEFAULT_COMPLIANCE_SETTINGS.deviceMaxGapMin * MS_PER_MIN;
+  const importMs = DEFAULT_COMPLIANCE_SETTINGS.importMaxGapMin * MS_PER_MIN;
+  let coveredUntil = -Infinity;
 
   // Below-band run.
   let runFirst = -1;
@@ -159,7 +169,14 @@ export function detectConcerns(
     last = i;
     const trusted = trustedWith(r, minPi, i);
     const source = r.source;
-    maxGapMsFor(source, 0, 0, 0, i); // validates the source
+    const stands = maxGapMsFor(source, chartedMs, deviceMs, importMs, i); // also validates the source
+    if (at > coveredUntil) {
+      runFirst = -1;
+      aboveFirst = -1;
+      streakFirst = -1;
+      streakCount = 0;
+    }
+    coveredUntil = at + stands; // a newer reading ends an older one's carry, as in band compliance
     oxygen.update(r, i);
     if (!trusted) {
       if (streakFirst < 0) streakFirst = i;
@@ -328,7 +345,7 @@ export function bandState(
       trustedState = 'no_reading';
       untrustedSince = NaN;
     }
-    if (at + gap > coveredUntil) coveredUntil = at + gap;
+    coveredUntil = at + gap; // a newer reading ends an older one's carry, as in band compliance
     lastTrusted = trusted;
     if (!trusted) {
       if (Number.isNaN(untrustedSince)) untrustedSince = at;

@@ -7,7 +7,7 @@ export * from './types';
 export * from './errors';
 export * from './constants';
 export * from './settings';
-export { isTrusted } from './trust';
+export { isTrusted, untrustedReason } from './trust';
 export { bandCompliance, type BandComplianceResult } from './compliance';
 export {
   detectConcerns,

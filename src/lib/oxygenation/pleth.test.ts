@@ -111,12 +111,27 @@ describe('pleth strip synthesised from Beer–Lambert at known saturations', () 
     expect(a.spo2).toBeCloseTo(110 - 25 * a.rMedian!, 10);
   });
 
-  it('reports a curve value above 100 % as 100 with a note, without lowering the verdict', () => {
-    const a = analysePlethStrip(synthesiseStrip({ spo2Pct: 100, heartRate: 75 }), linearApproxCurve);
-    expect(110 - 25 * a.rMedian!).toBeGreaterThan(100);
+  it('a curve value just over 100 % (measurement noise) is reported as 100 with a note, without lowering the verdict', () => {
+    // R 2 % under the 0.263 that Beer–Lambert gives at 100 % (Prahl): about 100.2 % on the curve.
+    const a = analysePlethStrip(synthesiseStrip({ spo2Pct: 100, ratio: beerLambertCurve.rFromSpo2(100) * 0.98, heartRate: 75 }));
     expect(a.spo2).toBe(100);
-    expect(a.notes).toHaveLength(1);
+    expect(a.notes.join(' ')).toMatch(/reported as 100 %/);
     expect(a.verdict).toBe('trustworthy');
+  });
+
+  it('R below the range the curve covers makes the verdict doubtful with the reason (issue 10 point 9)', () => {
+    // Linear approximation 110 − 25·R (from memory): 100 % at R 0.4; a fully saturated strip (R ≈ 0.26 by
+    // Prahl's coefficients) lies below that, so the curve cannot read it.
+    const a = analysePlethStrip(synthesiseStrip({ spo2Pct: 100, heartRate: 75 }), linearApproxCurve);
+    expect(110 - 25 * a.rMedian!).toBeGreaterThan(101);
+    expect(a.spo2).toBe(100);
+    expect(a.verdict).toBe('doubtful');
+    expect(a.reasons.join(' ')).toMatch(/^R 0\.\d{3} is below the lowest the curve covers \(0\.400 at 100 %\)/);
+    // And the Beer–Lambert curve: a strip drawn with R 0.20, under the 0.263 it gives at 100 % (319.6 / 1214, Prahl).
+    const b = analysePlethStrip(synthesiseStrip({ spo2Pct: 100, ratio: 0.2, heartRate: 75 }));
+    expect(b.rMedian).toBeCloseTo(0.2, 2);
+    expect(b.verdict).toBe('doubtful');
+    expect(b.reasons.join(' ')).toContain('below the lowest the curve covers (0.263 at 100 %)');
   });
 
   it('throws on empty, unequal or non-finite channels and a bad sample rate', () => {

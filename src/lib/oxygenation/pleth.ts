@@ -84,6 +84,21 @@ export interface PlethAnalysis {
   notes: string[];
 }
 
+/** How far over 100 % a curve value may be and still count as measurement noise around 100 %. */
+export const OVER_100_TOLERANCE_PCT = 1;
+
+/** The R at which a curve gives 100 % (found by bisection, so any monotone curve works). */
+function lowestR(curve: CalibrationCurve): number {
+  let lo = 0;
+  let hi = 10;
+  for (let i = 0; i < 60; i++) {
+    const mid = (lo + hi) / 2;
+    if (curve.spo2FromR(mid) > 100) lo = mid;
+    else hi = mid;
+  }
+  return (lo + hi) / 2;
+}
+
 function validateChannel(name: string, values: unknown, length: number | null): number[] {
   if (!Array.isArray(values)) throw new ComputationInputError(`strip.${name}`, 'must be an array of numbers', values);
   if (values.length === 0) throw new ComputationInputError(`strip.${name}`, 'must not be empty', values);
@@ -329,8 +344,13 @@ export function analysePlethStrip(
   let unusable = false;
   let spo2: number | null = curve.spo2FromR(rMedian);
   const notes: string[] = [];
-  if (spo2 > 100) {
-    // Saturation cannot exceed 100 %; empirical curves overshoot at low R, and oximeters show 100.
+  if (spo2 > 100 + OVER_100_TOLERANCE_PCT) {
+    // R below the lowest the curve allows (its value at 100 %): the saturation cannot be read from
+    // this strip. Clamping it to 100 % and calling it trustworthy would hide a probe problem.
+    reasons.push(`R ${rMedian.toFixed(3)} is below the lowest the curve covers (${lowestR(curve).toFixed(3)} at 100 %): SpO₂ cannot be read from this strip; reported as 100 % at most`);
+    spo2 = 100;
+  } else if (spo2 > 100) {
+    // Within measurement noise of 100 %: oximeters show 100.
     notes.push(`curve ${curve.name} gives ${spo2.toFixed(1)} % at R ${rMedian.toFixed(3)}; reported as 100 %`);
     spo2 = 100;
   }

@@ -23,6 +23,8 @@ export function pulseShape(phase: number): number {
 }
 
 export interface StripOptions {
+  /** Ratio of ratios R to draw instead of the one Beer–Lambert gives at spo2Pct (for out-of-range strips). */
+  ratio?: number;
   spo2Pct: number;
   heartRate: number;
   sampleRateHz?: number;
@@ -52,7 +54,7 @@ export interface StripOptions {
 export function synthesiseStrip(o: StripOptions): PlethStrip {
   const fs = o.sampleRateHz ?? 100;
   const n = Math.round((o.seconds ?? 10) * fs);
-  const r = beerLambertCurve.rFromSpo2(o.spo2Pct);
+  const r = o.ratio ?? beerLambertCurve.rFromSpo2(o.spo2Pct);
   const depthIr = (o.perfusionIndexPct ?? 2) / 100;
   const depthRed = depthIr * r;
   const dcRed = o.dcRed ?? 40_000;

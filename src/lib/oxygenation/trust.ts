@@ -35,6 +35,18 @@ export function trustedWith(r: Reading, minPi: number, index: number): boolean {
   return pi === undefined || pi === null || pi >= minPi;
 }
 
+/**
+ * Why a reading is not trusted, in the words the board and the chart show (null when it is trusted):
+ * its trace, no SpO₂, or a perfusion index under the unit's threshold — with the value.
+ */
+export function untrustedReason(r: Reading, minPi: number): string | null {
+  if (trustedWith(r, minPi, -1)) return null;
+  if (r.trace === 'noisy') return 'noisy trace';
+  if (r.trace === 'absent') return 'no trace (probe off?)';
+  if (r.spo2 === null) return 'no SpO₂ value';
+  return `perfusion index ${r.perfusionIndex} % under ${minPi} %`;
+}
+
 function field(index: number, name: string): string {
   return index < 0 ? `reading.${name}` : `readings[${index}].${name}`;
 }

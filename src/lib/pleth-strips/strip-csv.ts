@@ -8,6 +8,8 @@ import { detectDelimiter } from '~/lib/imports/mapping.ts';
 
 export const MAX_STRIP_BYTES = 2 * 1024 * 1024;
 export const MAX_STRIP_SAMPLES = 60_000;
+/** Pulse oximeter strips are sampled at tens to hundreds of Hz; above this a file is not a pleth strip (and the rate fits its column). */
+export const MAX_SAMPLE_RATE_HZ = 10_000;
 /** Sample times may wobble this much around the median spacing before the strip is refused. */
 const SPACING_TOLERANCE = 0.05;
 
@@ -88,5 +90,6 @@ export function parseStripCsv(text: string, sampleRateHz?: number): StripParse {
     if (bad >= 0) throw new StripFileError(`sample ${times[bad]} does not follow ${times[bad - 1]}`, bad + 2);
     fs = sampleRateHz;
   }
+  if (fs > MAX_SAMPLE_RATE_HZ) throw new StripFileError(`The strip is sampled at ${fs} Hz; at most ${MAX_SAMPLE_RATE_HZ} Hz is accepted.`);
   return { strip: { sampleRateHz: fs, red, infrared, dark }, timeColumn: ti >= 0 ? 'time' : 'index', samples: n, durationSec: n / fs };
 }

@@ -12,6 +12,12 @@ export interface UnitSettings extends EscalationSettings {
   gasUnit: GasUnit;
   /** Barometric pressure for the alveolar gas equation, mmHg. */
   barometricMmHg: number;
+  /** The unit's phone, given in escalation e-mail (null: not set). */
+  unitPhone: string | null;
+  /** A monitored bed whose newest device reading is older than this is "monitor silent". */
+  monitorSilentMin: number;
+  /** Silence this long right after trusted below-band readings raises a bedside probe check. */
+  silentBelowProbeMin: number;
 }
 
 export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
@@ -21,12 +27,16 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
   outreachEmails: [],
   gasUnit: 'kPa',
   barometricMmHg: SEA_LEVEL_MMHG,
+  unitPhone: null,
+  monitorSilentMin: 3,
+  silentBelowProbeMin: 3,
 };
 
 export interface UnitSettingsColumns {
   consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
   gas_unit?: GasUnit; barometric_mmhg?: number;
+  unit_phone?: string | null; monitor_silent_min?: number | null; silent_below_probe_min?: number | null;
 }
 
 export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
@@ -38,5 +48,8 @@ export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSetti
     renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
     gasUnit: row.gas_unit ?? DEFAULT_UNIT_SETTINGS.gasUnit, barometricMmHg: row.barometric_mmhg ?? DEFAULT_UNIT_SETTINGS.barometricMmHg,
+    unitPhone: row.unit_phone ?? null,
+    monitorSilentMin: row.monitor_silent_min ?? DEFAULT_UNIT_SETTINGS.monitorSilentMin,
+    silentBelowProbeMin: row.silent_below_probe_min ?? DEFAULT_UNIT_SETTINGS.silentBelowProbeMin,
   };
 }

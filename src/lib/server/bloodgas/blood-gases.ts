@@ -11,6 +11,7 @@ import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import { DEFAULT_UNIT_SETTINGS } from '~/lib/units/settings.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import {
   bloodGasesOf, currentGasesBetween, findBloodGas, inStayAt, insertBloodGas, lockBloodGas, markBloodGas, spo2ReadingsNear, unitGasSettings,
@@ -105,7 +106,7 @@ async function created(id: number, patientId: number): Promise<BloodGasCreated> 
 
 export async function chartBloodGas(user: SessionUser, patientId: number, input: BloodGasInput, now = new Date()): Promise<BloodGasCreated> {
   await authoriseGasCharting(user, patientId);
-  const id = await db().transaction(async (trx) => {
+  const id = await withTransactionRetry(async (trx) => {
     await lockPatient(trx, patientId); // same lock order as every obs writer
     const row = await rowFromInput(trx, input, patientId, user.id, now);
     const gasId = await insertBloodGas(trx, row);
@@ -133,7 +134,7 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, gasId: nu
 
 export async function correctBloodGas(user: SessionUser, gasId: number, reason: string, input: BloodGasInput, now = new Date()): Promise<BloodGasCreated> {
   let patientId = 0;
-  const id = await db().transaction(async (trx) => {
+  const id = await withTransactionRetry(async (trx) => {
     const original = await lockForChange(trx, user, gasId);
     patientId = original.patient_id;
     const row = { ...(await rowFromInput(trx, input, original.patient_id, user.id, now)), replaces_id: original.id };
@@ -150,7 +151,7 @@ export async function correctBloodGas(user: SessionUser, gasId: number, reason: 
 
 export async function markGasEnteredInError(user: SessionUser, gasId: number, reason: string, now = new Date()): Promise<BloodGasView> {
   let patientId = 0;
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     const original = await lockForChange(trx, user, gasId);
     patientId = original.patient_id;
     await markBloodGas(trx, original.id, { status: 'entered_in_error', status_reason: reason, status_by: user.id, status_at: now });

@@ -1,6 +1,6 @@
 /** The charge nurse assigns a nurse to a bed (or clears it); history is kept and audited. */
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { activeNursesOfUnit, endAssignment, findActiveUser, insertAssignment, openAssignment } from '~/lib/server/queries/assignments.ts';
 import { findBed } from '~/lib/server/queries/patients.ts';
@@ -16,7 +16,7 @@ export async function assignNurse(charge: SessionUser, bedId: number, nurseId: n
       throw new ApiError(400, 'invalid_input', 'Choose an active nurse of this unit.', { nurseId: 'Not an active nurse of this unit' });
     }
   }
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     const open = await openAssignment(trx, bedId);
     if (open?.nurse_id === nurseId) return;
     if (open) await endAssignment(trx, open.id, charge.id, now);

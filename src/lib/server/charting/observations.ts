@@ -4,18 +4,19 @@
  */
 import type { Knex } from 'knex';
 import type { ObsPage, ObsView } from '~/lib/charting/api-types.ts';
-import type { ObsInput } from '~/lib/charting/obs-input.ts';
+import { BEFORE_STAY_SLACK_MS, type ObsInput } from '~/lib/charting/obs-input.ts';
 import { estimateFio2 } from '~/lib/oxygenation/index.ts';
 import { ROOM_AIR_FIO2 } from '~/lib/oxygenation/constants.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { findObservation, insertObservation, lockObservation, markObservation, observationPage, type NewObservation, type ObservationRow } from '~/lib/server/queries/observations.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
-import { lockPatient } from '~/lib/server/queries/patients.ts';
+import { lockPatient, openStayOfPatient } from '~/lib/server/queries/patients.ts';
 import { checkPatientEscalations } from '~/lib/server/escalations/engine.ts';
 import { obsView } from './views.ts';
+import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 
 
 /** FiO₂ as stored: charted when given; 0.21 on room air; otherwise an estimate, always marked as one. */
@@ -50,14 +51,21 @@ export async function runObservationHooks(trx: Knex.Transaction, patientId: numb
 }
 
 export async function chartObservation(user: SessionUser, patientId: number, input: ObsInput, now = new Date()): Promise<ObsView> {
-  const { stay } = await authorisePatient(user, patientId, 'chart');
-  const id = await db().transaction(async (trx) => {
+  await authorisePatient(user, patientId, 'chart');
+  const id = await withTransactionRetry(async (trx) => {
     // Patient row first, always: inserting an obs takes a shared lock on it (foreign key), and
     // taking the exclusive lock only afterwards would let two writers deadlock.
     await lockPatient(trx, patientId);
-    const row = rowFromInput(input, patientId, stay.bed_id, user.id);
+    // The obs is tied to the bed the patient is in now: it cannot be older than this stay.
+    const open = await openStayOfPatient(trx, patientId);
+    if (!open) throw new ApiError(409, 'not_admitted', 'This patient has been discharged.');
+    if (input.takenAt.getTime() < new Date(open.started_at).getTime() - BEFORE_STAY_SLACK_MS) {
+      throw new ApiError(400, 'invalid_input', 'The time taken is before the patient came to this bed.', { takenAt: 'Time taken is before the patient came to this bed' });
+    }
+    const row = rowFromInput(input, patientId, open.bed_id, user.id);
     const obsId = await insertObservation(trx, { ...row, recorded_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.create', entity: 'observation', entityId: obsId, after: row, at: now });
+    await refreshMinuteRollup(trx, patientId, input.takenAt.getTime(), input.takenAt.getTime());
     await runObservationHooks(trx, patientId, now);
     return obsId;
   });
@@ -81,13 +89,15 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, obsId: nu
 }
 
 export async function correctObservation(user: SessionUser, obsId: number, reason: string, input: ObsInput, now = new Date()): Promise<ObsView> {
-  const id = await db().transaction(async (trx) => {
+  const id = await withTransactionRetry(async (trx) => {
     const original = await lockForChange(trx, user, obsId);
     if (original.source !== 'charted') throw new ApiError(409, 'not_charted', 'Only charted obs can be corrected; mark a device reading entered in error instead.');
     const row = { ...rowFromInput(input, original.patient_id, original.bed_id, user.id), replaces_id: original.id };
     const newId = await insertObservation(trx, { ...row, recorded_at: now });
     await markObservation(trx, original.id, { status: 'superseded', status_reason: reason, status_by: user.id, status_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.correct', entity: 'observation', entityId: original.id, before: original, after: { ...row, id: newId, reason }, at: now });
+    const times = [new Date(original.taken_at).getTime(), input.takenAt.getTime()];
+    await refreshMinuteRollup(trx, original.patient_id, Math.min(...times), Math.max(...times));
     await runObservationHooks(trx, original.patient_id, now);
     return newId;
   });
@@ -95,10 +105,12 @@ export async function correctObservation(user: SessionUser, obsId: number, reaso
 }
 
 export async function markEnteredInError(user: SessionUser, obsId: number, reason: string, now = new Date()): Promise<ObsView> {
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     const original = await lockForChange(trx, user, obsId);
     await markObservation(trx, original.id, { status: 'entered_in_error', status_reason: reason, status_by: user.id, status_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'observation.entered_in_error', entity: 'observation', entityId: original.id, before: { status: original.status }, after: { status: 'entered_in_error', reason }, at: now });
+    const at = new Date(original.taken_at).getTime();
+    await refreshMinuteRollup(trx, original.patient_id, at, at);
     await runObservationHooks(trx, original.patient_id, now);
   });
   return obsView((await findObservation(obsId))!);

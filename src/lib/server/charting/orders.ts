@@ -2,7 +2,7 @@
 import type { OrderView } from '~/lib/charting/api-types.ts';
 import type { TargetOrderInput } from '~/lib/charting/target-input.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { insertOrder, ordersOf } from '~/lib/server/queries/orders.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
@@ -18,7 +18,7 @@ export async function listOrders(user: SessionUser, patientId: number): Promise<
 
 export async function orderTarget(user: SessionUser, patientId: number, input: TargetOrderInput, now = new Date()): Promise<OrderView> {
   const { stay } = await authorisePatient(user, patientId, 'order');
-  const id = await db().transaction(async (trx) => {
+  const id = await withTransactionRetry(async (trx) => {
     // The patient row lock serialises concurrent orders, so the stale check below cannot race.
     await lockPatient(trx, patientId);
     const [newest] = await ordersOf(patientId, trx);

@@ -3,13 +3,13 @@ import type { PatientDetail, PatientSummary } from '~/lib/charting/api-types.ts'
 import type { AdmitInput } from '~/lib/charting/patient-input.ts';
 import { spansUnits } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { isDuplicateKey, withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { latestOrders, ordersOf } from '~/lib/server/queries/orders.ts';
 import { lastChartedObservation } from '~/lib/server/queries/observations.ts';
 import {
-  endStay, findBed, findPatient, findPatientByMrn, insertPatient, insertStay, latestStays, lockPatient,
-  bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
+  endStay, findBed, findPatient, findPatientByMrn, insertPatient, insertStay, latestStays, lockBed, lockPatient,
+  bedIsActive, bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
 } from '~/lib/server/queries/patients.ts';
 import { listUnits } from '~/lib/server/queries/units.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
@@ -64,31 +64,54 @@ export async function listPatients(user: SessionUser, opts: { unit?: string; inc
 
 async function assertBedForCharge(user: SessionUser, bedId: number, allowOtherUnit: boolean) {
   const bed = await findBed(bedId);
-  if (!bed || !bed.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  if (!bed) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  if (!bed.active) throw new ApiError(409, 'bed_retired', `Bed ${bed.label} is retired; choose another bed.`, { bedId: 'This bed is retired' });
   if (!allowOtherUnit && bed.unit_id !== user.unitId) throw new ApiError(403, 'forbidden', `Bed ${bed.label} is not in your unit.`);
   return bed;
+}
+
+/** Names compared as people read them: Unicode NFC, case-folded, trimmed. */
+export function sameName(a: string, b: string): boolean {
+  const norm = (x: string) => x.normalize('NFC').trim().toLocaleLowerCase('en');
+  return norm(a) === norm(b);
+}
+
+/** Re-read under a shared lock: an administrator retiring the bed meanwhile wins or waits, never crosses. */
+async function assertBedStillActive(trx: Parameters<typeof bedIsActive>[0], bed: { id: number; label: string }) {
+  if (!(await bedIsActive(trx, bed.id))) throw new ApiError(409, 'bed_retired', `Bed ${bed.label} is retired; choose another bed.`, { bedId: 'This bed is retired' });
 }
 
 export async function admitPatient(user: SessionUser, input: AdmitInput, now = new Date()): Promise<PatientSummary> {
   if (user.role !== 'charge') throw new ApiError(403, 'forbidden', 'Only a charge nurse admits patients.');
   const bed = await assertBedForCharge(user, input.bedId, false);
-  const patientId = await db().transaction(async (trx) => {
+  const admit = () => withTransactionRetry(async (trx) => {
+    await lockBed(trx, bed.id);
+    await assertBedStillActive(trx, bed);
     if (await openStayInBed(trx, bed.id)) throw new ApiError(409, 'bed_occupied', `Bed ${bed.label} already has a patient.`, { bedId: 'This bed is occupied' });
     let existing = await findPatientByMrn(input.mrn, trx);
     if (existing) {
       existing = await lockPatient(trx, existing.id);
-      const sameName = existing!.given_name.toLowerCase() === input.givenName.toLowerCase() && existing!.family_name.toLowerCase() === input.familyName.toLowerCase();
-      if (!sameName) throw new ApiError(409, 'mrn_mismatch', `MRN ${input.mrn} belongs to another name on record; check the MRN.`, { mrn: 'MRN is on record under another name' });
+      const same = sameName(existing!.given_name, input.givenName) && sameName(existing!.family_name, input.familyName);
+      if (!same) throw new ApiError(409, 'mrn_mismatch', `MRN ${input.mrn} belongs to another name on record; check the MRN.`, { mrn: 'MRN is on record under another name' });
       if (await openStayOfPatient(trx, existing!.id)) throw new ApiError(409, 'already_admitted', 'This patient is already in a bed; move them instead.', { mrn: 'Already admitted' });
     }
     const id = existing?.id ?? (await insertPatient(trx, {
-      mrn: input.mrn, given_name: input.givenName, family_name: input.familyName, date_of_birth: input.dateOfBirth,
+      mrn: input.mrn, given_name: input.givenName.normalize('NFC'), family_name: input.familyName.normalize('NFC'), date_of_birth: input.dateOfBirth,
       co2_retention_risk: input.co2RetentionRisk, created_by: user.id,
     }));
     const stayId = await insertStay(trx, { patient_id: id, bed_id: bed.id, started_at: now, started_by: user.id });
     await writeAudit(trx, { actorId: user.id, action: 'patient.admit', entity: 'patient', entityId: id, after: { stayId, bedId: bed.id, bed: bed.label, mrn: input.mrn, readmission: Boolean(existing) }, at: now });
     return id;
   });
+  let patientId: number;
+  try {
+    patientId = await admit();
+  } catch (err) {
+    // Two admissions of one new MRN at once: the loser's insert meets the winner's row. Run it
+    // again: it now finds the MRN on record and answers as a re-admission would (409 with its code).
+    if (!isDuplicateKey(err)) throw err;
+    patientId = await admit();
+  }
   return (await listSummary(patientId))!;
 }
 
@@ -103,11 +126,13 @@ export async function movePatient(user: SessionUser, patientId: number, bedId: n
   await authorisePatient(user, patientId, 'admit');
   // A charge nurse may transfer out of their unit to any free bed (the receiving unit then owns the patient).
   const bed = await assertBedForCharge(user, bedId, true);
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     await lockPatient(trx, patientId);
     const open = await openStayOfPatient(trx, patientId);
     if (!open) throw new ApiError(409, 'not_admitted', 'This patient has been discharged.');
+    await lockBed(trx, bed.id);
     if (open.bed_id === bed.id) throw new ApiError(409, 'same_bed', 'The patient is already in that bed.', { bedId: 'Same bed' });
+    await assertBedStillActive(trx, bed);
     if (await openStayInBed(trx, bed.id)) throw new ApiError(409, 'bed_occupied', `Bed ${bed.label} already has a patient.`, { bedId: 'This bed is occupied' });
     await endStay(trx, open.id, { ended_at: now, end_reason: 'moved', ended_by: user.id });
     const stayId = await insertStay(trx, { patient_id: patientId, bed_id: bed.id, started_at: now, started_by: user.id });
@@ -118,7 +143,7 @@ export async function movePatient(user: SessionUser, patientId: number, bedId: n
 
 export async function dischargePatient(user: SessionUser, patientId: number, note: string | undefined, now = new Date()): Promise<PatientSummary> {
   await authorisePatient(user, patientId, 'admit');
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     await lockPatient(trx, patientId);
     const open = await openStayOfPatient(trx, patientId);
     if (!open) throw new ApiError(409, 'not_admitted', 'This patient has already been discharged.');

@@ -1,9 +1,11 @@
 /** The bed chart's data: downsampled lines, band steps and the derived figures for one window. */
-import type { DerivedFigures, SeriesResponse, Spo2Point } from '~/lib/charting/api-types.ts';
+import type { DerivedFigures, Fio2Step, SeriesResponse, Spo2Point, SeriesPoint } from '~/lib/charting/api-types.ts';
 import {
-  bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, imputedPf, keepBelowBandRunEdges, isTrusted, lttb, news2, roxIndex, sfRatio, type Reading,
+  bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, imputedPf, keepBelowBandRunEdges, isTrusted, lttb, news2, roxIndex, sfRatio, type BandComplianceResult, type OxygenDevice, type Reading,
 } from '~/lib/oxygenation/index.ts';
-import { currentReadingsBetween, lastChartedObservation, type ObservationListRow } from '~/lib/server/queries/observations.ts';
+import { addCompliance, complianceFromMinutes, envelopeLines, floorMinute, minuteRollup, MINUTE_MS, type EnvelopePoint, type MinuteRollup } from '~/lib/oxygenation/rollup.ts';
+import { chartedReadingsBetween, currentReadingsBetween, lastChartedObservation, latestSpo2Readings, type ObservationListRow, type ReadingRow } from '~/lib/server/queries/observations.ts';
+import { minutesBetween, readingsWithCarryIn } from '~/lib/server/queries/rollup.ts';
 import { ordersOf } from '~/lib/server/queries/orders.ts';
 import { escalationsInWindow } from '~/lib/server/queries/escalations.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
@@ -15,6 +17,8 @@ import { news2InputOf } from '~/lib/charting/charted-obs.ts';
 export const SERIES_WINDOWS = [6, 12, 24, 72] as const;
 /** Points per line after downsampling: enough for a wide screen, small enough to draw fast. */
 export const MAX_POINTS_PER_LINE = 1500;
+/** Windows longer than this are served from the per-minute rollup; shorter ones from raw readings. */
+export const RAW_WINDOW_MAX_HOURS = 6;
 
 const round = (v: number, dp = 0) => Math.round(v * 10 ** dp) / 10 ** dp;
 
@@ -24,39 +28,109 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   const from = to - hours * 3_600_000;
   // Start early by the longest carry-forward so the window's first minutes are counted correctly.
   const lookBackMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * 60_000;
-  const [rows, orderRows, escalationRows, newestCharted, bloodGases] = await Promise.all([
-    currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1)),
-    ordersOf(patientId),
-    escalationsInWindow(patientId, new Date(from)),
-    lastChartedObservation(patientId),
+  const [orderRows, escalationRows, newestCharted, bloodGases] = await Promise.all([
+    ordersOf(patientId), escalationsInWindow(patientId, new Date(from)), lastChartedObservation(patientId),
     gasMarks(patientId, new Date(from), new Date(to)),
   ]);
-  const readings = rows.map(toReading);
   const orders = toBandOrders(orderRows);
-  const inWindow = firstIndexAtOrAfter(readings, from);
-  const windowReadings = readings.slice(inWindow);
   // NEWS2 and ROX need a full charted set: the newest charted obs, when it falls in the window.
   const chartedInWindow = newestCharted && new Date(newestCharted.taken_at).getTime() >= from ? newestCharted : undefined;
 
-  const withSpo2 = windowReadings.filter((r) => r.spo2 !== null);
-  const keep = keepBelowBandRunEdges(withSpo2, orders);
-  const spo2: Spo2Point[] = lttb(withSpo2, MAX_POINTS_PER_LINE, (r) => r.at, (r) => r.spo2!, keep).map((r) => ({
-    t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source,
-  }));
-  const withHr = windowReadings.filter((r) => r.heartRate !== null && r.heartRate !== undefined);
-  const heartRate = lttb(withHr, MAX_POINTS_PER_LINE, (r) => r.at, (r) => r.heartRate!).map((r) => ({ t: r.at, v: r.heartRate! }));
+  let lines: Pick<SeriesResponse, 'spo2' | 'heartRate' | 'rawCounts' | 'bucketMs'>;
+  let compliance: BandComplianceResult;
+  let latest: Reading | undefined;
+  let chartedRows: ReadingRow[];
+  if (hours <= RAW_WINDOW_MAX_HOURS) {
+    const rows = await currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1));
+    const readings = rows.map(toReading);
+    const windowReadings = readings.slice(firstIndexAtOrAfter(readings, from));
+    chartedRows = rows.filter((r) => r.source === 'charted');
+    compliance = bandCompliance(readings, orders, { from, to });
+    latest = latestTrusted(readings);
+    lines = rawLines(readings, windowReadings, orders, from, to);
+  } else {
+    // Long windows: whole minutes from the rollup; the part-minutes at either end from raw rows.
+    const headEnd = Math.min(floorMinute(from) + (from % MINUTE_MS === 0 ? 0 : MINUTE_MS), to);
+    const tailStart = Math.max(floorMinute(to), headEnd);
+    const [minutes, head, tail, charted, newest] = await Promise.all([
+      minutesBetween(patientId, new Date(floorMinute(from)), new Date(to + 1)),
+      readingsWithCarryIn(patientId, from, headEnd),
+      readingsWithCarryIn(patientId, tailStart, to + 1),
+      chartedReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1)),
+      latestSpo2Readings(patientId, new Date(to + 1), 200),
+    ]);
+    chartedRows = charted;
+    compliance = addCompliance(
+      addCompliance(bandCompliance(head.map(toReading), orders, { from, to: headEnd }), complianceFromMinutes(minutes, orders, { from: headEnd, to: tailStart })),
+      bandCompliance(tail.map(toReading), orders, { from: tailStart, to }),
+    );
+    latest = latestTrusted(newest.map(toReading).reverse());
+    lines = minuteLines(minutes, charted.map(toReading).filter((r) => r.at >= from), from, to);
+    // Readings counted once: the head's raw rows, then whole minutes from the rollup.
+    const headIn = head.filter((r) => new Date(r.taken_at).getTime() >= from);
+    lines.rawCounts = {
+      spo2: headIn.filter((r) => r.spo2 !== null).length + lines.rawCounts.spo2,
+      heartRate: headIn.filter((r) => r.heart_rate !== null).length + lines.rawCounts.heartRate,
+    };
+  }
 
   return {
-    patientId, hours, from, to, generatedAt: now.toISOString(), spo2, heartRate,
-    fio2: fio2Steps(readings, from),
+    patientId, hours, from, to, generatedAt: now.toISOString(), ...lines,
+    fio2: fio2Steps(chartedRows, from),
     bands: bandSegments(orders, from, to),
     escalations: escalationRows.map((e) => ({
       id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
     })),
-    rawCounts: { spo2: withSpo2.length, heartRate: withHr.length },
     bloodGases,
-    derived: derivedFigures(readings, chartedInWindow, orderRows, from, to, hours),
+    derived: derivedFigures(compliance, latest, chartedRows, chartedInWindow, orderRows, from, to, hours),
   };
+}
+
+function latestTrusted(readings: Reading[]): Reading | undefined {
+  for (let i = readings.length - 1; i >= 0; i--) if (readings[i]!.spo2 !== null && isTrusted(readings[i]!)) return readings[i];
+  return undefined;
+}
+
+/**
+ * Short windows: raw readings, largest-triangle-three-buckets with the below-band run edges kept —
+ * unless the signal hovers at the limit and the edges alone would fill the line; then one min–max
+ * envelope point a minute, like long windows, so no line passes the budget whatever its shape.
+ */
+function rawLines(readings: Reading[], windowReadings: Reading[], orders: ReturnType<typeof toBandOrders>, from: number, to: number) {
+  const withSpo2 = windowReadings.filter((r) => r.spo2 !== null);
+  const withHr = windowReadings.filter((r) => r.heartRate !== null && r.heartRate !== undefined);
+  const rawCounts = { spo2: withSpo2.length, heartRate: withHr.length };
+  const keep = keepBelowBandRunEdges(withSpo2, orders);
+  let edges = 0;
+  for (let i = 1; i < withSpo2.length - 1 && edges <= MAX_POINTS_PER_LINE / 2; i++) if (keep(withSpo2[i]!, i)) edges++;
+  if (edges > MAX_POINTS_PER_LINE / 2) {
+    const minutes = minuteRollup(readings, floorMinute(from), to);
+    return { ...minuteLines(minutes, windowReadings.filter((r) => r.source === 'charted'), from, to), rawCounts };
+  }
+  const spo2: Spo2Point[] = lttb(withSpo2, MAX_POINTS_PER_LINE, (r) => r.at, (r) => r.spo2!, keep).map((r) => ({
+    t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source,
+  }));
+  const heartRate = lttb(withHr, MAX_POINTS_PER_LINE, (r) => r.at, (r) => r.heartRate!).map((r) => ({ t: r.at, v: r.heartRate! }));
+  return { spo2, heartRate, rawCounts, bucketMs: 0 };
+}
+
+/** Enveloped lines from minute rows, with each charted obs as its own point (drawn as charted). */
+function minuteLines(minutes: MinuteRollup[], charted: Reading[], from: number, to: number, countFrom = Math.ceil(from / MINUTE_MS) * MINUTE_MS) {
+  const chartedSpo2 = charted.filter((r) => r.spo2 !== null).slice(-200);
+  // Half the line budget is plenty when each point carries its min–max envelope, and keeps the answer small.
+  const env = envelopeLines(minutes, from, to, Math.floor(MAX_POINTS_PER_LINE / 2) - chartedSpo2.length);
+  const toPoint = (p: EnvelopePoint): Spo2Point => ({ t: p.t, v: p.v, lo: p.lo, hi: p.hi, trusted: p.trusted, source: p.charted ? 'charted' : 'device' });
+  const spo2 = [...env.spo2.filter((p) => !p.charted).map(toPoint), ...chartedSpo2.map((r) => ({ t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source }))]
+    .sort((a, b) => a.t - b.t);
+  const heartRate: SeriesPoint[] = env.heartRate.map((p) => ({ t: p.t, v: p.v, lo: p.lo, hi: p.hi }));
+  let spo2N = 0;
+  let hrN = 0;
+  for (const m of minutes) {
+    if (m.minute < countFrom || m.minute >= to) continue;
+    spo2N += m.spo2N + m.uSpo2N;
+    hrN += m.hrN;
+  }
+  return { spo2, heartRate, rawCounts: { spo2: spo2N, heartRate: hrN }, bucketMs: env.bucketMs };
 }
 
 function firstIndexAtOrAfter(readings: Reading[], t: number): number {
@@ -70,16 +144,20 @@ function firstIndexAtOrAfter(readings: Reading[], t: number): number {
   return lo;
 }
 
-/** FiO₂ as a step line: the value in force at the window start, then each change. */
-function fio2Steps(readings: Reading[], from: number) {
-  const steps: { t: number; v: number }[] = [];
-  for (const r of readings) {
+/** FiO₂ as a step line from charted obs: the value in force at the window start, then each change of value, device or flow. */
+function fio2Steps(rows: ReadingRow[], from: number): Fio2Step[] {
+  const steps: Fio2Step[] = [];
+  for (const r of rows) {
     if (r.fio2 === null || r.fio2 === undefined) continue;
-    const t = Math.max(r.at, from);
+    const v = Number(r.fio2);
+    const device = (r.device as OxygenDevice | null) ?? null;
+    const flowLpm = r.flow_lpm === null ? null : Number(r.flow_lpm);
+    const t = Math.max(new Date(r.taken_at).getTime(), from);
     const last = steps[steps.length - 1];
-    if (last && last.v === r.fio2) continue;
-    if (last && last.t === t) last.v = r.fio2;
-    else steps.push({ t, v: r.fio2 });
+    if (last && last.v === v && last.device === device && last.flowLpm === flowLpm) continue;
+    const step = { t, v, device, flowLpm, estimated: Boolean(r.fio2_estimated) };
+    if (last && last.t === t) steps[steps.length - 1] = step;
+    else steps.push(step);
   }
   return steps;
 }
@@ -94,19 +172,14 @@ function bandSegments(orders: { from: number; low: number; high: number }[], fro
   return segments;
 }
 
-function derivedFigures(readings: Reading[], lastCharted: ObservationListRow | undefined, orderRows: Awaited<ReturnType<typeof ordersOf>>, from: number, to: number, hours: number): DerivedFigures {
-  const c = bandCompliance(readings, toBandOrders(orderRows), { from, to });
+function derivedFigures(c: BandComplianceResult, latest: Reading | undefined, chartedRows: ReadingRow[], lastCharted: ObservationListRow | undefined, orderRows: Awaited<ReturnType<typeof ordersOf>>, from: number, to: number, hours: number): DerivedFigures {
   const currentOrder = orderRows[0];
   const scale = (currentOrder ? Number(currentOrder.news2_scale) : 1) as 1 | 2;
 
-  // Latest trusted reading with SpO₂ for S/F and imputed P/F; FiO₂ carried from the latest charted value.
-  let latest: Reading | undefined;
-  for (let i = readings.length - 1; i >= 0; i--) {
-    if (readings[i]!.spo2 !== null && isTrusted(readings[i]!)) { latest = readings[i]; break; }
-  }
+  // S/F and imputed P/F: the latest trusted SpO₂ with the latest charted FiO₂.
   let fio2Reading: Reading | undefined;
-  for (let i = readings.length - 1; i >= 0; i--) {
-    if (readings[i]!.fio2 !== null && readings[i]!.fio2 !== undefined) { fio2Reading = readings[i]; break; }
+  for (let i = chartedRows.length - 1; i >= 0; i--) {
+    if (chartedRows[i]!.fio2 !== null) { fio2Reading = toReading(chartedRows[i]!); break; }
   }
   const fio2 = fio2Reading?.fio2 ?? null;
   const sf = latest && fio2 ? round(sfRatio(latest.spo2!, fio2)) : null;

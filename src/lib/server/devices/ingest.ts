@@ -2,14 +2,20 @@
  * The bedside-monitor feed: a batch of readings from one bed's gateway goes to whoever was in
  * that bed at each reading's time. All or nothing: one bad reading refuses the batch (zod, before
  * any write); duplicates of stored times are skipped by the database, so resending is safe.
+ *
+ * The one path for device readings: `POST /api/ingest` (device key) and the HL7 v2 listener
+ * (gateway + PV1-3 bed) both call `ingestReadings`, so validation, idempotency by bed and time,
+ * the transaction and the escalation checks are the same code for both.
  */
-import type { z } from 'zod';
+import { ZodError, type z } from 'zod';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
-import { toDeviceReading, type ingestBatchSchema } from '~/lib/imports/reading.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { ingestBatchSchema, toDeviceReading } from '~/lib/imports/reading.ts';
+import type { Conn } from '~/lib/server/queries/patients.ts';
+import { zodFields } from '~/lib/server/http.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
-import { insertDeviceReadings, staysInBedBetween, touchDeviceKey, type DeviceObservationRow } from '~/lib/server/queries/devices.ts';
-import type { authenticateDeviceKey } from './keys.ts';
+import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
+import { insertDeviceReadings, staysInBedBetween, type DeviceObservationRow } from '~/lib/server/queries/devices.ts';
 
 export interface IngestResult {
   bed: string; received: number; stored: number; duplicates: number; withoutPatient: number;
@@ -17,10 +23,43 @@ export interface IngestResult {
   message: string;
 }
 
-type Key = Awaited<ReturnType<typeof authenticateDeviceKey>>;
+/** Where a batch comes from: the bed it speaks for, and how to mark the sender as seen (in the batch's transaction). */
+export interface IngestSource {
+  bed_id: number; bed_label: string;
+  touch: (trx: Conn, at: Date) => Promise<void>;
+}
+
 type Batch = z.output<ReturnType<typeof ingestBatchSchema>>;
 
-export async function ingestBatch(key: Key, batch: Batch, now = new Date()): Promise<IngestResult> {
+/** A batch refused by validation: nothing was stored. `fields` name readings by index, e.g. `readings.12.spo2`. */
+export class BatchRefused extends Error {
+  constructor(readonly count: number, readonly fields: Record<string, string>, readonly issues: z.ZodIssue[]) {
+    const [firstField, firstReason] = Object.entries(fields)[0] ?? ['_', 'invalid'];
+    const more = count > MAX_FIELDS ? ` (the first ${MAX_FIELDS} are listed)` : '';
+    super(`${count} problem(s) in the batch${more}; nothing was stored. First: ${firstField}: ${firstReason}`);
+  }
+}
+
+/** A batch of 3,600 bad readings would otherwise answer with 3,600 reasons; the first ones say enough. */
+const MAX_FIELDS = 100;
+
+/** Validates a raw batch (`{ readings: [...] }`) against the feed's schema; throws BatchRefused. */
+export function parseBatch(body: unknown, now: Date): Batch {
+  try {
+    return ingestBatchSchema(now).parse(body);
+  } catch (err) {
+    if (!(err instanceof ZodError)) throw err;
+    const issues = err.issues.slice(0, MAX_FIELDS);
+    throw new BatchRefused(err.issues.length, zodFields(new ZodError(issues)), issues);
+  }
+}
+
+/** The shared entry: validate, then store in one transaction (see `ingestBatch`). */
+export async function ingestReadings(source: IngestSource, body: unknown, now = new Date()): Promise<IngestResult> {
+  return ingestBatch(source, parseBatch(body, now), now);
+}
+
+async function ingestBatch(key: IngestSource, batch: Batch, now: Date): Promise<IngestResult> {
   const readings = batch.readings.map(toDeviceReading);
   let min = Infinity;
   let max = -Infinity;
@@ -29,7 +68,7 @@ export async function ingestBatch(key: Key, batch: Batch, now = new Date()): Pro
     if (t < min) min = t;
     if (t > max) max = t;
   }
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     const stays = await staysInBedBetween(trx, key.bed_id, new Date(min), new Date(max));
     const byPatient = new Map<number, DeviceObservationRow[]>();
     let withoutPatient = 0;
@@ -51,10 +90,20 @@ export async function ingestBatch(key: Key, batch: Batch, now = new Date()): Pro
       await lockPatient(trx, patientId);
       const n = await insertDeviceReadings(trx, rows);
       stored += n;
-      // The escalation checks, once per patient per batch, in the same transaction as the readings.
-      if (n > 0) await runObservationHooks(trx, patientId, now);
+      if (n > 0) {
+        // The per-minute rollup and the escalation checks, once per patient per batch, in the readings' transaction.
+        let first = Infinity;
+        let last = -Infinity;
+        for (const r of rows) {
+          const t = r.taken_at.getTime();
+          if (t < first) first = t;
+          if (t > last) last = t;
+        }
+        await refreshMinuteRollup(trx, patientId, first, last);
+        await runObservationHooks(trx, patientId, now);
+      }
     }
-    await touchDeviceKey(trx, key.id, now);
+    await key.touch(trx, now);
     const duplicates = readings.length - withoutPatient - stored;
     const parts = [`${stored} stored`];
     if (duplicates > 0) parts.push(`${duplicates} already stored (ignored)`);

@@ -4,11 +4,12 @@
  */
 import { createHash, randomBytes } from 'node:crypto';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
+import type { IngestSource } from './ingest.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { findBed } from '~/lib/server/queries/patients.ts';
 import {
-  activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, type DeviceKeyListRow,
+  activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, touchDeviceKey, type DeviceKeyListRow,
 } from '~/lib/server/queries/devices.ts';
 
 const KEY_PREFIX = 'ebw_';
@@ -49,7 +50,7 @@ export async function createDeviceKey(actorId: number | null, input: { bedId: nu
   const bed = await findBed(input.bedId);
   if (!bed || !bed.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
   const { key, hash, prefix } = newDeviceKey();
-  const id = await db().transaction(async (trx) => {
+  const id = await withTransactionRetry(async (trx) => {
     const keyId = await insertDeviceKey(trx, { bed_id: bed.id, label: input.label, key_hash: hash, key_prefix: prefix, created_by: actorId, created_at: now });
     await writeAudit(trx, { actorId, action: 'device_key.create', entity: 'device_key', entityId: keyId, after: { bedId: bed.id, bedLabel: bed.label, label: input.label, prefix }, at: now });
     return keyId;
@@ -58,7 +59,7 @@ export async function createDeviceKey(actorId: number | null, input: { bedId: nu
 }
 
 export async function revokeKey(actorId: number | null, id: number, reason: string, now = new Date()): Promise<DeviceKeyView> {
-  await db().transaction(async (trx) => {
+  await withTransactionRetry(async (trx) => {
     const key = await lockDeviceKey(trx, id);
     if (!key) throw new ApiError(404, 'not_found', 'No device key with that id.');
     if (key.revoked_at) throw new ApiError(409, 'already_revoked', 'This key was already revoked.');
@@ -77,4 +78,9 @@ export async function authenticateDeviceKey(authorization: string | null) {
   if (key.revoked_at) throw new ApiError(401, 'device_key_revoked', 'This device key was revoked; ask an administrator for a new one.');
   if (!key.bed_active) throw new ApiError(403, 'bed_inactive', `Bed ${key.bed_label} is no longer in use.`);
   return key;
+}
+
+/** The feed's source for a key: its bed, and its "last used" stamp written with the readings. */
+export function deviceKeySource(key: Awaited<ReturnType<typeof authenticateDeviceKey>>): IngestSource {
+  return { bed_id: key.bed_id, bed_label: key.bed_label, touch: (trx, at) => touchDeviceKey(trx, key.id, at) };
 }

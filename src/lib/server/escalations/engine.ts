@@ -4,23 +4,21 @@
  * the escalation, its timeline event, the audit entry and the outbox mail commit together or not at all.
  */
 import type { Knex } from 'knex';
-import { news2, type Reading } from '~/lib/oxygenation/index.ts';
-import { news2InputOf } from '~/lib/charting/charted-obs.ts';
-import { buildEscalationMail } from '~/lib/escalations/mail.ts';
+import type { Reading } from '~/lib/oxygenation/index.ts';
 import { EMAILED_KINDS, type EscalationAction, type EscalationKind } from '~/lib/escalations/decide.ts';
 import { judgePatient, lastClosedRunStarts, toOpenEscalation } from '~/lib/escalations/judge.ts';
-import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow, type UnitSettings } from '~/lib/units/settings.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { insertEscalation, insertEvent, lastClosedRunStartsFor, openEscalationsOf, updateEscalation, type EscalationRow } from '~/lib/server/queries/escalations.ts';
 import { enqueueMail } from '~/lib/server/queries/outbox.ts';
 import { patientContext, type PatientContext } from '~/lib/server/queries/escalation-context.ts';
 import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
-import { recentWindow, toChartedObs, toReading } from '~/lib/server/charting/readings.ts';
+import { recentWindow, toReading } from '~/lib/server/charting/readings.ts';
+import { escalationMail } from './mail-input.ts';
+import { publicOrigin } from './claim-links.ts';
 
-export function publicOrigin(): string {
-  return (process.env.PUBLIC_ORIGIN ?? 'http://127.0.0.1:4321').replace(/\/$/, '');
-}
+export { publicOrigin };
+
 
 /** Runs the checks for a patient whose row the caller's transaction has locked. */
 export async function checkPatientEscalations(trx: Knex.Transaction, patientId: number, now: Date): Promise<EscalationAction[]> {
@@ -87,7 +85,7 @@ export async function checkPatientEscalations(trx: Knex.Transaction, patientId: 
 }
 
 export interface NotifyOptions {
-  esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'>;
+  esc: Pick<EscalationRow, 'id' | 'kind' | 'severity' | 'run_start' | 'run_end' | 'notify_count'> & { last_notified_at?: Date | null };
   ctx: PatientContext;
   settings: UnitSettings;
   /** Recent readings, oldest first: the mail shows the last few and the oxygen in use. */
@@ -102,23 +100,8 @@ export interface NotifyOptions {
 
 /** Queues the mail for an escalation (first notice, urgent upgrade or reminder) and records it. */
 export async function notify(trx: Knex.Transaction, { esc, ctx, settings, readings, key, eventType, now, nadir, rule }: NotifyOptions): Promise<void> {
-  const lastCharted = [...readings].reverse().find((r) => r.source === 'charted');
-  const oxygenFrom = [...readings].reverse().find((r) => r.fio2 !== null && r.fio2 !== undefined);
-  let news: { total: number; scale: 1 | 2 } | null = null;
-  if (ctx.lastCharted) {
-    const scale = (ctx.band?.news2Scale ?? 1) as 1 | 2;
-    const n = news2(news2InputOf(toChartedObs(ctx.lastCharted)), scale);
-    if (n.complete && n.total !== null) news = { total: n.total, scale };
-  }
   const renotify = eventType === 'renotified' ? esc.notify_count : 0;
-  const mail = buildEscalationMail({
-    hospital: ctx.hospital, unitName: ctx.unitName, bedLabel: ctx.bedLabel, patientLabel: patientLabel(ctx.givenName, ctx.familyName, ctx.mrn), timeZone: ctx.timeZone,
-    kind: esc.kind, severity: esc.severity, renotify, band: ctx.band ?? { low: 0, high: 0 },
-    run: { start: new Date(esc.run_start).getTime(), end: new Date(esc.run_end).getTime(), nadir, rule },
-    lastReadings: readings.slice(-6).map((r) => ({ at: r.at, spo2: r.spo2, trace: r.trace, heartRate: r.heartRate ?? null, source: r.source })),
-    oxygen: { fio2: oxygenFrom?.fio2 ?? null, fio2Estimated: Boolean(oxygenFrom?.fio2Estimated), device: oxygenFrom?.device ?? lastCharted?.device ?? null },
-    news2: news, link: `${publicOrigin()}/patients/${ctx.patientId}`,
-  });
+  const mail = await escalationMail(trx, { esc, ctx, settings, readings, renotify, previousNoticeAt: esc.last_notified_at ?? null, nadir, rule, now });
   const to = settings.outreachEmails;
   if (to.length === 0) {
     // No list configured: the escalation stands on the board and queue; the timeline says why no mail went.

@@ -8,6 +8,7 @@ import { judgePatient, lastClosedRunStarts, toOpenEscalation } from '~/lib/escal
 import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '~/lib/server/queries/escalations.ts';
 import { patientContext, sweepContexts } from '~/lib/server/queries/escalation-context.ts';
 import { readingsByPatient, recentWindow, toReading } from '~/lib/server/charting/readings.ts';
@@ -25,7 +26,7 @@ export async function runSweep(now = new Date()): Promise<SweepResult> {
   const due = await patientsWithActions(ids, nowMs, window);
   result.patientsChecked = ids.length;
   for (const id of due) {
-    await db().transaction(async (trx) => {
+    await withTransactionRetry(async (trx) => {
       if (!(await tryLockPatient(trx, id))) {
         result.patientsSkipped += 1; // another instance is on it
         return;
@@ -63,9 +64,10 @@ async function patientsWithActions(ids: number[], nowMs: number, window: { devic
 
 /** Re-notifies unclaimed below-band escalations whose unit's re-notify time has passed (optionally one unit only). */
 export async function renotifyUnclaimed(now: Date, onlyUnitId?: number): Promise<number> {
-  return db().transaction(async (trx) => {
+  return withTransactionRetry(async (trx) => {
     let count = 0;
-    for (const esc of await lockUnclaimedForRenotify(trx, onlyUnitId)) {
+    // No unit re-notifies sooner than 5 min (the settings' lower bound).
+    for (const esc of await lockUnclaimedForRenotify(trx, onlyUnitId, 50, new Date(now.getTime() - 5 * 60_000))) {
       const ctx = await patientContext(trx, esc.patient_id);
       const settings = settingsFromRow(ctx?.settings ?? undefined);
       if (!renotifyDue(esc.last_notified_at ? new Date(esc.last_notified_at).getTime() : null, new Date(esc.raised_at).getTime(), settings.renotifyMin, now.getTime())) continue;

@@ -8,7 +8,7 @@ import { StripFileError, parseStripCsv } from '~/lib/pleth-strips/strip-csv.ts';
 import { analysePlethStrip, beerLambertCurve, type PlethAnalysis } from '~/lib/oxygenation/index.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { attachableReadingsOf, insertPlethCheck, observationOfPatient, plethChecksOf } from '~/lib/server/queries/pleth-checks.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
@@ -68,7 +68,7 @@ export async function attachCheck(user: SessionUser, input: AttachInput, now = n
   const result = analyseStripText(input.csv, input.sampleRateHz);
   const a = result.analysis;
   const round = (v: number | null, dp: number) => (v === null ? null : Math.round(v * 10 ** dp) / 10 ** dp);
-  const id = await db().transaction(async (trx) => {
+  const id = await withTransactionRetry(async (trx) => {
     const checkId = await insertPlethCheck(trx, {
       patient_id: input.patientId, observation_id: input.observationId, file_name: input.fileName, file_hash: createHash('sha256').update(input.csv).digest('hex'),
       strip_csv: input.csv, sample_rate_hz: result.sampleRateHz, verdict: a.verdict, spo2: round(a.spo2, 1), heart_rate: round(a.heartRate, 1),
@@ -86,10 +86,11 @@ export async function attachCheck(user: SessionUser, input: AttachInput, now = n
 
 export async function listChecks(user: SessionUser, patientId: number) {
   assertClinician(user);
-  await authorisePatient(user, patientId, 'read');
+  const { stay } = await authorisePatient(user, patientId, 'read');
   const [rows, readings] = await Promise.all([plethChecksOf(patientId), attachableReadingsOf(patientId, 60)]);
   const num = (v: string | number | null) => (v === null ? null : Number(v));
   return {
+    timeZone: stay.time_zone,
     checks: rows.map((r) => ({
       id: Number(r.id), observationId: r.observation_id === null ? null : Number(r.observation_id), fileName: r.file_name, verdict: r.verdict,
       /** The words that go beside the reading in the record. */

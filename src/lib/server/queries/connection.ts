@@ -19,6 +19,9 @@ export function connectionFromEnv(env: NodeJS.ProcessEnv = process.env): Knex.Co
       charset: 'utf8mb4',
     },
     pool: { min: 0, max: Number(env.DB_POOL_MAX ?? 10) },
+    // With MariaDB down, a request waits this long for a connection and then answers 503
+    // (Knex's default is a minute, longer than any board poll or person would wait).
+    acquireConnectionTimeout: Number(env.DB_ACQUIRE_TIMEOUT_MS ?? 5_000),
     migrations: { directory: './db/migrations', extension: 'ts', loadExtensions: ['.ts'] },
     seeds: { directory: './db/seeds', extension: 'ts', loadExtensions: ['.ts'] },
   };

@@ -10,7 +10,7 @@ export interface EscalationRow {
 }
 
 export interface EscalationListRow extends EscalationRow {
-  unit_code: string; unit_name: string; bed_label: string | null; given_name: string; family_name: string; mrn: string;
+  unit_code: string; unit_name: string; unit_time_zone: string; bed_label: string | null; given_name: string; family_name: string; mrn: string;
   claimed_by_name: string | null; closed_by_name: string | null;
 }
 
@@ -42,16 +42,17 @@ function listQuery(conn: Knex | Knex.Transaction) {
     .join('patients as p', 'p.id', 'e.patient_id')
     .leftJoin('users as cb', 'cb.id', 'e.claimed_by')
     .leftJoin('users as xb', 'xb.id', 'e.closed_by')
-    .select('e.*', 'u.code as unit_code', 'u.name as unit_name', 'b.label as bed_label', 'p.given_name', 'p.family_name', 'p.mrn',
+    .select('e.*', 'u.code as unit_code', 'u.name as unit_name', 'u.time_zone as unit_time_zone', 'b.label as bed_label', 'p.given_name', 'p.family_name', 'p.mrn',
       'cb.name as claimed_by_name', 'xb.name as closed_by_name');
 }
 
-export async function listEscalations(filter: { unitIds: number[]; open: boolean; kinds?: EscalationKind[]; patientId?: number; limit: number }): Promise<EscalationListRow[]> {
+export async function listEscalations(filter: { unitIds: number[]; open: boolean; kinds?: EscalationKind[]; patientId?: number; limit: number; closedSince?: Date }): Promise<EscalationListRow[]> {
   const q = listQuery(db()).whereIn('e.unit_id', filter.unitIds).orderBy('e.raised_at', filter.open ? 'asc' : 'desc').limit(filter.limit);
   if (filter.open) q.whereNot('e.state', 'closed');
   else q.where('e.state', 'closed');
   if (filter.kinds) q.whereIn('e.kind', filter.kinds);
   if (filter.patientId) q.where('e.patient_id', filter.patientId);
+  if (filter.closedSince) q.where('e.closed_at', '>=', filter.closedSince);
   return q;
 }
 
@@ -78,8 +79,10 @@ export async function openForPatients(patientIds: number[]): Promise<(Escalation
 }
 
 /** Raised (unclaimed) e-mailed escalations, claimed row by row so two instances never both re-notify. */
-export async function lockUnclaimedForRenotify(trx: Knex.Transaction, onlyUnitId?: number, limit = 50): Promise<EscalationRow[]> {
+export async function lockUnclaimedForRenotify(trx: Knex.Transaction, onlyUnitId?: number, limit = 50, lastNoticeBefore?: Date): Promise<EscalationRow[]> {
   const q = trx<EscalationRow>('escalations').where({ state: 'raised', kind: 'below_band' }).orderBy('id').limit(limit).forUpdate().skipLocked();
+  // Lock only rows that could be due: a row not due is left alone for other callers (SKIP LOCKED would hide it from them).
+  if (lastNoticeBefore) q.whereRaw('COALESCE(last_notified_at, raised_at) <= ?', [lastNoticeBefore]);
   return onlyUnitId === undefined ? q : q.where('unit_id', onlyUnitId);
 }
 

@@ -80,3 +80,27 @@ export async function currentReadingsBetween(patientId: number, from: Date, to: 
 export async function lastChartedObservation(patientId: number, conn: Conn = db()): Promise<ObservationListRow | undefined> {
   return listQuery(conn).where({ 'o.patient_id': patientId, 'o.status': 'current', 'o.source': 'charted' }).orderBy('o.taken_at', 'desc').orderBy('o.id', 'desc').first();
 }
+
+/** Current charted obs of a patient in [from, to), oldest first (FiO₂ steps and charted marks on long windows). */
+export async function chartedReadingsBetween(patientId: number, from: Date, to: Date, conn: Conn = db()): Promise<ReadingRow[]> {
+  return conn('observations')
+    .where({ patient_id: patientId, status: 'current', source: 'charted' })
+    .andWhere('taken_at', '>=', from)
+    .andWhere('taken_at', '<', to)
+    .orderBy('taken_at')
+    .orderBy('id')
+    .select('taken_at', 'source', 'spo2', 'heart_rate', 'resp_rate', 'fio2', 'fio2_estimated', 'device', 'flow_lpm', 'trace', 'perfusion_index');
+}
+
+/** The newest `limit` current readings with an SpO₂ and a usable trace before `to`, newest first. */
+export async function latestSpo2Readings(patientId: number, to: Date, limit: number, conn: Conn = db()): Promise<ReadingRow[]> {
+  return conn('observations')
+    .where({ patient_id: patientId, status: 'current' })
+    .whereNotNull('spo2')
+    .whereIn('trace', ['clean', 'weak'])
+    .andWhere('taken_at', '<', to)
+    .orderBy('taken_at', 'desc')
+    .orderBy('id', 'desc')
+    .limit(limit)
+    .select('taken_at', 'source', 'spo2', 'heart_rate', 'resp_rate', 'fio2', 'fio2_estimated', 'device', 'flow_lpm', 'trace', 'perfusion_index');
+}

@@ -55,8 +55,13 @@ export async function latestStays(patientIds: number[], conn: Conn = db()): Prom
   return staysQuery(conn).join(latest, 'ls.id', 's.id').select(stayColumns);
 }
 
-export async function openStayOfPatient(trx: Knex.Transaction, patientId: number): Promise<{ id: number; bed_id: number } | undefined> {
-  return trx('bed_stays').where({ patient_id: patientId }).whereNull('ended_at').forUpdate().first('id', 'bed_id');
+export async function openStayOfPatient(trx: Knex.Transaction, patientId: number): Promise<{ id: number; bed_id: number; started_at: Date } | undefined> {
+  return trx('bed_stays').where({ patient_id: patientId }).whereNull('ended_at').forUpdate().first('id', 'bed_id', 'started_at');
+}
+
+/** Locks a bed row: two admissions or moves into one free bed then queue, and the second sees it taken. */
+export async function lockBed(trx: Knex.Transaction, bedId: number): Promise<void> {
+  await trx('beds').where({ id: bedId }).forUpdate().first('id');
 }
 
 export async function openStayInBed(trx: Knex.Transaction, bedId: number): Promise<{ id: number; patient_id: number } | undefined> {
@@ -70,6 +75,12 @@ export async function insertStay(trx: Knex.Transaction, row: { patient_id: numbe
 
 export async function endStay(trx: Knex.Transaction, id: number, fields: { ended_at: Date; end_reason: 'moved' | 'discharged'; ended_by: number }): Promise<void> {
   await trx('bed_stays').where({ id }).whereNull('ended_at').update(fields);
+}
+
+/** Whether a bed still takes patients, under a shared lock (see units-admin retireBed). */
+export async function bedIsActive(trx: Knex.Transaction, bedId: number): Promise<boolean> {
+  const row = await trx('beds').where({ id: bedId }).forShare().first('active');
+  return Boolean(row?.active);
 }
 
 export async function findBed(id: number, conn: Conn = db()): Promise<BedRow | undefined> {

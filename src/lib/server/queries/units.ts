@@ -7,6 +7,19 @@ export async function listUnits(onlyId?: number | null): Promise<UnitRow[]> {
   return onlyId ? q.where({ id: onlyId }) : q;
 }
 
+/**
+ * The time zone to show times in on pages that are not about one unit (admin pages): the user's own
+ * unit's, else the zone most units of the hospital use, else UTC.
+ */
+export async function displayTimeZone(unitId: number | null | undefined): Promise<string> {
+  if (unitId) {
+    const own = await db()('units').where({ id: unitId }).first('time_zone');
+    if (own) return own.time_zone;
+  }
+  const common = (await db()('units').select('time_zone').count({ n: '*' }).groupBy('time_zone').orderBy('n', 'desc').first()) as { time_zone?: string } | undefined;
+  return common?.time_zone ?? 'UTC';
+}
+
 export interface CensusRow {
   unit_id: number; bed_id: number; bed_label: string; patient_id: number | null; given_name: string | null;
   family_name: string | null; mrn: string | null; admitted_at: Date | null; band_low: number | null; band_high: number | null;

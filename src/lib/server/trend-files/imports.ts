@@ -5,12 +5,13 @@
  * what the preview showed for that file (the hash ties the two).
  */
 import type { TrendMapping } from '~/lib/imports/mapping.ts';
-import { TrendFileError, parseTrendCsv, type RowProblem, type TrendRow } from '~/lib/imports/trend-csv.ts';
+import { TrendFileError, groupRefusals, parseTrendCsv, type RefusalGroup, type RowProblem, type TrendRow, type UnfitColumn } from '~/lib/imports/trend-csv.ts';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
+import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
 import { ApiError } from '~/lib/server/http.ts';
-import { db } from '~/lib/server/queries/db.ts';
+import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import {
   activeImportOfFile, findImport, importsOf, insertImport, insertImportReadings, lockImport, markImportWithdrawn, readingSecondsBetween,
@@ -19,6 +20,7 @@ import {
 import { staysOf, type StayRow } from '~/lib/server/queries/patients.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import type { UploadedFile } from '~/lib/server/upload-body.ts';
+import { formatDateTime } from '~/lib/time/format.ts';
 
 /** How many refused rows and examples the preview lists in full (the counts are always exact). */
 const LIST_LIMIT = 200;
@@ -47,8 +49,9 @@ export interface TrendPreview {
   span: { first: string; last: string } | null;
   outsideAdmission: { count: number; examples: { line: number; at: string }[] };
   overlapping: { count: number; examples: { line: number; at: string }[] };
-  refused: { count: number; rows: RowProblem[] };
+  refused: { count: number; rows: RowProblem[]; groups: RefusalGroup[] };
   notes: RowProblem[];
+  unfitColumns: UnfitColumn[];
   alreadyImported: { importId: number; committedAt: string; committedBy: string; samePatient: boolean } | null;
 }
 
@@ -93,8 +96,9 @@ async function plan(user: SessionUser, patientId: number, file: UploadedFile, ma
       span: parsed.rows.length ? { first: new Date(first).toISOString(), last: new Date(last).toISOString() } : null,
       outsideAdmission: { count: outside.length, examples: example(outside) },
       overlapping: { count: overlapping.length, examples: example(overlapping) },
-      refused: { count: parsed.refused.length, rows: parsed.refused.slice(0, LIST_LIMIT) },
+      refused: { count: parsed.refused.length, rows: parsed.refused.slice(0, LIST_LIMIT), groups: groupRefusals(parsed.refused) },
       notes: parsed.notes.slice(0, LIST_LIMIT),
+      unfitColumns: parsed.unfitColumns,
       alreadyImported: earlier
         ? { importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }
         : null,
@@ -106,8 +110,8 @@ export async function previewTrend(user: SessionUser, patientId: number, file: U
   return (await plan(user, patientId, file, mapping, now)).preview;
 }
 
-function duplicateFile(p: NonNullable<TrendPreview['alreadyImported']>): ApiError {
-  return new ApiError(409, 'duplicate_file', `This file was already imported${p.samePatient ? '' : ' to another patient'} (import ${p.importId}, ${p.committedAt} by ${p.committedBy}). Withdraw that import first if it went wrong.`);
+function duplicateFile(p: NonNullable<TrendPreview['alreadyImported']>, timeZone: string): ApiError {
+  return new ApiError(409, 'duplicate_file', `This file was already imported${p.samePatient ? '' : ' to another patient'} (import ${p.importId}, ${formatDateTime(p.committedAt, timeZone)} by ${p.committedBy}). Withdraw that import first if it went wrong.`);
 }
 
 export async function commitTrend(user: SessionUser, patientId: number, file: UploadedFile, mapping: TrendMapping, expectHash: string | undefined, now = new Date()): Promise<{ import: ImportView; preview: TrendPreview }> {
@@ -115,7 +119,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
     throw new ApiError(409, 'file_changed', 'This is not the file that was previewed; preview it again.');
   }
   const { preview, store, stays, stay } = await plan(user, patientId, file, mapping, now);
-  if (preview.alreadyImported) throw duplicateFile(preview.alreadyImported);
+  if (preview.alreadyImported) throw duplicateFile(preview.alreadyImported, stay.time_zone);
   if (store.length === 0) throw new ApiError(400, 'nothing_to_store', 'No reading in this file can be stored (see the preview for why).');
   let firstStored = Infinity;
   let lastStored = -Infinity;
@@ -125,7 +129,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
   }
   let id: number;
   try {
-    id = await db().transaction(async (trx) => {
+    id = await withTransactionRetry(async (trx) => {
       await lockPatient(trx, patientId); // same lock order as every obs writer
       const importId = await insertImport(trx, {
         patient_id: patientId, unit_id: stay.unit_id, file_name: file.name, file_hash: file.hash, file_bytes: file.bytes.length,
@@ -143,6 +147,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
         after: { patientId, fileName: file.name, fileHash: file.hash, rowsStored: store.length, rowsSkipped: preview.outsideAdmission.count + preview.overlapping.count, rowsRefused: preview.refused.count, mapping },
         at: now,
       });
+      await refreshMinuteRollup(trx, patientId, firstStored, lastStored);
       await runObservationHooks(trx, patientId, now);
       return importId;
     });
@@ -150,7 +155,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
     // Two commits of one file at once: the unique index on the standing file hash settles it.
     if ((err as { code?: string }).code === 'ER_DUP_ENTRY') {
       const earlier = await activeImportOfFile(file.hash);
-      if (earlier) throw duplicateFile({ importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId });
+      if (earlier) throw duplicateFile({ importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }, stay.time_zone);
     }
     throw err;
   }
@@ -158,7 +163,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
 }
 
 export async function withdrawImport(user: SessionUser, importId: number, reason: string, now = new Date()): Promise<ImportView & { readingsWithdrawn: number }> {
-  const marked = await db().transaction(async (trx) => {
+  const marked = await withTransactionRetry(async (trx) => {
     const unlocked = await findImport(importId);
     if (unlocked) await lockPatient(trx, unlocked.patient_id); // patient first, as every obs writer
     const imp = await lockImport(trx, importId);
@@ -168,6 +173,7 @@ export async function withdrawImport(user: SessionUser, importId: number, reason
     await markImportWithdrawn(trx, importId, { withdrawn_at: now, withdrawn_by: user.id, withdraw_reason: reason });
     const n = await withdrawImportReadings(trx, importId, { status_reason: `Import withdrawn: ${reason}`.slice(0, 500), status_by: user.id, status_at: now });
     await writeAudit(trx, { actorId: user.id, action: 'import.withdraw', entity: 'observation_import', entityId: importId, before: { withdrawnAt: null }, after: { reason, readingsWithdrawn: n }, at: now });
+    if (imp.first_at && imp.last_at) await refreshMinuteRollup(trx, imp.patient_id, new Date(imp.first_at).getTime(), new Date(imp.last_at).getTime());
     await runObservationHooks(trx, imp.patient_id, now);
     return n;
   });

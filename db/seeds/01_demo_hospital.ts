@@ -2,9 +2,10 @@ import type { Knex } from 'knex';
 import { rebuildAllRollups } from '../../src/lib/server/queries/rollup.ts';
 import bcrypt from 'bcryptjs';
 import {
-  DEMO_HOSPITAL, DEMO_PASSWORD, demoPatients, demoUnits, demoUsers, generateDemoObservations,
+  DEMO_HOSPITAL, DEMO_PASSWORD, demoBloodGases, demoPatients, demoUnits, demoUsers, generateDemoObservations,
 } from '../../src/lib/demo/scenario.ts';
 import { generateDemoHistory } from '../../src/lib/demo/history.ts';
+import { gasFlags, kpaToMmHg } from '../../src/lib/bloodgas/compute.ts';
 
 // The invented demo scenario (PRODUCT.md "Demo scenario"). Refuses to run over existing data:
 // clinical rows are never deleted, so a reseed means a fresh database.
@@ -129,6 +130,27 @@ export async function seed(knex: Knex): Promise<void> {
     for (const [mrn, note] of chargeNotes) {
       const pid = patientIds.get(mrn)!;
       await trx('handover_notes').insert({ patient_id: pid, unit_id: unitIds.get('L4ICU'), version: 1, note, supersedes_id: null, written_by: nurseId, written_at: new Date(now.getTime() - 9 * 3_600_000) });
+    }
+
+    // Invented blood gases; an occult-hypoxaemia pair raises its bedside task as charting would.
+    for (const g of demoBloodGases) {
+      const sampledAt = new Date(now.getTime() - g.hoursAgo * 3_600_000);
+      const [gasId] = await trx('blood_gases').insert({
+        patient_id: patientIds.get(g.mrn), bed_id: bedOf.get(g.mrn), sampled_at: sampledAt, sample_type: g.sampleType, ph: g.ph,
+        pao2_mmhg: Math.round(kpaToMmHg(g.pao2Kpa) * 10) / 10, paco2_mmhg: Math.round(kpaToMmHg(g.paco2Kpa) * 10) / 10, entered_unit: 'kPa',
+        sao2: g.sao2, hco3: g.hco3, base_excess: g.baseExcess, lactate: g.lactate, hb_gdl: g.hbGdl, fio2: g.fio2,
+        spo2_at_sample: g.spo2AtSample, spo2_source: 'entered', recorded_by: nurseId, recorded_at: new Date(sampledAt.getTime() + 15 * 60_000),
+      });
+      if (gasFlags({ sampleType: g.sampleType, sao2: g.sao2, spo2AtSample: g.spo2AtSample }).includes('occult_hypoxaemia')) {
+        const pt = demoPatients.find((x) => x.mrn === g.mrn)!;
+        const raisedAt = new Date(sampledAt.getTime() + 15 * 60_000);
+        await trx('escalations').insert({
+          patient_id: patientIds.get(g.mrn), unit_id: unitIds.get(pt.unitCode), bed_id: bedOf.get(g.mrn), kind: 'occult_hypoxaemia', severity: null, state: 'raised',
+          raised_at: raisedAt, run_start: sampledAt, run_end: sampledAt, notify_count: 0,
+          evidence: JSON.stringify({ rule: 'occult_hypoxaemia', nadir: g.sao2, urgentReasons: [], band: pt.band ? { low: pt.band.low, high: pt.band.high } : null, lastReadings: [],
+            bloodGas: { bloodGasId: Number(gasId), sampledAt: sampledAt.getTime(), sao2: g.sao2, spo2AtSample: g.spo2AtSample } }),
+        });
+      }
     }
     await rebuildAllRollups(trx); // the per-minute rollup every writer keeps, here in one pass
     console.log(`seed: ${demoUnits.length} units, ${demoUsers.length} users, ${demoPatients.length + history.patients.length} patients (${history.patients.length} discharged), ${rows.length + pastRows.length} obs, ${history.escalations.length} past escalations`);

@@ -46,6 +46,8 @@ describe('bed chart in a real browser', () => {
     await signInThroughForm(page, 'intensivist@harbourside.example');
     await page.goto(`${APP_URL}/patients/${patientId}`);
     await waitForIsland(page, 'order-form');
+    // Count the band areas once the chart has drawn its series (before that the count is 0 and any draw would pass).
+    await page.getByTestId('chart-summary').waitFor({ state: 'attached', timeout: 20_000 });
     const areasBefore = await page.getByTestId('chart-area').locator('.recharts-reference-area').count();
     const form = page.getByTestId('order-form');
     await form.getByRole('button', { name: /88–92/ }).first().click();

@@ -37,6 +37,11 @@ export const ROLE_MATRIX: MatrixRow[] = [
   { route: 'GET /api/patients/[id]/observations', path: '/api/patients/{patient}/observations',        expect: '401 200 403 200 403 200 200 403' },
   { route: 'POST /api/patients/[id]/observations', path: '/api/patients/{patient}/observations', body: PROBE, expect: '401 400 400 400 400 403 403 403' },
   { route: 'GET /api/patients/[id]/series',      path: '/api/patients/{patient}/series?hours=6',       expect: '401 200 403 200 403 200 200 403' },
+  { route: 'GET /api/patients/[id]/blood-gases', path: '/api/patients/{patient}/blood-gases',          expect: '401 200 403 200 403 200 200 403' },
+  { route: 'POST /api/patients/[id]/blood-gases', path: '/api/patients/{patient}/blood-gases', body: PROBE, expect: '401 400 400 400 400 400 403 403' },
+  { route: 'GET /api/patients/[id]/blood-gases/nearest-spo2', path: '/api/patients/{patient}/blood-gases/nearest-spo2?at=2026-01-01T00:00:00Z', expect: '401 200 403 200 403 200 200 403' },
+  { route: 'POST /api/blood-gases/[id]/correct', path: '/api/blood-gases/{missing}/correct', body: PROBE, expect: '401 400 400 400 400 400 403 403' },
+  { route: 'POST /api/blood-gases/[id]/entered-in-error', path: '/api/blood-gases/{missing}/entered-in-error', body: PROBE, expect: '401 400 400 400 400 400 403 403' },
   { route: 'GET /api/patients/[id]/imports',     path: '/api/patients/{patient}/imports',              expect: '401 200 403 200 403 200 200 403' },
   { route: 'POST /api/patients/[id]/imports/preview', path: '/api/patients/{patient}/imports/preview?time=t&spo2=s&heartRate=h&timeMode=iso&fileName=m.csv', body: { csv: 't,s,h\n2026-12-02T10:00:00Z,95,80\n' }, expect: '401 200 403 200 403 403 403 403' },
   // Without fileName the commit is refused before the unit check: this row shows the role check only.

@@ -2,10 +2,10 @@ import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 
-interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null; shiftStart: string; shiftEnd: string }
+interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null; gasUnit: 'kPa' | 'mmHg'; barometricMmHg: number; shiftStart: string; shiftEnd: string }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
 
-const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone' | 'shiftStart' | 'shiftEnd'>, string, string][] = [
+const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone' | 'gasUnit' | 'shiftStart' | 'shiftEnd'>, string, string][] = [
   ['consecutiveCharted', 'Consecutive charted obs below band', 'trusted charted obs in a row that raise a below-band escalation'],
   ['deviceDwellMin', 'Device dwell (min)', 'minutes of trusted monitor readings below band that raise one'],
   ['urgentMarginPoints', 'Urgent margin (points)', 'a reading this far under the lower limit makes it urgent'],
@@ -14,6 +14,7 @@ const FIELDS: [keyof Omit<Settings, 'outreachEmails' | 'unitPhone' | 'shiftStart
   ['aboveOnOxygenMin', 'Above band on O₂ (min)', 'minutes above band on oxygen before a wean prompt'],
   ['renotifyMin', 'Re-notify after (min)', 'unclaimed escalations are e-mailed again after this'],
   ['overdueMin', 'Obs overdue after (min)', 'the board marks a bed overdue past this'],
+  ['barometricMmHg', 'Barometric pressure (mmHg)', 'for the alveolar gas equation (760 at sea level)'],
   ['monitorSilentMin', 'Monitor silent after (min)', 'a monitored bed with no newer device reading is shown as silent'],
   ['silentBelowProbeMin', 'Silent after below band: probe check (min)', 'silence this long right after trusted below-band readings asks for a bedside probe check'],
 ];
@@ -36,6 +37,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     v.outreachEmails = data.settings.outreachEmails.join('\n');
     v.shiftStart = data.settings.shiftStart;
     v.shiftEnd = data.settings.shiftEnd;
+    v.gasUnit = data.settings.gasUnit;
     v.unitPhone = data.settings.unitPhone ?? '';
     setValues(v);
   }, [data]);
@@ -49,6 +51,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
     body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
     body.shiftStart = values.shiftStart?.trim() || undefined;
     body.shiftEnd = values.shiftEnd?.trim() || undefined;
+    body.gasUnit = values.gasUnit;
     body.unitPhone = (values.unitPhone ?? '').trim() || null;
     try {
       await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
@@ -78,6 +81,13 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
           <span id={`${unitCode}-${k}-hint`} className={`text-sm ${errors[k] ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors[k] ?? hint}</span>
         </label>
       ))}
+      <label className="block">
+        <span className="block font-bold">Blood-gas unit</span>
+        <select className="field" value={values.gasUnit ?? 'kPa'} onChange={(e) => setValues({ ...values, gasUnit: e.target.value })} aria-describedby={`${unitCode}-gasUnit-hint`}>
+          <option value="kPa">kPa</option><option value="mmHg">mmHg</option>
+        </select>
+        <span id={`${unitCode}-gasUnit-hint`} className={`text-sm ${errors.gasUnit ? 'font-bold text-coral-700' : 'text-ink-500'}`}>{errors.gasUnit ?? 'PaO₂ and PaCO₂ are shown in this unit (stored in mmHg)'}</span>
+      </label>
       <label className="block">
         <span className="block font-bold">Unit phone</span>
         <input className="field" inputMode="tel" value={values.unitPhone ?? ''} onChange={(e) => setValues({ ...values, unitPhone: e.target.value })}

@@ -223,6 +223,12 @@ function Tile({ tile, zone, me, nurses, onDone }: {
           <div><dt className="inline text-ink-500 dark:text-ink-300">obs </dt><dd className={`inline ${tile.overdue ? 'font-bold underline decoration-amberline-400 decoration-2' : ''}`}>{tile.minutesSinceCharted === null ? 'none' : `${formatMinutes(tile.minutesSinceCharted)} ago`}{tile.overdue ? ' · overdue' : ''}</dd></div>
           <div><dt className="inline text-ink-500 dark:text-ink-300">NEWS2 </dt><dd className="inline">{tile.news2 ? tile.news2.total : 'incomplete'}</dd></div>
         </dl>
+        {tile.occultHypoxaemia && (
+          <p className="mt-2 flex items-start gap-1 rounded border-2 border-coral-600 bg-white px-2 py-1 text-sm font-bold text-coral-800 dark:border-coral-300 dark:bg-ink-900 dark:text-coral-200" data-testid="tile-occult">
+            <svg width="16" height="16" viewBox="0 0 24 24" aria-hidden="true" className="mt-0.5 shrink-0"><path d="M12 3l10 18H2z" fill="none" stroke="currentColor" strokeWidth="3" strokeLinejoin="round" /></svg>
+            <span>Occult hypoxaemia · gas SaO₂ {tile.occultHypoxaemia.sao2} % while SpO₂ read {tile.occultHypoxaemia.spo2AtSample} % ({formatClock(tile.occultHypoxaemia.sampledAt, zone)}) · {tile.occultHypoxaemia.state}</span>
+          </p>
+        )}
         {esc && (
           <p className="mt-2 rounded bg-ink-900 px-2 py-1 text-sm text-white dark:bg-ink-700" data-testid="tile-escalation">{escalationWords(esc, zone)}</p>
         )}

@@ -8,7 +8,7 @@
  * so an obs charted by someone else appears without a reload; any write revalidates every key of
  * the patient (`chartKeys(patientId).matches`).
  */
-import { useEffect, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import useSWR from 'swr';
 import type { ObsPage, ObsView, PatientDetail, SeriesResponse } from '~/lib/charting/api-types.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
@@ -17,8 +17,9 @@ import { ApiClientError, fetchJson } from '~/lib/client/fetch-json.ts';
 import DerivedFigures from './DerivedFigures.tsx';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import ObsRecordTable from './ObsRecordTable.tsx';
-import SaturationChart from './SaturationChart.tsx';
+import SaturationChart, { type ExtraSpo2Mark } from './SaturationChart.tsx';
 import TargetOrderPanel from './TargetOrderPanel.tsx';
+import { GasBias } from './BloodGasPanel.tsx';
 import { DEFAULT_WINDOW_HOURS, POLL_MS, chartKeys, errorText, fmtFio2, useRefreshChart, type WindowHours } from './chart-shared.tsx';
 
 export interface BedChartPageProps {
@@ -39,6 +40,8 @@ export default function BedChartPage({ patientId, initial, chartSize, printedBy 
   const patientQ = useSWR<PatientDetail>(keys.patient, fetchJson, { fallbackData: initial?.patient, refreshInterval: PATIENT_POLL_MS });
   const seriesQ = useSWR<SeriesResponse>(keys.series(hours), fetchJson, { refreshInterval: POLL_MS, keepPreviousData: true });
   const patient = patientQ.data;
+  // Arterial blood gases: their measured SaO₂ as diamonds on the SpO₂ panel (ringed when occult hypoxaemia).
+  const gasMarks = useMemo(() => ({ name: 'SaO₂ (blood gas)', marks: gasMarksOf(seriesQ.data) }), [seriesQ.data]);
   // Opened to chart obs (from the board, `#chart-obs`): the SpO₂ field has focus once the island is live.
   useEffect(() => {
     if (window.location.hash === '#chart-obs') document.querySelector<HTMLElement>('#chart-obs input[name="spo2"]')?.focus();
@@ -67,6 +70,7 @@ export default function BedChartPage({ patientId, initial, chartSize, printedBy 
           {!band && <> · <strong>no band ordered</strong></>}
           {patient.co2RetentionRisk && <> · at risk of CO₂ retention</>}
         </p>
+        <GasBias patientId={patientId} />
         {patient.lastCharted && (
           <p className="text-sm text-ink-600 dark:text-ink-300">Last charted obs {formatDayTime(patient.lastCharted.takenAt, tz)}</p>
         )}
@@ -76,7 +80,7 @@ export default function BedChartPage({ patientId, initial, chartSize, printedBy 
       {/* First screen at a desk: chart | figures and the band (with its order form) | obs entry. */}
       <div className={`grid gap-4 ${patient.can.chart ? 'xl:grid-cols-[minmax(0,1fr)_20rem_19rem]' : 'xl:grid-cols-[minmax(0,1fr)_22rem]'} print:block`}>
         <div className="panel min-w-0 print:mb-2">
-          <SaturationChart series={seriesQ.data} timeZone={tz} hours={hours} onHoursChange={setHours} error={seriesQ.error} size={chartSize} />
+          <SaturationChart series={seriesQ.data} timeZone={tz} hours={hours} onHoursChange={setHours} error={seriesQ.error} size={chartSize} extraMarks={gasMarks} />
         </div>
         <div className="min-w-0 space-y-4">
           <div className="panel min-w-0">
@@ -157,4 +161,13 @@ function PrintObsRecord({ patientId, timeZone, from }: { patientId: number; time
       </table>
     </section>
   );
+}
+
+/** The series' arterial gases as SpO₂-panel marks (SaO₂ is measured, so only arterial samples). */
+export function gasMarksOf(series: SeriesResponse | undefined): ExtraSpo2Mark[] {
+  return (series?.bloodGases ?? []).filter((g) => g.sampleType === 'arterial').map((g) => ({
+    key: g.id, t: g.t, v: g.sao2,
+    label: `SaO₂ ${g.sao2} %${g.spo2AtSample !== null ? ` (SpO₂ ${g.spo2AtSample} %)` : ''}${g.occult ? ' — occult hypoxaemia' : ''}`,
+    ...(g.occult ? { flag: 'occult hypoxaemia' } : {}),
+  }));
 }

@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import SaturationChart, { bandAt, chartSummary, timeTicks } from './SaturationChart.tsx';
 import DerivedFigures from './DerivedFigures.tsx';
+import { gasMarksOf } from './BedChartPage.tsx';
 import { T0, series } from './fixtures.tsx';
 
 afterEach(() => cleanup());
@@ -35,6 +36,22 @@ describe('SaturationChart', () => {
     const latest = screen.getByTestId('latest-spo2');
     expect(latest.textContent).toContain('90 %');
     expect(latest.querySelector('[data-state="below"]')!.textContent).toBe('below band');
+  });
+
+  it('draws blood gases as SaO₂ diamonds, ringed and named when the pair shows occult hypoxaemia', () => {
+    const gases = [
+      { id: 1, t: T0 - 3 * 3_600_000, sao2: 91, spo2AtSample: 95, sampleType: 'arterial' as const, occult: false },
+      { id: 2, t: T0 - 60 * 60_000, sao2: 86, spo2AtSample: 93, sampleType: 'arterial' as const, occult: true },
+    ];
+    const s = series({ bloodGases: gases });
+    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }}
+      extraMarks={{ name: 'SaO₂ (blood gas)', marks: gasMarksOf(s) }} />);
+    expect(container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"]:not([data-flag])')).toHaveLength(1);
+    const occult = container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"][data-flag="occult hypoxaemia"]');
+    expect(occult).toHaveLength(1);
+    expect(occult[0]!.querySelector('circle')).not.toBeNull(); // ringed
+    expect(occult[0]!.textContent).toBe('occult hypoxaemia'); // and named beside the mark
+    expect(screen.getByTestId('chart-summary').textContent).toContain('Blood gas at 11:00: SaO₂ 86 % while SpO₂ read 93 % — occult hypoxaemia.');
   });
 
   it('uses the unit’s zone, not the browser’s, for times', () => {

@@ -21,7 +21,11 @@ import { CHART_COLOURS, type ChartColours } from '~/lib/ui/chart-palette.ts';
 import { StateBadge, StateIcon, WINDOW_HOURS, bandStateOf, bandStateWord, errorText, fmtFio2, type BandState, type WindowHours } from './chart-shared.tsx';
 
 /** An extra set of marks on the SpO₂ panel (e.g. measured SaO₂ from blood gases). */
-export interface ExtraSpo2Mark { key: string | number; t: number; v: number; label: string }
+export interface ExtraSpo2Mark {
+  key: string | number; t: number; v: number; label: string;
+  /** When set, the mark is ringed and this word is written beside it (e.g. "occult hypoxaemia"). */
+  flag?: string;
+}
 
 export interface SaturationChartProps {
   series: SeriesResponse | undefined;
@@ -85,6 +89,9 @@ export function chartSummary(s: SeriesResponse, timeZone: string): string {
   const bandChanges = Math.max(0, s.bands.length - 1);
   if (bandChanges) sentence += ` The band changed ${bandChanges === 1 ? 'once' : `${bandChanges} times`}.`;
   if (s.escalations.length) sentence += ` ${s.escalations.length} escalation${s.escalations.length === 1 ? '' : 's'} in this window.`;
+  for (const g of s.bloodGases ?? []) {
+    sentence += ` Blood gas at ${formatClock(g.t, timeZone)}: SaO₂ ${g.sao2} %${g.spo2AtSample !== null ? ` while SpO₂ read ${g.spo2AtSample} %` : ''}${g.occult ? ' — occult hypoxaemia' : ''}.`;
+  }
   return sentence;
 }
 
@@ -137,10 +144,17 @@ function ReadingMark(props: { cx?: number; cy?: number; payload?: MarkPoint; col
   }
 }
 
-function ExtraMark(props: { cx?: number; cy?: number; colour: string }) {
-  const { cx, cy, colour } = props;
+function ExtraMark(props: { cx?: number; cy?: number; payload?: ExtraSpo2Mark; colour: string; flagColour: string }) {
+  const { cx, cy, payload, colour, flagColour } = props;
   if (cx === undefined || cy === undefined) return <g />;
-  return <path d={`M${cx},${cy - 6} L${cx + 6},${cy} L${cx},${cy + 6} L${cx - 6},${cy} Z`} fill="none" stroke={colour} strokeWidth={2} data-mark="extra" />;
+  const flag = payload?.flag;
+  return (
+    <g data-mark="extra" data-flag={flag}>
+      {flag && <circle cx={cx} cy={cy} r={10} fill="none" stroke={flagColour} strokeWidth={2} />}
+      <path d={`M${cx},${cy - 6} L${cx + 6},${cy} L${cx},${cy + 6} L${cx - 6},${cy} Z`} fill="none" stroke={colour} strokeWidth={2} />
+      {flag && <text x={cx + 12} y={cy + 4} fill={flagColour} fontSize={11} fontWeight={700}>{flag}</text>}
+    </g>
+  );
 }
 
 function Fio2Label(props: { cx?: number; cy?: number; payload?: { v: number; device: string | null; flowLpm: number | null; estimated: boolean; label?: boolean }; colour: string }) {
@@ -156,7 +170,7 @@ function Fio2Label(props: { cx?: number; cy?: number; payload?: { v: number; dev
 export default function SaturationChart({ series, timeZone, hours, onHoursChange, error, size, extraMarks }: SaturationChartProps) {
   const night = useNight();
   const colours = night ? CHART_COLOURS.night : CHART_COLOURS.day;
-  const model = useMemo(() => (series ? buildModel(series) : null), [series]);
+  const model = useMemo(() => (series ? buildModel(series, extraMarks?.marks) : null), [series, extraMarks]);
   const summary = useMemo(() => (series ? chartSummary(series, timeZone) : ''), [series, timeZone]);
   const [cursor, setCursor] = useState<number | null>(null);
   const plotRef = useRef<HTMLDivElement>(null);
@@ -230,7 +244,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
         <Scatter yAxisId="y" dataKey="v" data={model.marks} shape={(p: unknown) => <ReadingMark {...(p as object)} colours={colours} />} isAnimationActive={false} name="SpO₂ readings" />
       )}
       {extraMarks && extraMarks.marks.length > 0 && (
-        <Scatter yAxisId="y" dataKey="v" data={extraMarks.marks} shape={(p: unknown) => <ExtraMark {...(p as object)} colour={colours.extra} />} isAnimationActive={false} name={extraMarks.name} />
+        <Scatter yAxisId="y" dataKey="v" data={extraMarks.marks} shape={(p: unknown) => <ExtraMark {...(p as object)} colour={colours.extra} flagColour={colours.below} />} isAnimationActive={false} name={extraMarks.name} />
       )}
       {escalationLines(true)}
       {cursorLine}
@@ -326,7 +340,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
             <span className="inline-flex items-center gap-1"><svg viewBox="0 0 16 16" className="h-3.5 w-3.5" aria-hidden="true"><circle cx="8" cy="8" r="5" fill="none" stroke="currentColor" strokeWidth="1.6" /></svg> untrusted (hollow)</span>
             <span className="inline-flex items-center gap-1"><svg viewBox="0 0 16 16" className="h-3.5 w-3.5" aria-hidden="true"><rect x="3" y="3" width="10" height="10" fill="none" stroke="currentColor" strokeWidth="1.6" /></svg> charted obs (larger, outlined)</span>
             {model && model.envelope.length > 0 && <span className="inline-flex items-center gap-1"><span className="inline-block h-3 w-5 bg-ink-400/40" aria-hidden="true" /> lowest to highest reading in each {Math.round(series.bucketMs / 60_000)} min</span>}
-            {extraMarks && extraMarks.marks.length > 0 && <span className="inline-flex items-center gap-1"><span aria-hidden="true">◇</span> {extraMarks.name}</span>}
+            {extraMarks && extraMarks.marks.length > 0 && <span className="inline-flex items-center gap-1"><span aria-hidden="true">◇</span> {extraMarks.name}{[...new Set(extraMarks.marks.map((m) => m.flag).filter(Boolean))].map((f) => ` (ringed: ${f})`).join('')}</span>}
             {series.escalations.length > 0 && <span className="inline-flex items-center gap-1 text-coral-700 dark:text-coral-300"><span aria-hidden="true">┆</span> escalation</span>}
           </figcaption>
           <p className="mt-1 text-xs text-ink-600 dark:text-ink-300" data-testid="reading-counts">
@@ -342,7 +356,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
   );
 }
 
-function buildModel(s: SeriesResponse) {
+function buildModel(s: SeriesResponse, extra?: readonly ExtraSpo2Mark[]) {
   const trusted = s.spo2.filter((p) => p.trusted);
   const spo2Line = breakGaps(trusted);
   const withState = (p: Spo2Point): MarkPoint => ({ ...p, state: bandStateOf(p.v, p.trusted, bandAt(s.bands, p.t)) });
@@ -362,7 +376,7 @@ function buildModel(s: SeriesResponse) {
     if (label) lastLabel = f.t;
     return { ...f, label };
   });
-  const lows = [...s.spo2.map((p) => p.lo ?? p.v), ...s.bands.map((b) => b.low)];
+  const lows = [...s.spo2.map((p) => p.lo ?? p.v), ...s.bands.map((b) => b.low), ...(extra ?? []).map((m) => m.v)];
   const floor = lows.length ? Math.min(...lows) : 85;
   const spo2Domain: [number, number] = [Math.max(0, Math.min(85, Math.floor((floor - 3) / 5) * 5)), 100];
   const hrs = s.heartRate.flatMap((p) => [p.lo ?? p.v, p.hi ?? p.v]);

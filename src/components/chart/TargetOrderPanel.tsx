@@ -12,6 +12,9 @@ import useSWR from 'swr';
 import type { OrderView } from '~/lib/charting/api-types.ts';
 import { SCALE2_MAX_HIGH, TARGET_PRESETS, targetOrderSchema } from '~/lib/charting/target-input.ts';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import type { BloodGasList } from '~/lib/bloodgas/api-types.ts';
+import { formatGas, supportsScale2 } from '~/lib/bloodgas/compute.ts';
+import { formatDayTime } from '~/lib/time/format.ts';
 import { POLL_MS, apiFieldErrors, chartKeys, errorText, formatDateTime, useRefreshChart, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
 
 export interface TargetOrderPanelProps {
@@ -64,7 +67,7 @@ export default function TargetOrderPanel({ patientId, timeZone, canOrder, initia
       )}
       {error && <p role="alert" className="mt-2 text-sm text-coral-800 dark:text-coral-200">Could not refresh the orders: {errorText(error)}</p>}
 
-      {canOrder && <OrderForm patientId={patientId} newestId={current?.id ?? null} co2RetentionRisk={co2RetentionRisk} />}
+      {canOrder && <OrderForm patientId={patientId} newestId={current?.id ?? null} co2RetentionRisk={co2RetentionRisk} timeZone={timeZone} />}
 
       <h3 className="mt-4 text-base font-bold">Order history</h3>
       {orders.length === 0 ? (
@@ -84,6 +87,7 @@ export default function TargetOrderPanel({ patientId, timeZone, canOrder, initia
                 </p>
                 <p>Reason: {o.reason}</p>
                 {o.scaleReason && <p>Scale reason: {o.scaleReason}</p>}
+                {o.scale2Basis && <p data-testid="scale2-basis">Blood gas: {o.scale2Basis}</p>}
                 {preset && <p className="text-xs text-ink-500 dark:text-ink-400">Preset: {presetShortSource(preset)} — {preset.source}</p>}
               </li>
             );
@@ -94,7 +98,22 @@ export default function TargetOrderPanel({ patientId, timeZone, canOrder, initia
   );
 }
 
-function OrderForm({ patientId, newestId, co2RetentionRisk }: { patientId: number; newestId: number | null; co2RetentionRisk?: boolean }) {
+/** Beside the Scale 2 choice: the most recent PaCO₂ and pH, or that no blood gas supports it (the decision stays with the intensivist). */
+function Scale2Gas({ patientId, timeZone }: { patientId: number; timeZone: string }) {
+  const { data } = useSWR<BloodGasList>(`${chartKeys(patientId).patient}/blood-gases`, fetchJson, { refreshInterval: POLL_MS });
+  if (!data) return null;
+  const g = data.bloodGases.find((x) => x.status === 'current' && x.sampleType !== 'venous') ?? null;
+  if (!g) return <p className="mt-1 text-sm font-bold" data-testid="scale2-gas">No blood gas supports Scale 2: no arterial or capillary PaCO₂ charted. The order will say so.</p>;
+  const supports = supportsScale2({ sampleType: g.sampleType, paco2MmHg: g.paco2MmHg });
+  return (
+    <p className="mt-1 text-sm" data-testid="scale2-gas">
+      Most recent gas ({g.sampleType}, {formatDayTime(g.sampledAt, timeZone)}): <strong>PaCO₂ {formatGas(g.paco2MmHg, data.gasUnit)}</strong>, <strong>pH {g.ph.toFixed(2)}</strong>
+      {supports ? ' — shows hypercapnia.' : ' — does not show hypercapnia (PaCO₂ not above 6.0 kPa / 45 mmHg); the order will say so.'}
+    </p>
+  );
+}
+
+function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patientId: number; newestId: number | null; co2RetentionRisk?: boolean; timeZone: string }) {
   const uid = useId();
   const id = (f: string) => `${uid}-${f}`;
   const refresh = useRefreshChart(patientId);
@@ -231,6 +250,7 @@ function OrderForm({ patientId, newestId, co2RetentionRisk }: { patientId: numbe
             ? `Scale 2 fits this band (upper limit ${SCALE2_MAX_HIGH} % or below), for confirmed hypercapnic respiratory failure.`
             : `Scale 2 is meant for bands topping out at ${SCALE2_MAX_HIGH} % or below; with a higher band it needs a reason.`}
         </p>
+        {v.news2Scale === '2' && <Scale2Gas patientId={patientId} timeZone={timeZone} />}
         {err('news2Scale')}
       </fieldset>
       {needsScaleReason && (

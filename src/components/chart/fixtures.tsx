@@ -12,7 +12,7 @@ export const iso = (ms: number) => new Date(ms).toISOString();
 export function order(over: Partial<OrderView> = {}): OrderView {
   return {
     id: 7, low: 92, high: 96, news2Scale: 1, preset: 'tsanz_most', reason: 'Pneumonia, improving', scaleReason: null,
-    orderedAt: iso(T0 - 10 * 3_600_000), orderedBy: 'Dr Imogen Vale', supersedesId: 6, ...over,
+    orderedAt: iso(T0 - 10 * 3_600_000), orderedBy: 'Dr Imogen Vale', supersedesId: 6, scale2Basis: null, ...over,
   };
 }
 
@@ -41,7 +41,7 @@ export function series(over: Partial<SeriesResponse> = {}): SeriesResponse {
   const from = T0 - 12 * 3_600_000;
   const to = T0;
   return {
-    patientId: 3, hours: 12, from, to, generatedAt: iso(T0),
+    patientId: 3, hours: 12, from, to, generatedAt: iso(T0), bloodGases: [],
     spo2: [
       { t: from + 3_600_000, v: 95, trusted: true, source: 'charted' },
       { t: from + 2 * 3_600_000, v: 83, trusted: false, source: 'device' },

@@ -23,7 +23,11 @@ export interface BedInput {
   lastCharted: ChartedObs | null;
   escalation: null | { id: number; kind: string; severity: string | null; state: 'raised' | 'claimed'; raisedAt: number; claimedBy: string | null };
   nurse: null | { id: number; name: string };
+  /** An open occult-hypoxaemia task: a blood gas whose SaO₂ was < 88 % while SpO₂ read ≥ 92 %. */
+  occultHypoxaemia?: OccultFlag | null;
 }
+
+export interface OccultFlag { escalationId: number; sampledAt: number; sao2: number; spo2AtSample: number; state: 'raised' | 'claimed' }
 
 /** Most concerning first; the order the brief gives. */
 export const CONCERN_ORDER = ['urgent_escalation', 'below_band', 'cannot_verify', 'no_band', 'overdue', 'above_on_oxygen', 'in_band', 'no_reading', 'empty'] as const;
@@ -58,6 +62,7 @@ export interface BoardTile {
   };
   escalation: BedInput['escalation'];
   nurse: BedInput['nurse'];
+  occultHypoxaemia: OccultFlag | null;
   concern: { key: ConcernKey; rank: number; reason: string };
   /** One sentence for screen readers: the tile said in words. */
   sentence: string;
@@ -71,7 +76,7 @@ export function buildTile(bed: BedInput, now: number, settings: BoardSettings, t
       bedId: bed.bedId, bedLabel: bed.bedLabel, patient: null, band: null, state: { name: 'no_reading', sinceMin: null, was: null, wasMin: null, until: null }, latest: null,
       monitor: null, timeZone,
       oxygen: { fio2: null, fio2Estimated: false, device: null }, minutesSinceCharted: null, overdue: false, news2: null,
-      concerns: { belowBand: null, cannotVerify: null, aboveOnOxygen: null }, escalation: null, nurse: bed.nurse,
+      concerns: { belowBand: null, cannotVerify: null, aboveOnOxygen: null }, escalation: null, nurse: bed.nurse, occultHypoxaemia: null,
       concern: { key: 'empty', rank: CONCERN_ORDER.indexOf('empty'), reason: 'Empty bed' }, sentence: `Bed ${bed.bedLabel}: empty.`,
     };
   }
@@ -123,7 +128,7 @@ export function buildTile(bed: BedInput, now: number, settings: BoardSettings, t
       cannotVerify: concerns.cannotVerify ? { sinceMin: Math.floor(concerns.cannotVerify.sinceMin) } : null,
       aboveOnOxygen: concerns.aboveOnOxygen ? { sinceMin: Math.floor(concerns.aboveOnOxygen.sinceMin) } : null,
     },
-    escalation: bed.escalation, nurse: bed.nurse,
+    escalation: bed.escalation, nurse: bed.nurse, occultHypoxaemia: bed.occultHypoxaemia ?? null,
     concern: { key: 'in_band', rank: 0, reason: '' }, sentence: '',
   };
   tile.concern = concernOf(tile);
@@ -213,6 +218,7 @@ function sentenceFor(t: BoardTile): string {
   if (t.minutesSinceCharted !== null) parts.push(`Last obs charted ${formatMinutes(t.minutesSinceCharted)} ago${t.overdue ? ', overdue' : ''}.`);
   if (t.news2) parts.push(`NEWS2 ${t.news2.total}.`);
   if (t.escalation) parts.push(`Escalation ${t.escalation.state}.`);
+  if (t.occultHypoxaemia) parts.push(`Occult hypoxaemia: blood gas SaO₂ ${t.occultHypoxaemia.sao2} percent while SpO₂ read ${t.occultHypoxaemia.spo2AtSample} percent.`);
   return parts.join(' ');
 }
 

@@ -4,10 +4,13 @@
  */
 import type { OxygenDevice, ReadingSource, TraceQuality } from '~/lib/oxygenation/types.ts';
 import type { Consciousness } from '~/lib/oxygenation/news2.ts';
+import type { GasMark } from '~/lib/bloodgas/api-types.ts';
 
 export interface OrderView {
   id: number; low: number; high: number; news2Scale: 1 | 2; preset: string | null; reason: string; scaleReason: string | null;
   orderedAt: string; orderedBy: string; supersedesId: number | null;
+  /** For a Scale 2 order: what the latest blood gas said when it was ordered, or that none supported it. */
+  scale2Basis: string | null;
 }
 
 export interface StayView {
@@ -83,5 +86,7 @@ export interface SeriesResponse {
   escalations: { id: number; raisedAt: number; closedAt: number | null; kind: string; severity: string | null }[];
   /** Readings in the window before downsampling, per line. */
   rawCounts: { spo2: number; heartRate: number };
+  /** Current blood gases sampled in the window: SaO₂ marks at the sample time. */
+  bloodGases: GasMark[];
   derived: DerivedFigures;
 }

@@ -39,3 +39,12 @@ describe('demo scenario (invented data)', () => {
     expect(Math.max(...times)).toBeLessThanOrEqual(now.getTime());
   });
 });
+
+describe('demo blood gases (invented)', async () => {
+  const { demoBloodGases, demoPatients: patients } = await import('./scenario.ts');
+  const { gasFlags } = await import('~/lib/bloodgas/compute.ts');
+  it('belong to demo patients and include one pair where the oximeter over-reads', () => {
+    for (const g of demoBloodGases) expect(patients.some((p) => p.mrn === g.mrn)).toBe(true);
+    expect(demoBloodGases.filter((g) => gasFlags(g).includes('occult_hypoxaemia'))).toHaveLength(1);
+  });
+});

@@ -146,3 +146,21 @@ function p(mrn: string, givenName: string, familyName: string, dateOfBirth: stri
 
 function range(n: number) { return Array.from({ length: n }, (_, i) => i); }
 function pad(n: number) { return String(n).padStart(2, '0'); }
+
+export interface DemoBloodGas {
+  mrn: string; hoursAgo: number; sampleType: 'arterial' | 'venous' | 'capillary';
+  ph: number; pao2Kpa: number; paco2Kpa: number; sao2: number; hco3: number; baseExcess: number; lactate: number; hbGdl: number; fio2: number; spo2AtSample: number;
+}
+
+/**
+ * A few invented blood gases. Bed 4-04 has a pair where the oximeter over-reads: SaO₂ 86.5 %
+ * measured while SpO₂ read 93 % (occult hypoxaemia, as Sjoding 2020 defined it), after an earlier
+ * pair 4 points apart. Bed 4-02 (a CO₂ retainer on Scale 2) has a hypercapnic gas.
+ */
+export const demoBloodGases: DemoBloodGas[] = [
+  { mrn: 'HG400468', hoursAgo: 9, sampleType: 'arterial', ph: 7.39, pao2Kpa: 8.6, paco2Kpa: 5.2, sao2: 91, hco3: 23.4, baseExcess: -0.8, lactate: 1.1, hbGdl: 11.9, fio2: 0.35, spo2AtSample: 95 },
+  { mrn: 'HG400468', hoursAgo: 3, sampleType: 'arterial', ph: 7.37, pao2Kpa: 7.1, paco2Kpa: 5.4, sao2: 86.5, hco3: 23.1, baseExcess: -1.4, lactate: 1.3, hbGdl: 11.8, fio2: 0.35, spo2AtSample: 93 },
+  { mrn: 'HG400233', hoursAgo: 5, sampleType: 'arterial', ph: 7.33, pao2Kpa: 8.2, paco2Kpa: 7.6, sao2: 91.5, hco3: 31.2, baseExcess: 5.6, lactate: 0.9, hbGdl: 14.6, fio2: 0.32, spo2AtSample: 92 },
+  { mrn: 'HG400117', hoursAgo: 6, sampleType: 'arterial', ph: 7.41, pao2Kpa: 9.4, paco2Kpa: 4.9, sao2: 93.4, hco3: 22.8, baseExcess: -0.5, lactate: 1.8, hbGdl: 12.7, fio2: 0.5, spo2AtSample: 95 },
+  { mrn: 'HG500363', hoursAgo: 4, sampleType: 'venous', ph: 7.35, pao2Kpa: 5.3, paco2Kpa: 6.1, sao2: 72, hco3: 25.0, baseExcess: 0.4, lactate: 2.1, hbGdl: 13.3, fio2: 0.4, spo2AtSample: 95 },
+];

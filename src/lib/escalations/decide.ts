@@ -4,7 +4,7 @@
  */
 import type { BandStateResult, Concerns } from '~/lib/oxygenation/index.ts';
 
-export type EscalationKind = 'below_band' | 'probe_check' | 'wean_prompt';
+export type EscalationKind = 'below_band' | 'probe_check' | 'wean_prompt' | 'occult_hypoxaemia';
 export const EMAILED_KINDS: readonly EscalationKind[] = ['below_band'];
 /** Minutes back in band after which an open below-band escalation notes it. */
 export const BACK_IN_BAND_NOTE_MIN = 30;
@@ -84,6 +84,7 @@ export const KIND_LABELS: Record<EscalationKind, string> = {
   below_band: 'Below band',
   probe_check: 'Probe check',
   wean_prompt: 'Wean prompt',
+  occult_hypoxaemia: 'Occult hypoxaemia',
 };
 
 /** What an escalation stores as its proof: the run and the readings around it. */

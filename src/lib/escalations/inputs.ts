@@ -4,7 +4,7 @@ import { OUTCOMES } from './decide.ts';
 export const listEscalationsQuery = z.object({
   state: z.enum(['open', 'closed'], { errorMap: () => ({ message: 'state is open or closed' }) }).default('open'),
   unit: z.string().trim().min(1).max(16).optional(),
-  kind: z.enum(['below_band', 'probe_check', 'wean_prompt']).optional(),
+  kind: z.enum(['below_band', 'probe_check', 'wean_prompt', 'occult_hypoxaemia']).optional(),
   patient: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(200),
 });
@@ -33,6 +33,9 @@ export const unitSettingsSchema = z.object({
   monitorSilentMin: minutes('Monitor silent after (min)', 1, 30).default(3),
   silentBelowProbeMin: minutes('Silent after below band: probe check after (min)', 1, 30).default(3),
   outreachEmails: z.array(z.string().trim().toLowerCase().email('Not an e-mail address')).min(1, 'Give at least one outreach e-mail address').max(20),
+  /** Blood-gas display unit and barometric pressure; left out, the unit keeps what it has. */
+  gasUnit: z.enum(['kPa', 'mmHg'], { errorMap: () => ({ message: 'Gas unit is kPa or mmHg' }) }).optional(),
+  barometricMmHg: minutes('Barometric pressure (mmHg)', 500, 800).optional(),
   // Shift times for the handover sheet, wall clock in the unit's zone; left out = unchanged.
   shiftStart: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Shift start as HH:MM, 24-hour').optional(),
   shiftEnd: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Shift end as HH:MM, 24-hour').optional(),

@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { bundleEntry, bundleHead, encounterResource, goalResource, observationResources, observationStatus, patientResource, type ObservationIn, type OrderIn } from './r4.ts';
+import { bloodGasResources, bundleEntry, bundleHead, encounterResource, goalResource, observationResources, observationStatus, patientResource, type ObservationIn, type OrderIn } from './r4.ts';
 import { codeIssues, ensureIndexed, r4Codes, structureIssues } from './validate.ts';
 
 // The R4 structure definitions (several MB of JSON): indexed once, before the clock of any test.
@@ -37,6 +37,22 @@ describe('mappers', () => {
     expect(structureIssues(r)).toEqual([]);
     expect(codeIssues(r)).toEqual([]);
     expect(r).toMatchObject({ id: 'patient-7', birthDate: '1951-04-09', name: [{ family: 'Marsh', given: ['Ada'] }] });
+  });
+
+  it('Blood gas: one laboratory Observation per value, LOINC pH 2744-1, PaCO₂ 2019-8, PaO₂ 2703-7, SaO₂ 2708-6 (from memory, REFERENCES.md)', () => {
+    const gas = { id: 5, sampled_at: new Date('2026-12-02T05:40:00Z'), sample_type: 'arterial' as const, status: 'current' as const, replaces_id: null, replaced_by_id: null,
+      status_reason: null, ph: '7.310', pao2_mmhg: '63.8', paco2_mmhg: '52.5', sao2: '85.0', recorded_by_name: 'Nurse Ward' };
+    const rs = bloodGasResources(gas, 7);
+    for (const r of rs) { expect(structureIssues(r)).toEqual([]); expect(codeIssues(r)).toEqual([]); }
+    const byCode = Object.fromEntries(rs.map((r) => [(r.code as { coding: { code: string }[] }).coding[0]!.code, r]));
+    expect(Object.keys(byCode).sort()).toEqual(['2019-8', '2703-7', '2708-6', '2744-1']);
+    expect(byCode['2744-1']!.valueQuantity).toEqual({ value: 7.31, unit: '[pH]', system: 'http://unitsofmeasure.org', code: '[pH]' });
+    expect(byCode['2703-7']!.valueQuantity).toMatchObject({ value: 63.8, code: 'mm[Hg]' });
+    expect(byCode['2708-6']!.valueQuantity).toMatchObject({ value: 85, code: '%' });
+    expect(rs.every((r) => r.status === 'final')).toBe(true);
+    const wrong = bloodGasResources({ ...gas, sample_type: 'venous', status: 'entered_in_error', status_reason: 'wrong patient' }, 7);
+    for (const r of wrong) { expect(structureIssues(r)).toEqual([]); expect(codeIssues(r)).toEqual([]); }
+    expect(wrong[0]).toMatchObject({ status: 'entered-in-error', note: [{ text: 'A venous sample, not arterial. Entered in error: wrong patient.' }] });
   });
 
   it('Encounter per stay: in progress while open, finished once ended', () => {

@@ -116,6 +116,49 @@ export function observationResources(o: ObservationIn, patientId: number): Resou
   });
 }
 
+/** Blood-gas values we export: LOINC (from memory, REFERENCES.md), display, UCUM unit. */
+export const GAS_CODES = {
+  ph: { code: '2744-1', display: 'pH of Arterial blood', unit: '[pH]' },
+  paco2: { code: '2019-8', display: 'Carbon dioxide [Partial pressure] in Arterial blood', unit: 'mm[Hg]' },
+  pao2: { code: '2703-7', display: 'Oxygen [Partial pressure] in Arterial blood', unit: 'mm[Hg]' },
+  sao2: { code: '2708-6', display: 'Oxygen saturation in Arterial blood', unit: '%' },
+} as const;
+
+export interface BloodGasIn {
+  id: number; sampled_at: Date; sample_type: 'arterial' | 'venous' | 'capillary'; status: 'current' | 'superseded' | 'entered_in_error';
+  replaces_id: number | null; replaced_by_id: number | null; status_reason: string | null;
+  ph: string | number; pao2_mmhg: string | number; paco2_mmhg: string | number; sao2: string | number; recorded_by_name: string | null;
+}
+
+/**
+ * One laboratory Observation per value of a blood gas (pressures in mmHg as stored). The codes are the
+ * arterial ones, so venous and capillary samples say so in the text and a note. Status as obs.
+ */
+export function bloodGasResources(g: BloodGasIn, patientId: number): Resource[] {
+  const status = observationStatus(g);
+  const parts: string[] = [];
+  if (g.sample_type !== 'arterial') parts.push(`A ${g.sample_type} sample, not arterial.`);
+  if (g.replaces_id) parts.push(`Corrects blood gas ${g.replaces_id}.`);
+  if (g.status === 'superseded') parts.push(`Superseded by blood gas ${g.replaced_by_id ?? '?'}${g.status_reason ? `: ${g.status_reason}` : ''}.`);
+  if (g.status === 'entered_in_error') parts.push(`Entered in error${g.status_reason ? `: ${g.status_reason}` : ''}.`);
+  const values: [keyof typeof GAS_CODES, number | null][] = [['ph', num(g.ph)], ['paco2', num(g.paco2_mmhg)], ['pao2', num(g.pao2_mmhg)], ['sao2', num(g.sao2)]];
+  return values.filter(([, v]) => v !== null).map(([key, value]) => {
+    const def = GAS_CODES[key];
+    return {
+      resourceType: 'Observation',
+      id: `gas-${g.id}-${key}`,
+      status,
+      category: [{ coding: [{ system: OBS_CATEGORY, code: 'laboratory', display: 'Laboratory' }] }],
+      code: { coding: [{ system: LOINC, code: def.code, display: def.display }], text: `${def.display}${g.sample_type === 'arterial' ? '' : ` (${g.sample_type} sample)`}` },
+      subject: { reference: `Patient/patient-${patientId}` },
+      effectiveDateTime: iso(g.sampled_at),
+      ...(g.recorded_by_name ? { performer: [{ display: g.recorded_by_name }] } : {}),
+      valueQuantity: { value: value!, unit: def.unit, system: UCUM, code: def.unit },
+      ...(parts.length ? { note: [{ text: parts.join(' ') }] } : {}),
+    };
+  });
+}
+
 export interface OrderIn { id: number; low: number; high: number; reason: string; ordered_by_name: string; ordered_at: Date; news2_scale: 1 | 2; scale_reason: string | null }
 
 /**

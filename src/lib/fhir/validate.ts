@@ -50,8 +50,11 @@ export function r4Codes(systemUrl: string): Set<string> {
 }
 
 /** The exported LOINC codes and UCUM units, as ../shared/REFERENCES.md lists them (from memory of the FHIR vital-signs profile). */
-export const REFERENCE_LOINC = new Set(['59408-5', '2708-6', '8867-4', '9279-1', '3150-0', '3151-8', '8310-5', '8480-6']);
-export const REFERENCE_UCUM = new Set(['%', '/min', 'L/min', 'Cel', 'mm[Hg]']);
+export const REFERENCE_LOINC = new Set(['59408-5', '2708-6', '8867-4', '9279-1', '3150-0', '3151-8', '8310-5', '8480-6',
+  // Blood gases (REFERENCES.md, from memory): pH, PaCO₂, PaO₂ (SaO₂ is 2708-6 above).
+  '2744-1', '2019-8', '2703-7']);
+/** `[pH]` is UCUM's pH unit (from memory). */
+export const REFERENCE_UCUM = new Set(['%', '/min', 'L/min', 'Cel', 'mm[Hg]', '[pH]']);
 
 /**
  * Code checks for one resource: status fields against their R4 code systems, codings of known

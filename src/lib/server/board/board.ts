@@ -48,6 +48,7 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
       lastCharted: last ? toChartedObs(last) : null,
       escalation: b.patient_id === null ? null : escalations.get(b.patient_id) ?? null,
       nurse: b.nurse_id === null ? null : { id: b.nurse_id, name: b.nurse_name! },
+      occultHypoxaemia: b.patient_id === null ? null : escalations.occult.get(b.patient_id) ?? null,
     };
     return buildTile(input, nowMs, settings, unit.time_zone);
   });

@@ -10,6 +10,7 @@ import { ordersOf } from '~/lib/server/queries/orders.ts';
 import { escalationsInWindow } from '~/lib/server/queries/escalations.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from './patients.ts';
+import { gasMarks } from '~/lib/server/bloodgas/blood-gases.ts';
 import { toBandOrders, toChartedObs, toReading } from './readings.ts';
 import { news2InputOf } from '~/lib/charting/charted-obs.ts';
 
@@ -27,7 +28,10 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   const from = to - hours * 3_600_000;
   // Start early by the longest carry-forward so the window's first minutes are counted correctly.
   const lookBackMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * 60_000;
-  const [orderRows, escalationRows, newestCharted] = await Promise.all([ordersOf(patientId), escalationsInWindow(patientId, new Date(from)), lastChartedObservation(patientId)]);
+  const [orderRows, escalationRows, newestCharted, bloodGases] = await Promise.all([
+    ordersOf(patientId), escalationsInWindow(patientId, new Date(from)), lastChartedObservation(patientId),
+    gasMarks(patientId, new Date(from), new Date(to)),
+  ]);
   const orders = toBandOrders(orderRows);
   // NEWS2 and ROX need a full charted set: the newest charted obs, when it falls in the window.
   const chartedInWindow = newestCharted && new Date(newestCharted.taken_at).getTime() >= from ? newestCharted : undefined;
@@ -77,6 +81,7 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
     escalations: escalationRows.map((e) => ({
       id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
     })),
+    bloodGases,
     derived: derivedFigures(compliance, latest, chartedRows, chartedInWindow, orderRows, from, to, hours),
   };
 }

@@ -15,6 +15,7 @@ export function orderView(o: OrderRow): OrderView {
   return {
     id: o.id, low: o.low, high: o.high, news2Scale: Number(o.news2_scale) as 1 | 2, preset: o.preset, reason: o.reason,
     scaleReason: o.scale_reason, orderedAt: iso(o.ordered_at)!, orderedBy: o.ordered_by_name, supersedesId: o.supersedes_id,
+    scale2Basis: o.scale2_basis ?? null,
   };
 }
 

@@ -46,7 +46,7 @@ async function unitsFor(user: SessionUser, unitCode?: string) {
 export async function listForUser(user: SessionUser, q: { state: 'open' | 'closed'; unit?: string; kind?: EscalationKind; patient?: number; limit: number }) {
   const units = await unitsFor(user, q.unit);
   // Wean prompts belong to the board; the queue holds what someone must act on, unless asked by kind.
-  const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check'];
+  const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check', 'occult_hypoxaemia'];
   const now = Date.now();
   const rows = await listEscalations({
     unitIds: units.map((u) => u.id), open: q.state === 'open', kinds, patientId: q.patient, limit: q.limit,
@@ -141,6 +141,7 @@ export async function readUnitSettings(user: SessionUser, code: string) {
     settings: { consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin, urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct,
       cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin, renotifyMin: s.renotifyMin, overdueMin: s.overdueMin, outreachEmails: s.outreachEmails,
       shiftStart: s.shiftStart, shiftEnd: s.shiftEnd,
+      gasUnit: s.gasUnit, barometricMmHg: s.barometricMmHg,
       unitPhone: s.unitPhone, monitorSilentMin: s.monitorSilentMin, silentBelowProbeMin: s.silentBelowProbeMin },
     updatedAt: row ? iso(row.updated_at) : null,
   };
@@ -153,6 +154,7 @@ export async function writeUnitSettings(admin: SessionUser, code: string, input:
     const row = {
       unit_id: unit.id, consecutive_charted: input.consecutiveCharted, device_dwell_min: input.deviceDwellMin, urgent_margin_points: input.urgentMarginPoints,
       urgent_floor_pct: input.urgentFloorPct, cannot_verify_min: input.cannotVerifyMin, above_on_oxygen_min: input.aboveOnOxygenMin, renotify_min: input.renotifyMin,
+      gas_unit: input.gasUnit ?? before?.gas_unit ?? DEFAULT_UNIT_SETTINGS.gasUnit, barometric_mmhg: input.barometricMmHg ?? before?.barometric_mmhg ?? DEFAULT_UNIT_SETTINGS.barometricMmHg,
       overdue_min: input.overdueMin, outreach_emails: input.outreachEmails.join(', '),
       unit_phone: input.unitPhone ?? null, monitor_silent_min: input.monitorSilentMin, silent_below_probe_min: input.silentBelowProbeMin, updated_by: admin.id, updated_at: now,
       shift_start: input.shiftStart ?? before?.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart, shift_end: input.shiftEnd ?? before?.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,

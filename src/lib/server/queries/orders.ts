@@ -5,6 +5,7 @@ import type { Conn } from './patients.ts';
 export interface OrderRow {
   id: number; patient_id: number; low: number; high: number; news2_scale: 1 | 2; preset: string | null; reason: string; scale_reason: string | null;
   supersedes_id: number | null; ordered_by: number; ordered_by_name: string; ordered_at: Date;
+  scale2_basis?: string | null;
 }
 
 function ordersQuery(conn: Conn) {

@@ -5,6 +5,7 @@ export interface UnitSettingsRow {
   unit_id: number; consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
   cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
   shift_start: string; shift_end: string;
+  gas_unit?: 'kPa' | 'mmHg'; barometric_mmhg?: number;
   unit_phone: string | null; monitor_silent_min: number; silent_below_probe_min: number;
   updated_by: number | null; updated_at: Date;
 }

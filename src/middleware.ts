@@ -63,12 +63,14 @@ const databaseFaults = defineMiddleware(async (ctx, next) => {
 const bodyCap = defineMiddleware((ctx, next) => {
   if (SAFE_METHODS.has(ctx.request.method) || !ctx.request.body) return next();
   const path = ctx.url.pathname;
+  // Uploads cap themselves while reading (their reader stops at the same limit): answering 413 here and
+  // closing the socket mid-upload made clients fail with EPIPE instead of reading the 413.
+  if (streamsOwnBody(path)) return next();
   const limit = bodyLimitFor(path);
   const declared = ctx.request.headers.get('content-length');
   if (declared === null) {
     // No length and no chunked encoding: HTTP says there is no body (a browser's bodiless DELETE).
     if (!ctx.request.headers.has('transfer-encoding')) return next();
-    if (streamsOwnBody(path)) return next(); // the upload reader stops at the same cap
     return errorJson(411, 'length_required', 'Send a Content-Length with the body.');
   }
   if (!/^\d+$/.test(declared) || Number(declared) > limit) {

@@ -75,10 +75,9 @@ export function requireRole(locals: App.Locals, roles: readonly Role[]): Session
 
 type Schema<T> = ZodType<T, ZodTypeDef, unknown>;
 
-/** The body as text, stopping with 413 past `maxBytes` (the middleware has already checked Content-Length). */
-export async function readBodyText(request: Request, maxBytes = DEFAULT_BODY_LIMIT): Promise<string> {
-  if (!request.body) return '';
-  const reader = request.body.getReader();
+/** The body's bytes, throwing `tooLarge()` as soon as they pass `maxBytes` (the JSON routes and the uploads share it). */
+export async function readBodyBytes(body: ReadableStream<Uint8Array>, maxBytes: number, tooLarge: () => ApiError): Promise<Buffer> {
+  const reader = body.getReader();
   const chunks: Uint8Array[] = [];
   let size = 0;
   for (;;) {
@@ -87,11 +86,19 @@ export async function readBodyText(request: Request, maxBytes = DEFAULT_BODY_LIM
     size += value.byteLength;
     if (size > maxBytes) {
       await reader.cancel();
-      throw new ApiError(413, 'body_too_large', `The body is larger than this route takes (${Math.round(maxBytes / 1024)} KB).`);
+      throw tooLarge();
     }
     chunks.push(value);
   }
-  return new TextDecoder('utf-8').decode(Buffer.concat(chunks, size));
+  return Buffer.concat(chunks, size);
+}
+
+/** The body as text, stopping with 413 past `maxBytes` (the middleware has already checked Content-Length). */
+export async function readBodyText(request: Request, maxBytes = DEFAULT_BODY_LIMIT): Promise<string> {
+  if (!request.body) return '';
+  const bytes = await readBodyBytes(request.body, maxBytes,
+    () => new ApiError(413, 'body_too_large', `The body is larger than this route takes (${Math.round(maxBytes / 1024)} KB).`));
+  return new TextDecoder('utf-8').decode(bytes);
 }
 
 /**

@@ -3,7 +3,7 @@
  * checked over the files themselves so a new file that breaks one fails the unit run.
  */
 import { readdirSync, readFileSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { dirname, join, normalize, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 
@@ -52,6 +52,41 @@ describe('import paths', () => {
     const files = [...filesUnder('src'), ...filesUnder('test')];
     expect(files.length).toBeGreaterThan(50);
     const offenders = files.flatMap((f) => deepClimbs(readFileSync(join(root, f), 'utf8')).map((x) => `${relative(root, join(root, f))}:${x.line} ${x.spec}`));
+    expect(offenders).toEqual([]);
+  });
+});
+
+/**
+ * Imports from a browser-side file (anything under src/components, or any .tsx island) into
+ * src/lib/server, by `~/lib/server/…` or by a relative path that lands there. Islands read the API's
+ * JSON shapes from `src/lib/<domain>/api-types.ts`; server modules never reach the browser bundle.
+ */
+export function serverImports(file: string, text: string): { line: number; spec: string }[] {
+  return importSpecifiers(text).filter(({ spec }) => {
+    const target = spec.startsWith('~/') ? join('src', spec.slice(2)) : spec.startsWith('.') ? normalize(join(dirname(file), spec)) : null;
+    return target !== null && (target === join('src', 'lib', 'server') || target.startsWith(join('src', 'lib', 'server') + '/'));
+  });
+}
+
+const browserSide = (f: string) => f.startsWith(join('src', 'components') + '/') || f.endsWith('.tsx');
+
+describe('browser code and server code', () => {
+  it('finds server imports of every form (checking the checker)', () => {
+    const sample = [
+      "import type { A } from '~/lib/server/a.ts';",
+      "import { b } from '../../lib/server/queries/b.ts';",
+      "import type { C } from '~/lib/board/api-types.ts';",
+      "import { d } from '../server-side.ts';",
+      "const e = await import('~/lib/server');",
+    ].join('\n');
+    expect(serverImports('src/components/board/X.tsx', sample).map((x) => x.spec)).toEqual(['~/lib/server/a.ts', '../../lib/server/queries/b.ts', '~/lib/server']);
+    expect(serverImports('src/lib/board/x.ts', "import { y } from '../server/y.ts';").map((x) => x.spec)).toEqual(['../server/y.ts']);
+  });
+
+  it('no component and no .tsx island imports from src/lib/server', () => {
+    const files = filesUnder('src').filter(browserSide);
+    expect(files.length).toBeGreaterThan(20);
+    const offenders = files.flatMap((f) => serverImports(f, readFileSync(join(root, f), 'utf8')).map((x) => `${f}:${x.line} ${x.spec}`));
     expect(offenders).toEqual([]);
   });
 });

@@ -2,7 +2,7 @@ import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { formatDateTime } from '~/lib/time/format.ts';
-import type { DeviceKeyView } from '~/lib/server/devices/keys.ts';
+import type { DeviceKeyView } from '~/lib/devices/api-types.ts';
 
 interface ListResponse { keys: DeviceKeyView[]; beds: { id: number; label: string; unitCode: string; unitName: string }[] }
 

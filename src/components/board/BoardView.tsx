@@ -1,6 +1,6 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import useSWR from 'swr';
-import type { BoardResponse } from '~/lib/server/board/board.ts';
+import type { BoardResponse, BoardTileView } from '~/lib/board/api-types.ts';
 import type { BoardTile } from '~/lib/board/tiles.ts';
 import { formatMinutes, latestWords, monitorWords, stateWords } from '~/lib/board/tiles.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
@@ -93,7 +93,7 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
         onFocus={() => setFocusInside(true)}
         onBlur={(e) => { if (!e.currentTarget.contains(e.relatedTarget as Node | null)) setFocusInside(false); }}>
         {tiles.map((tile) => (
-          <Tile key={tile.bedId} tile={tile} zone={zone} me={me} nurses={nurses.data?.nurses ?? null}
+          <Tile key={tile.bedId} tile={tile} zone={zone} nurses={nurses.data?.nurses ?? null}
             onDone={(text, ok) => { setNotice({ ok, text }); if (ok) void mutate(); }} />
         ))}
       </ul>
@@ -157,8 +157,8 @@ function escalationWords(e: NonNullable<BoardTile['escalation']>, zone: string):
   return `${kind}${e.severity === 'urgent' ? ' · urgent' : ''} · ${e.state === 'claimed' ? `claimed by ${e.claimedBy ?? 'someone'}` : 'not yet claimed'} · raised ${formatClock(e.raisedAt, zone)}`;
 }
 
-function Tile({ tile, zone, me, nurses, onDone }: {
-  tile: BoardTile; zone: string; me: { id: number; role: string }; nurses: { id: number; name: string }[] | null; onDone: (text: string, ok: boolean) => void;
+function Tile({ tile, zone, nurses, onDone }: {
+  tile: BoardTileView; zone: string; nurses: { id: number; name: string }[] | null; onDone: (text: string, ok: boolean) => void;
 }) {
   const [assignError, setAssignError] = useState<string | null>(null);
   if (!tile.patient) {
@@ -184,7 +184,7 @@ function Tile({ tile, zone, me, nurses, onDone }: {
     }
   }
   const esc = tile.escalation;
-  const mayClaim = esc && esc.state === 'raised' && esc.kind !== 'wean_prompt' && (me.role === 'charge' || (me.role === 'nurse' && tile.nurse?.id === me.id));
+  const mayClaim = tile.can.claim;
   async function claim() {
     if (!esc) return;
     try {

@@ -1,22 +1,16 @@
 import { useState } from 'react';
 import useSWR from 'swr';
-import type { EscalationView } from '~/lib/server/escalations/service.ts';
+import type { EscalationList as Answer, QueueEscalation as QueueItem } from '~/lib/escalations/api-types.ts';
 import { KIND_LABELS, OUTCOME_LABELS, OUTCOMES, type Outcome } from '~/lib/escalations/decide.ts';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { formatAge, formatDayTime, formatMinutes, formatWhen } from '~/lib/time/format.ts';
 
-/** An open escalation as the queue gets it: with the patient's SpO₂ now and its last 30 minutes. */
-type QueueItem = EscalationView & {
-  current?: { spo2: number; at: string; source: string; trusted: boolean } | null;
-  trend?: { t: number; v: number }[];
-};
-interface Answer { escalations: QueueItem[]; generatedAt: string }
-interface Props { initial: Answer; me: { role: string }; unit?: string; units?: { code: string; name: string }[]; pollMs?: number }
+interface Props { initial: Answer; unit?: string; units?: { code: string; name: string }[]; pollMs?: number }
 
 const KINDS = ['below_band', 'probe_check'] as const;
 
 /** The outreach queue: open escalations oldest first with claim and close, filters by unit and kind, and a Closed tab (7 days). */
-export default function EscalationQueue({ initial, me, unit: fixedUnit, units = [], pollMs = 12_000 }: Props) {
+export default function EscalationQueue({ initial, unit: fixedUnit, units = [], pollMs = 12_000 }: Props) {
   const [tab, setTab] = useState<'open' | 'closed'>('open');
   const [unit, setUnit] = useState(fixedUnit ?? '');
   const [kind, setKind] = useState('');
@@ -30,8 +24,6 @@ export default function EscalationQueue({ initial, me, unit: fixedUnit, units = 
   });
   const list = data?.escalations ?? [];
   const now = Date.parse(data?.generatedAt ?? initial.generatedAt);
-  const canClaim = ['nurse', 'charge', 'outreach'].includes(me.role);
-  const canClose = ['charge', 'outreach'].includes(me.role);
 
   return (
     <div>
@@ -64,7 +56,7 @@ export default function EscalationQueue({ initial, me, unit: fixedUnit, units = 
       {list.length === 0 && <p className="panel" data-testid="queue-empty">{tab === 'open' ? 'No open escalations.' : 'Nothing closed in the last 7 days.'}</p>}
       <ol className="space-y-3" data-testid={tab === 'open' ? 'escalation-queue' : 'closed-queue'}>
         {list.map((e) => (tab === 'open'
-          ? <Row key={e.id} e={e} now={now} canClaim={canClaim} canClose={canClose} onChange={(text) => { if (text) setNotice(text); void mutate(); }} />
+          ? <Row key={e.id} e={e} now={now} onChange={(text) => { if (text) setNotice(text); void mutate(); }} />
           : <ClosedRow key={e.id} e={e} />))}
       </ol>
     </div>
@@ -90,7 +82,7 @@ function Trend({ points, band, now }: { points: { t: number; v: number }[]; band
   );
 }
 
-function Row({ e, now, canClaim, canClose, onChange }: { e: QueueItem; now: number; canClaim: boolean; canClose: boolean; onChange: (notice: string | null) => void }) {
+function Row({ e, now, onChange }: { e: QueueItem; now: number; onChange: (notice: string | null) => void }) {
   const [closing, setClosing] = useState(false);
   const [outcome, setOutcome] = useState<Outcome | ''>('');
   const [note, setNote] = useState('');
@@ -131,8 +123,8 @@ function Row({ e, now, canClaim, canClose, onChange }: { e: QueueItem; now: numb
         {e.evidence?.band && <span className="text-ink-600 dark:text-ink-300">band {e.evidence.band.low}–{e.evidence.band.high} %{e.evidence.nadir != null ? ` · lowest trusted SpO₂ in the run ${e.evidence.nadir} %` : ''}</span>}
       </div>
       <div className="mt-2 flex flex-wrap items-center gap-2">
-        {canClaim && e.state === 'raised' && <button className="btn-primary" onClick={() => act(`/api/escalations/${e.id}/claim`, {}, `You claimed the escalation for ${where}.`)}>Claim</button>}
-        {canClose && !closing && <button className="btn-quiet" onClick={() => setClosing(true)}>Close…</button>}
+        {e.can.claim && <button className="btn-primary" onClick={() => act(`/api/escalations/${e.id}/claim`, {}, `You claimed the escalation for ${where}.`)}>Claim</button>}
+        {e.can.close && !closing && <button className="btn-quiet" onClick={() => setClosing(true)}>Close…</button>}
       </div>
       {closing && (
         <form noValidate className="mt-3 grid max-w-xl gap-2" aria-label={`Close escalation ${e.id}`} onSubmit={(ev) => {

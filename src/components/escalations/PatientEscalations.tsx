@@ -1,5 +1,5 @@
 import useSWR from 'swr';
-import type { EscalationView } from '~/lib/server/escalations/service.ts';
+import type { EscalationView } from '~/lib/escalations/api-types.ts';
 import { fetchJson } from '~/lib/client/fetch-json.ts';
 import { formatWhen } from '~/lib/time/format.ts';
 

@@ -2,7 +2,7 @@ import { useEffect, useMemo, useState } from 'react';
 import useSWR, { mutate as globalMutate } from 'swr';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { MAX_TREND_FILE_BYTES, guessMapping, headerNames, mappingFits, trendMappingSchema, type TimeMode, type TrendMapping } from '~/lib/imports/mapping.ts';
-import type { ImportView, TrendPreview } from '~/lib/server/trend-files/imports.ts';
+import type { ImportView, TrendPreview } from '~/lib/imports/api-types.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
 import { formatCount, formatDateTimeSeconds } from '~/lib/time/format.ts';
 

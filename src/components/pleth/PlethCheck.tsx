@@ -3,7 +3,7 @@ import useSWR from 'swr';
 import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
-import type { StripResult } from '~/lib/server/pleth-strips/checks.ts';
+import type { StripResult } from '~/lib/pleth-strips/api-types.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
 import { formatCount, formatDayTime } from '~/lib/time/format.ts';
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { hasRole, navFor, spansUnits } from './roles.ts';
+import { hasRole, navFor, seesUnit, spansUnits } from './roles.ts';
 import { isPublicPath, pageRolesFor } from './page-access.ts';
 
 describe('roles', () => {
@@ -14,6 +14,14 @@ describe('roles', () => {
     expect(spansUnits('outreach')).toBe(true);
     expect(spansUnits('nurse')).toBe(false);
     expect(spansUnits('charge')).toBe(false);
+  });
+  it('lets a person see every unit, their own unit, or none (seesUnit)', () => {
+    expect(seesUnit({ role: 'outreach', unitId: null }, 7)).toBe(true);
+    expect(seesUnit({ role: 'intensivist', unitId: 3 }, 7)).toBe(true);
+    expect(seesUnit({ role: 'nurse', unitId: 7 }, 7)).toBe(true);
+    expect(seesUnit({ role: 'charge', unitId: 3 }, 7)).toBe(false);
+    expect(seesUnit({ role: 'nurse', unitId: null }, 7)).toBe(false);
+    expect(seesUnit({ role: 'admin', unitId: 7 }, 7)).toBe(false);
   });
   it('refuses an undefined role', () => {
     expect(hasRole(undefined, ['nurse'])).toBe(false);

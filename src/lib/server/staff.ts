@@ -6,7 +6,7 @@ import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { createHash, randomBytes } from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import type { Knex } from 'knex';
-import type { Role } from '~/lib/auth/roles.ts';
+import { spansUnits, type Role } from '~/lib/auth/roles.ts';
 import { unitRuleProblem, type CreateUserInput, type UpdateUserInput } from '~/lib/staff/inputs.ts';
 import { LINK_HOURS, setPasswordMail } from '~/lib/staff/link-mail.ts';
 import { ApiError } from './http.ts';
@@ -86,7 +86,7 @@ export async function updateStaffMember(actorId: number, id: number, input: Upda
     const before = await lockedOrMissing(trx, id);
     const role: Role = input.role ?? before.role;
     // A change of role alone to one without a unit drops the unit; other combinations must name it.
-    const unitCode = input.unitCode !== undefined ? input.unitCode : (input.role && (input.role === 'intensivist' || input.role === 'outreach' || input.role === 'admin') ? null : before.unit_code);
+    const unitCode = input.unitCode !== undefined ? input.unitCode : (input.role && (spansUnits(input.role) || input.role === 'admin') ? null : before.unit_code);
     const problem = unitRuleProblem(role, unitCode);
     if (problem) throw new ApiError(400, 'invalid_input', `unitCode: ${problem}.`, { unitCode: problem });
     if (before.role === 'admin' && role !== 'admin') assertNotLastAdmin(admins, before);

@@ -9,6 +9,7 @@ import type { BloodGasInput } from '~/lib/bloodgas/bloodgas-input.ts';
 import { deriveGas, gasFlags, runningBias, toMmHg, type GasUnit } from '~/lib/bloodgas/compute.ts';
 import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import { DEFAULT_UNIT_SETTINGS } from '~/lib/units/settings.ts';
+import { CORRECTING_OTHERS_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
@@ -61,7 +62,7 @@ export function gasView(r: BloodGasListRow, barometricMmHg: number): BloodGasVie
 async function authoriseGasCharting(user: SessionUser, patientId: number) {
   const { patient, stay } = await authorisePatient(user, patientId, 'read');
   const can = patientPermissions(user, stay);
-  if (!(can.chart || (user.role === 'intensivist' && can.order))) assertPatientAction(user, stay, 'chart');
+  if (!(can.chart || can.order)) assertPatientAction(user, stay, 'chart');
   return { patient, stay };
 }
 
@@ -126,7 +127,7 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, gasId: nu
   if (original.status !== 'current') {
     throw new ApiError(409, 'not_current', original.status === 'superseded' ? 'This blood gas was already corrected; correct the newer version.' : 'This blood gas is already marked entered in error.');
   }
-  if (user.role !== 'charge' && original.recorded_by !== user.id) {
+  if (!hasRole(user.role, CORRECTING_OTHERS_ROLES) && original.recorded_by !== user.id) {
     throw new ApiError(403, 'forbidden', 'You correct your own entries; ask the charge nurse to correct this one.');
   }
   return original;

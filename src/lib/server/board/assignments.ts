@@ -1,4 +1,5 @@
 /** The charge nurse assigns a nurse to a bed (or clears it); history is kept and audited. */
+import { CHARTING_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -12,7 +13,7 @@ export async function assignNurse(charge: SessionUser, bedId: number, nurseId: n
   if (bed.unit_id !== charge.unitId) throw new ApiError(403, 'forbidden', `Bed ${bed.label} is not in your unit.`);
   if (nurseId !== null) {
     const nurse = await findActiveUser(nurseId);
-    if (!nurse || !['nurse', 'charge'].includes(nurse.role) || nurse.unit_id !== bed.unit_id) {
+    if (!nurse || !hasRole(nurse.role, CHARTING_ROLES) || nurse.unit_id !== bed.unit_id) {
       throw new ApiError(400, 'invalid_input', 'Choose an active nurse of this unit.', { nurseId: 'Not an active nurse of this unit' });
     }
   }

@@ -1,29 +1,30 @@
 /** GET /api/board: a unit's tiles in a fixed number of queries, whatever the bed count. */
+import type { BoardResponse, BoardTileView } from '~/lib/board/api-types.ts';
 import { buildTile, sortTiles, type BedInput, type BoardTile } from '~/lib/board/tiles.ts';
+import { BED_MANAGING_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
-import { ApiError } from '~/lib/server/http.ts';
 import { boardBeds } from '~/lib/server/queries/board.ts';
 import { lastChartedPerPatient, recentReadings } from '~/lib/server/queries/recent-readings.ts';
 import { unitSettingsRow } from '~/lib/server/queries/unit-settings.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { readingsByPatient, recentWindow, toChartedObs } from '~/lib/server/charting/readings.ts';
-import { visibleUnits } from '~/lib/server/charting/patients.ts';
+import { unitToShow } from '~/lib/server/units-visible.ts';
+import { escalationPermissions } from '~/lib/server/escalations/access.ts';
 import { openEscalationsByPatient } from './escalation-source.ts';
 
-
-export interface BoardResponse {
-  unit: { code: string; name: string; timeZone: string };
-  units: { code: string; name: string }[];
-  generatedAt: string;
-  settings: { overdueMin: number };
-  tiles: BoardTile[];
+/**
+ * A tile offers the claim to whoever manages the unit's beds and to the nurse the bed is assigned to
+ * (others claim from the queue); wean prompts are not claimed.
+ */
+function claimableFromTile(user: SessionUser, tile: BoardTile): boolean {
+  const e = tile.escalation;
+  if (!e || e.kind === 'wean_prompt' || !escalationPermissions(user, e).claim) return false;
+  return hasRole(user.role, BED_MANAGING_ROLES) || (tile.nurse !== null && tile.nurse.id === user.id);
 }
 
 export async function unitBoard(user: SessionUser, unitCode: string | undefined, now = new Date()): Promise<BoardResponse> {
-  const units = await visibleUnits(user);
-  const unit = unitCode ? units.find((u) => u.code === unitCode) : units.find((u) => u.id === user.unitId) ?? units[0];
-  if (!unit) throw new ApiError(unitCode ? 403 : 404, unitCode ? 'forbidden' : 'not_found', unitCode ? `Unit ${unitCode} is not one you can see.` : 'No unit to show.');
+  const { unit, units } = await unitToShow(user, unitCode);
   const nowMs = now.getTime();
 
   const [beds, settingsRow] = await Promise.all([boardBeds(unit.id), unitSettingsRow(unit.id)]);
@@ -58,6 +59,6 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
     units: units.map((u) => ({ code: u.code, name: u.name })),
     generatedAt: now.toISOString(),
     settings: { overdueMin: settings.overdueMin },
-    tiles: sortTiles(tiles),
+    tiles: sortTiles(tiles).map((t): BoardTileView => ({ ...t, can: { claim: claimableFromTile(user, t) } })),
   };
 }

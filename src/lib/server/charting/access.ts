@@ -2,7 +2,7 @@
  * Who may do what to which patient, decided on the server from the patient's bed now (or, once
  * discharged, the unit of their last stay).
  */
-import { spansUnits } from '~/lib/auth/roles.ts';
+import { BED_MANAGING_ROLES, CHARTING_ROLES, hasRole, ORDERING_ROLES, seesUnit, spansUnits } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import type { StayRow } from '~/lib/server/queries/patients.ts';
@@ -12,12 +12,13 @@ export type PatientAction = 'read' | 'chart' | 'order' | 'admit';
 export function patientPermissions(user: SessionUser, latestStay: StayRow | undefined) {
   const admitted = latestStay !== undefined && latestStay.ended_at === null;
   const inOwnUnit = latestStay !== undefined && user.unitId !== null && latestStay.unit_id === user.unitId;
-  const read = spansUnits(user.role) || ((user.role === 'nurse' || user.role === 'charge') && inOwnUnit);
+  // A patient with no stay on record belongs to no unit: only roles that span units read them.
+  const read = latestStay === undefined ? spansUnits(user.role) : seesUnit(user, latestStay.unit_id);
   return {
     read,
-    chart: admitted && inOwnUnit && (user.role === 'nurse' || user.role === 'charge'),
-    order: admitted && user.role === 'intensivist',
-    admit: admitted && inOwnUnit && user.role === 'charge',
+    chart: admitted && inOwnUnit && hasRole(user.role, CHARTING_ROLES),
+    order: admitted && hasRole(user.role, ORDERING_ROLES),
+    admit: admitted && inOwnUnit && hasRole(user.role, BED_MANAGING_ROLES),
   };
 }
 

@@ -7,6 +7,7 @@ import type { ObsPage, ObsView } from '~/lib/charting/api-types.ts';
 import { BEFORE_STAY_SLACK_MS, type ObsInput } from '~/lib/charting/obs-input.ts';
 import { estimateFio2 } from '~/lib/oxygenation/index.ts';
 import { ROOM_AIR_FIO2 } from '~/lib/oxygenation/constants.ts';
+import { CORRECTING_OTHERS_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -82,7 +83,7 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, obsId: nu
   if (original.status !== 'current') {
     throw new ApiError(409, 'not_current', original.status === 'superseded' ? 'This obs was already corrected; correct the newer version.' : 'This obs is already marked entered in error.');
   }
-  if (user.role === 'nurse' && original.recorded_by !== user.id) {
+  if (!hasRole(user.role, CORRECTING_OTHERS_ROLES) && original.recorded_by !== user.id) {
     throw new ApiError(403, 'forbidden', 'A nurse corrects their own entries; ask the charge nurse to correct this one.');
   }
   return original;

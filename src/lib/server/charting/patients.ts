@@ -1,7 +1,7 @@
 /** Admit, move, discharge and read patients: each change a bed stay with who and when, audited. */
 import type { PatientDetail, PatientSummary } from '~/lib/charting/api-types.ts';
 import type { AdmitInput } from '~/lib/charting/patient-input.ts';
-import { spansUnits } from '~/lib/auth/roles.ts';
+import { BED_MANAGING_ROLES, hasRole, spansUnits } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { isDuplicateKey, withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -12,6 +12,7 @@ import {
   bedIsActive, bedsOfUnit, openStayInBed, openStayOfPatient, patientsInUnits, staysOf, type StayRow,
 } from '~/lib/server/queries/patients.ts';
 import { listUnits } from '~/lib/server/queries/units.ts';
+import { unitsVisibleTo } from '~/lib/server/units-visible.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { assertPatientAction, patientPermissions } from './access.ts';
 import { obsView, orderView, patientSummary, stayView } from './views.ts';
@@ -42,10 +43,10 @@ export async function patientDetail(user: SessionUser, patientId: number): Promi
   };
 }
 
-/** Units whose patients the user may list: their own, or every unit for roles that span units. */
-export async function visibleUnits(user: SessionUser, unitCode?: string) {
+/** Units whose patients the list shows: every one the user may see (`unitsVisibleTo`), or the one asked for. */
+async function listedUnits(user: SessionUser, unitCode?: string) {
   if (user.role === 'admin') throw new ApiError(403, 'forbidden', 'Administrators do not read clinical records.');
-  const units = await listUnits(spansUnits(user.role) ? null : user.unitId);
+  const units = await unitsVisibleTo(user);
   if (!unitCode) return units;
   const unit = units.find((u) => u.code === unitCode);
   if (!unit) throw new ApiError(spansUnits(user.role) ? 404 : 403, spansUnits(user.role) ? 'not_found' : 'forbidden', `Unit ${unitCode} is not one you can see.`);
@@ -53,7 +54,7 @@ export async function visibleUnits(user: SessionUser, unitCode?: string) {
 }
 
 export async function listPatients(user: SessionUser, opts: { unit?: string; includeDischarged: boolean }): Promise<PatientSummary[]> {
-  const units = await visibleUnits(user, opts.unit);
+  const units = await listedUnits(user, opts.unit);
   const patients = await patientsInUnits(units.map((u) => u.id), !opts.includeDischarged);
   const ids = patients.map((p) => p.id);
   const [stays, orders] = await Promise.all([latestStays(ids), latestOrders(ids)]);
@@ -82,7 +83,7 @@ async function assertBedStillActive(trx: Parameters<typeof bedIsActive>[0], bed:
 }
 
 export async function admitPatient(user: SessionUser, input: AdmitInput, now = new Date()): Promise<PatientSummary> {
-  if (user.role !== 'charge') throw new ApiError(403, 'forbidden', 'Only a charge nurse admits patients.');
+  if (!hasRole(user.role, BED_MANAGING_ROLES)) throw new ApiError(403, 'forbidden', 'Only a charge nurse admits patients.');
   const bed = await assertBedForCharge(user, input.bedId, false);
   const admit = () => withTransactionRetry(async (trx) => {
     await lockBed(trx, bed.id);
@@ -112,10 +113,11 @@ export async function admitPatient(user: SessionUser, input: AdmitInput, now = n
     if (!isDuplicateKey(err)) throw err;
     patientId = await admit();
   }
-  return (await listSummary(patientId))!;
+  return (await summaryOf(patientId))!;
 }
 
-async function listSummary(patientId: number): Promise<PatientSummary | undefined> {
+/** One patient's summary as lists show it (the answer to admit, move and discharge). */
+async function summaryOf(patientId: number): Promise<PatientSummary | undefined> {
   const patient = await findPatient(patientId);
   if (!patient) return undefined;
   const [[stay], [order]] = await Promise.all([latestStays([patientId]), latestOrders([patientId])]);
@@ -138,7 +140,7 @@ export async function movePatient(user: SessionUser, patientId: number, bedId: n
     const stayId = await insertStay(trx, { patient_id: patientId, bed_id: bed.id, started_at: now, started_by: user.id });
     await writeAudit(trx, { actorId: user.id, action: 'patient.move', entity: 'patient', entityId: patientId, before: { stayId: open.id, bedId: open.bed_id }, after: { stayId, bedId: bed.id }, at: now });
   });
-  return (await listSummary(patientId))!;
+  return (await summaryOf(patientId))!;
 }
 
 export async function dischargePatient(user: SessionUser, patientId: number, note: string | undefined, now = new Date()): Promise<PatientSummary> {
@@ -150,14 +152,14 @@ export async function dischargePatient(user: SessionUser, patientId: number, not
     await endStay(trx, open.id, { ended_at: now, end_reason: 'discharged', ended_by: user.id });
     await writeAudit(trx, { actorId: user.id, action: 'patient.discharge', entity: 'patient', entityId: patientId, before: { stayId: open.id, bedId: open.bed_id }, after: { note: note ?? null }, at: now });
   });
-  return (await listSummary(patientId))!;
+  return (await summaryOf(patientId))!;
 }
 
 
 /** A unit's beds with occupancy. Charge nurses also see every other unit's free beds (for transfers). */
 export async function unitBeds(user: SessionUser, unitCode: string) {
-  const allowOthers = user.role === 'charge';
-  const units = allowOthers ? await listUnits(null) : await visibleUnits(user);
+  const allowOthers = hasRole(user.role, BED_MANAGING_ROLES);
+  const units = allowOthers ? await listUnits(null) : await unitsVisibleTo(user);
   const unit = units.find((u) => u.code === unitCode);
   if (!unit) throw new ApiError(403, 'forbidden', `Unit ${unitCode} is not one you can see.`);
   return { unit: { code: unit.code, name: unit.name }, beds: await bedsOfUnit(unit.id) };

@@ -3,6 +3,7 @@
  * SHA-256 is stored. Creation and revocation are audited in their transaction.
  */
 import { createHash, randomBytes } from 'node:crypto';
+import type { DeviceKeyView } from '~/lib/devices/api-types.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import type { IngestSource } from './ingest.ts';
@@ -13,12 +14,6 @@ import {
 } from '~/lib/server/queries/devices.ts';
 
 const KEY_PREFIX = 'ebw_';
-
-export interface DeviceKeyView {
-  id: number; label: string; prefix: string; bed: { id: number; label: string; unitCode: string; unitName: string };
-  createdAt: string; createdBy: string | null; lastUsedAt: string | null;
-  revokedAt: string | null; revokedBy: string | null; revokeReason: string | null;
-}
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 

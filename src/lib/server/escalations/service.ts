@@ -3,7 +3,8 @@ import type { Knex } from 'knex';
 import { isTrusted, type Reading } from '~/lib/oxygenation/index.ts';
 import { readingsByPatient } from '~/lib/server/charting/readings.ts';
 import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
-import { spansUnits } from '~/lib/auth/roles.ts';
+import { CLAIMING_ROLES, CLOSING_ROLES, hasRole, seesUnit, UNIT_SETTINGS_READING_ROLES } from '~/lib/auth/roles.ts';
+import type { EscalationDetail, EscalationView, QueueEscalation } from '~/lib/escalations/api-types.ts';
 import { KIND_LABELS, OUTCOME_LABELS, type EscalationEvidence, type EscalationKind, type Outcome } from '~/lib/escalations/decide.ts';
 import type { UnitSettingsInput } from '~/lib/escalations/inputs.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
@@ -14,12 +15,14 @@ import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { eventsOf, findEscalation, insertEvent, listEscalations, lockEscalation, updateEscalation, type EscalationListRow } from '~/lib/server/queries/escalations.ts';
 import { unitSettingsRow, upsertUnitSettings } from '~/lib/server/queries/unit-settings.ts';
 import { listUnits } from '~/lib/server/queries/units.ts';
+import { unitsVisibleTo } from '~/lib/server/units-visible.ts';
+import { escalationPermissions } from './access.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 const parse = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
-export function escalationView(e: EscalationListRow) {
+export function escalationView(e: EscalationListRow, user: SessionUser): EscalationView {
   const minutes = (a: Date | null, b: Date | null) => (a && b ? Math.max(0, Math.round((new Date(b).getTime() - new Date(a).getTime()) / 60_000)) : null);
   return {
     raisedToClaimedMin: minutes(e.raised_at, e.claimed_at), claimedToClosedMin: minutes(e.claimed_at, e.closed_at),
@@ -30,20 +33,20 @@ export function escalationView(e: EscalationListRow) {
     claimedBy: e.claimed_by_name, claimedAt: iso(e.claimed_at), closedBy: e.closed_by_name, closedAt: iso(e.closed_at),
     outcome: e.outcome, outcomeLabel: e.outcome ? OUTCOME_LABELS[e.outcome as Outcome | 'condition_cleared'] : null, closeNote: e.close_note,
     lastNotifiedAt: iso(e.last_notified_at), notifyCount: e.notify_count, backInBandAt: iso(e.back_in_band_at), evidence: parse(e.evidence) as EscalationEvidence,
+    can: escalationPermissions(user, e),
   };
 }
-export type EscalationView = ReturnType<typeof escalationView>;
 
 async function unitsFor(user: SessionUser, unitCode?: string) {
   if (user.role === 'admin') throw new ApiError(403, 'forbidden', 'Administrators do not handle escalations.');
-  const units = await listUnits(spansUnits(user.role) ? null : user.unitId);
+  const units = await unitsVisibleTo(user);
   if (!unitCode) return units;
   const unit = units.find((u) => u.code === unitCode);
   if (!unit) throw new ApiError(403, 'forbidden', `Unit ${unitCode} is not one you can see.`);
   return [unit];
 }
 
-export async function listForUser(user: SessionUser, q: { state: 'open' | 'closed'; unit?: string; kind?: EscalationKind; patient?: number; limit: number }) {
+export async function listForUser(user: SessionUser, q: { state: 'open' | 'closed'; unit?: string; kind?: EscalationKind; patient?: number; limit: number }): Promise<QueueEscalation[]> {
   const units = await unitsFor(user, q.unit);
   // Wean prompts belong to the board; the queue holds what someone must act on, unless asked by kind.
   const kinds: EscalationKind[] = q.kind ? [q.kind] : ['below_band', 'probe_check', 'occult_hypoxaemia'];
@@ -53,7 +56,7 @@ export async function listForUser(user: SessionUser, q: { state: 'open' | 'close
     // The Closed tab: the last seven days.
     ...(q.state === 'closed' ? { closedSince: new Date(now - CLOSED_DAYS * 24 * 3_600_000) } : {}),
   });
-  const views = rows.map(escalationView);
+  const views = rows.map((row) => escalationView(row, user));
   if (q.state !== 'open' || views.length === 0) return views;
   // Open ones carry the patient's SpO₂ now (with its time) and the last 30 minutes as a small trend.
   const readings = readingsByPatient(await recentReadings([...new Set(views.map((v) => v.patient.id))], { device: new Date(now - TREND_MIN * 60_000), charted: new Date(now - 75 * 60_000) }));
@@ -77,7 +80,7 @@ function spo2Now(readings: Reading[], now: number): { current: { spo2: number; a
 
 function assertCanSee(user: SessionUser, e: EscalationListRow) {
   if (user.role === 'admin') throw new ApiError(403, 'forbidden', 'Administrators do not handle escalations.');
-  if (!spansUnits(user.role) && e.unit_id !== user.unitId) throw new ApiError(403, 'forbidden', 'This escalation is in another unit.');
+  if (!seesUnit(user, e.unit_id)) throw new ApiError(403, 'forbidden', 'This escalation is in another unit.');
 }
 
 /** The escalation if this user may see it; 404 or 403 otherwise. */
@@ -88,22 +91,20 @@ async function visibleEscalation(user: SessionUser, id: number): Promise<Escalat
   return e;
 }
 
-export async function escalationDetail(user: SessionUser, id: number) {
+export async function escalationDetail(user: SessionUser, id: number): Promise<EscalationDetail> {
   const e = await visibleEscalation(user, id);
   const events = await eventsOf(id);
-  return { ...escalationView(e), events: events.map((v) => ({ id: Number(v.id), type: v.type, at: iso(v.at)!, actor: v.actor_name ?? 'Ebbwatch', detail: parse(v.detail) })) };
+  return { ...escalationView(e, user), events: events.map((v) => ({ id: Number(v.id), type: v.type, at: iso(v.at)!, actor: v.actor_name ?? 'Ebbwatch', detail: parse(v.detail) })) };
 }
 
-export async function claimEscalation(user: SessionUser, id: number, now = new Date()) {
+export async function claimEscalation(user: SessionUser, id: number, now = new Date()): Promise<EscalationDetail> {
   await withTransactionRetry((trx) => claimInTransaction(trx, user, id, now));
   return escalationDetail(user, id);
 }
 
-const CLAIMING_ROLES = ['nurse', 'charge', 'outreach'];
-
 /** Claims in the caller's transaction (the claim button, or an e-mail claim link spending its token). */
 export async function claimInTransaction(trx: Knex.Transaction, user: SessionUser, id: number, now: Date, via?: string): Promise<void> {
-  if (!CLAIMING_ROLES.includes(user.role)) throw new ApiError(403, 'forbidden', 'Only nurses, charge nurses and outreach claim escalations.');
+  if (!hasRole(user.role, CLAIMING_ROLES)) throw new ApiError(403, 'forbidden', 'Only nurses, charge nurses and outreach claim escalations.');
   const e = await visibleEscalation(user, id);
   const row = (await lockEscalation(trx, id))!;
   if (row.state === 'closed') throw new ApiError(409, 'closed', 'This escalation is already closed.');
@@ -113,7 +114,8 @@ export async function claimInTransaction(trx: Knex.Transaction, user: SessionUse
   await writeAudit(trx, { actorId: user.id, action: 'escalation.claim', entity: 'escalation', entityId: id, before: { state: row.state }, after: { state: 'claimed', ...(via ? { via } : {}) }, at: now });
 }
 
-export async function closeEscalation(user: SessionUser, id: number, outcome: Outcome, note: string | undefined, now = new Date()) {
+export async function closeEscalation(user: SessionUser, id: number, outcome: Outcome, note: string | undefined, now = new Date()): Promise<EscalationDetail> {
+  if (!hasRole(user.role, CLOSING_ROLES)) throw new ApiError(403, 'forbidden', 'Only charge nurses and outreach close escalations.');
   await visibleEscalation(user, id);
   await withTransactionRetry(async (trx) => {
     const row = (await lockEscalation(trx, id))!;
@@ -133,7 +135,8 @@ async function unitByCode(code: string) {
 
 export async function readUnitSettings(user: SessionUser, code: string) {
   const unit = await unitByCode(code);
-  if (user.role !== 'admin' && !(user.role === 'charge' && user.unitId === unit.id)) throw new ApiError(403, 'forbidden', 'Only administrators (and the unit\'s charge nurse, to read) see unit settings.');
+  const mayRead = user.role === 'admin' || (hasRole(user.role, UNIT_SETTINGS_READING_ROLES) && user.unitId === unit.id);
+  if (!mayRead) throw new ApiError(403, 'forbidden', 'Only administrators (and the unit\'s charge nurse, to read) see unit settings.');
   const row = await unitSettingsRow(unit.id);
   const s = settingsFromRow(row);
   return {

@@ -5,7 +5,8 @@
 import { createHash } from 'node:crypto';
 import { CLINICAL_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { StripFileError, parseStripCsv } from '~/lib/pleth-strips/strip-csv.ts';
-import { analysePlethStrip, beerLambertCurve, type PlethAnalysis } from '~/lib/oxygenation/index.ts';
+import { analysePlethStrip, beerLambertCurve } from '~/lib/oxygenation/index.ts';
+import type { StripResult } from '~/lib/pleth-strips/api-types.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
@@ -15,14 +16,6 @@ import type { SessionUser } from '~/lib/server/queries/users.ts';
 
 /** Points per waveform sent to the page: a strip of a minute at 100 Hz is drawn whole. */
 const MAX_WAVE_POINTS = 6000;
-
-export interface StripResult {
-  analysis: PlethAnalysis;
-  curve: { name: string; source: string };
-  sampleRateHz: number; samples: number; durationSec: number;
-  /** Red and infrared after dark subtraction (what the analysis works on), thinned for drawing. */
-  wave: { t: number[]; red: number[]; infrared: number[] };
-}
 
 export function analyseStripText(text: string, sampleRateHz?: number): StripResult {
   let parsed;

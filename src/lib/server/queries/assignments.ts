@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { CHARTING_ROLES, type Role } from '~/lib/auth/roles.ts';
 import { db } from './db.ts';
 
 export async function openAssignment(trx: Knex.Transaction, bedId: number): Promise<{ id: number; nurse_id: number } | undefined> {
@@ -14,10 +15,11 @@ export async function insertAssignment(trx: Knex.Transaction, row: { bed_id: num
   return id;
 }
 
+/** The people a bed can be assigned to: those who chart at the bedside. */
 export async function activeNursesOfUnit(unitId: number): Promise<{ id: number; name: string }[]> {
-  return db()('users').where({ unit_id: unitId, active: true }).whereIn('role', ['nurse', 'charge']).orderBy('name').select('id', 'name');
+  return db()('users').where({ unit_id: unitId, active: true }).whereIn('role', CHARTING_ROLES).orderBy('name').select('id', 'name');
 }
 
-export async function findActiveUser(id: number): Promise<{ id: number; role: string; unit_id: number | null } | undefined> {
+export async function findActiveUser(id: number): Promise<{ id: number; role: Role; unit_id: number | null } | undefined> {
   return db()('users').where({ id, active: true }).first('id', 'role', 'unit_id');
 }

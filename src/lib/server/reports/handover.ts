@@ -15,8 +15,7 @@ import {
 } from '~/lib/server/queries/reports.ts';
 import { unitSettingsRow } from '~/lib/server/queries/unit-settings.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
-import { visibleUnits } from '~/lib/server/charting/patients.ts';
-import { ApiError } from '~/lib/server/http.ts';
+import { unitToShow } from '~/lib/server/units-visible.ts';
 
 const iso = (t: number) => new Date(t).toISOString();
 const ms = (d: Date | null) => (d === null ? null : new Date(d).getTime());
@@ -55,9 +54,7 @@ function group<T extends { patient_id: number }>(rows: T[]): Map<number, T[]> {
 }
 
 export async function handoverSheet(user: SessionUser, opts: { unit?: string; scope?: 'mine' | 'unit' }, now = new Date()): Promise<HandoverResponse> {
-  const units = await visibleUnits(user);
-  const unit = opts.unit ? units.find((u) => u.code === opts.unit) : units.find((u) => u.id === user.unitId) ?? units[0];
-  if (!unit) throw new ApiError(opts.unit ? 403 : 404, opts.unit ? 'forbidden' : 'not_found', opts.unit ? `Unit ${opts.unit} is not one you can see.` : 'No unit to show.');
+  const { unit, units } = await unitToShow(user, opts.unit);
   const scope = opts.scope ?? (user.role === 'nurse' ? 'mine' : 'unit');
   const nowMs = now.getTime();
   const settings = settingsFromRow(await unitSettingsRow(unit.id));

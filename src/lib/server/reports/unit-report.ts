@@ -3,6 +3,7 @@
  * `bandCompliance` over that patient's raw current readings (the bed chart's own computation), added
  * up by `unitReportFigures`. Readings are read one patient at a time, a few at once, to bound memory.
  */
+import { HOSPITAL_REPORT_ROLES, REPORT_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { DEFAULT_COMPLIANCE_SETTINGS, type BandOrder, type Reading } from '~/lib/oxygenation/index.ts';
 import type { HospitalReportResponse, ReportDays, ReportFiguresView, UnitReportResponse } from '~/lib/reports/api-types.ts';
 import { lastWholeDays } from '~/lib/reports/shift.ts';
@@ -24,11 +25,10 @@ const ms = (d: Date | null) => (d === null ? null : new Date(d).getTime());
 const r1 = (v: number) => Math.round(v * 10) / 10;
 const r1n = (v: number | null) => (v === null ? null : r1(v));
 
-/** Charge nurses see their own unit; intensivists and administrators every unit. */
+/** Charge nurses report on their own unit; those who open the hospital-wide report (intensivists, administrators) on every unit. */
 export async function reportUnits(user: SessionUser): Promise<UnitRow[]> {
-  if (user.role === 'charge') return listUnits(user.unitId ?? -1);
-  if (user.role === 'intensivist' || user.role === 'admin') return listUnits(null);
-  throw new ApiError(403, 'forbidden', 'Unit reports are for charge nurses, intensivists and administrators.');
+  if (!hasRole(user.role, REPORT_ROLES)) throw new ApiError(403, 'forbidden', 'Unit reports are for charge nurses, intensivists and administrators.');
+  return hasRole(user.role, HOSPITAL_REPORT_ROLES) ? listUnits(null) : listUnits(user.unitId ?? -1);
 }
 
 async function resolveUnit(user: SessionUser, code: string | undefined): Promise<{ unit: UnitRow; units: UnitRow[] }> {
@@ -119,13 +119,13 @@ export async function unitReport(user: SessionUser, code: string | undefined, da
     settings: { overdueMin },
     perDay: figures.days.map((d) => ({ date: d.date, from: new Date(d.from).toISOString(), to: new Date(d.to).toISOString(), ...figuresView(d) })),
     total: figuresView(figures.total),
-    hospitalView: user.role !== 'charge',
+    hospitalView: hasRole(user.role, HOSPITAL_REPORT_ROLES),
   };
 }
 
 /** Every unit's totals side by side (intensivists and administrators). */
 export async function hospitalReport(user: SessionUser, days: ReportDays, now = new Date()): Promise<HospitalReportResponse> {
-  if (user.role !== 'intensivist' && user.role !== 'admin') throw new ApiError(403, 'forbidden', 'The hospital-wide report is for intensivists and administrators.');
+  if (!hasRole(user.role, HOSPITAL_REPORT_ROLES)) throw new ApiError(403, 'forbidden', 'The hospital-wide report is for intensivists and administrators.');
   const units = await listUnits(null);
   const rows = [];
   for (const unit of units) {

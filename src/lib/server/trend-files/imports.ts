@@ -4,8 +4,9 @@
  * The file is sent again with the commit and parsed the same way, so what is stored is exactly
  * what the preview showed for that file (the hash ties the two).
  */
+import type { ImportView, TrendPreview } from '~/lib/imports/api-types.ts';
 import type { TrendMapping } from '~/lib/imports/mapping.ts';
-import { TrendFileError, groupRefusals, parseTrendCsv, type RefusalGroup, type RowProblem, type TrendRow, type UnfitColumn } from '~/lib/imports/trend-csv.ts';
+import { TrendFileError, groupRefusals, parseTrendCsv, type TrendRow } from '~/lib/imports/trend-csv.ts';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
@@ -26,12 +27,6 @@ import { formatDateTime } from '~/lib/time/format.ts';
 const LIST_LIMIT = 200;
 const FUTURE_SLACK_MS = 2 * 60_000;
 
-export interface ImportView {
-  id: number; patientId: number; fileName: string; fileHash: string; fileBytes: number; rowsInFile: number; rowsStored: number; rowsSkipped: number;
-  rowsRefused: number; firstAt: string | null; lastAt: string | null; committedAt: string; committedBy: string;
-  withdrawnAt: string | null; withdrawnBy: string | null; withdrawReason: string | null;
-}
-
 const iso = (d: Date | number | null) => (d === null ? null : new Date(d).toISOString());
 
 export function importView(r: ImportListRow): ImportView {
@@ -41,18 +36,6 @@ export function importView(r: ImportListRow): ImportView {
     committedAt: iso(r.committed_at)!, committedBy: r.committed_by_name, withdrawnAt: iso(r.withdrawn_at), withdrawnBy: r.withdrawn_by_name,
     withdrawReason: r.withdraw_reason,
   };
-}
-
-export interface TrendPreview {
-  fileName: string; fileHash: string; fileBytes: number; timeZone: string; headers: string[];
-  rowCount: number; readable: number; toStore: number;
-  span: { first: string; last: string } | null;
-  outsideAdmission: { count: number; examples: { line: number; at: string }[] };
-  overlapping: { count: number; examples: { line: number; at: string }[] };
-  refused: { count: number; rows: RowProblem[]; groups: RefusalGroup[] };
-  notes: RowProblem[];
-  unfitColumns: UnfitColumn[];
-  alreadyImported: { importId: number; committedAt: string; committedBy: string; samePatient: boolean } | null;
 }
 
 interface Plan { preview: TrendPreview; store: TrendRow[]; stays: StayRow[] }

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { admitSchema } from '~/lib/charting/patient-input.ts';
-import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { BED_MANAGING_ROLES, CLINICAL_ROLES } from '~/lib/auth/roles.ts';
 import { endpoint, json, parseBody, parseQuery, requireRole } from '~/lib/server/http.ts';
 import { admitPatient, listPatients } from '~/lib/server/charting/patients.ts';
 
@@ -16,7 +16,7 @@ export const GET = endpoint(async ({ locals, url }) => {
 });
 
 export const POST = endpoint(async ({ locals, request }) => {
-  const user = requireRole(locals, ['charge']);
+  const user = requireRole(locals, BED_MANAGING_ROLES);
   const input = await parseBody(request, admitSchema);
   return json({ patient: await admitPatient(user, input) }, 201);
 });

@@ -1,3 +1,4 @@
+import { CHARTING_ROLES } from '~/lib/auth/roles.ts';
 import { z } from 'zod';
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
@@ -8,7 +9,7 @@ const withdrawSchema = z.object({
 });
 
 export const POST = endpoint(async ({ locals, params, request }) => {
-  const user = requireRole(locals, ['nurse', 'charge']);
+  const user = requireRole(locals, CHARTING_ROLES);
   const { id } = parseParams(params, idParam);
   const { reason } = await parseBody(request, withdrawSchema);
   return json({ import: await withdrawImport(user, id, reason) });

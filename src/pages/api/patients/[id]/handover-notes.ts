@@ -1,4 +1,4 @@
-import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { CHARTING_ROLES, CLINICAL_ROLES } from '~/lib/auth/roles.ts';
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { handoverNoteInput } from '~/lib/reports/note-input.ts';
 import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
@@ -11,7 +11,7 @@ export const GET = endpoint(async ({ locals, params }) => {
 });
 
 export const POST = endpoint(async ({ locals, params, request }) => {
-  const user = requireRole(locals, ['nurse', 'charge']);
+  const user = requireRole(locals, CHARTING_ROLES);
   const { id } = parseParams(params, idParam);
   const input = await parseBody(request, handoverNoteInput);
   return json({ note: await writeHandoverNote(user, id, input) }, 201);

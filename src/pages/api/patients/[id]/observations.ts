@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { CHARTING_ROLES, CLINICAL_ROLES } from '~/lib/auth/roles.ts';
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { obsInputSchema } from '~/lib/charting/obs-input.ts';
 import { endpoint, json, parseBody, parseParams, parseQuery, requireRole } from '~/lib/server/http.ts';
@@ -19,7 +19,7 @@ export const GET = endpoint(async ({ locals, params, url }) => {
 });
 
 export const POST = endpoint(async ({ locals, params, request }) => {
-  const user = requireRole(locals, ['nurse', 'charge']);
+  const user = requireRole(locals, CHARTING_ROLES);
   const { id } = parseParams(params, idParam);
   const now = new Date();
   const input = await parseBody(request, obsInputSchema(now));

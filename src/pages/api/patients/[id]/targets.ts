@@ -1,4 +1,4 @@
-import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { CLINICAL_ROLES, ORDERING_ROLES } from '~/lib/auth/roles.ts';
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { targetOrderSchema } from '~/lib/charting/target-input.ts';
 import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
@@ -11,7 +11,7 @@ export const GET = endpoint(async ({ locals, params }) => {
 });
 
 export const POST = endpoint(async ({ locals, params, request }) => {
-  const user = requireRole(locals, ['intensivist']);
+  const user = requireRole(locals, ORDERING_ROLES);
   const { id } = parseParams(params, idParam);
   const input = await parseBody(request, targetOrderSchema);
   return json({ order: await orderTarget(user, id, input) }, 201);

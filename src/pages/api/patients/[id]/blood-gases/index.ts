@@ -1,4 +1,4 @@
-import { CLINICAL_ROLES } from '~/lib/auth/roles.ts';
+import { CLINICAL_ROLES, GAS_CHARTING_ROLES } from '~/lib/auth/roles.ts';
 import { idParam } from '~/lib/charting/patient-input.ts';
 import { bloodGasInputSchema } from '~/lib/bloodgas/bloodgas-input.ts';
 import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
@@ -11,7 +11,7 @@ export const GET = endpoint(async ({ locals, params }) => {
 });
 
 export const POST = endpoint(async ({ locals, params, request }) => {
-  const user = requireRole(locals, ['nurse', 'charge', 'intensivist']);
+  const user = requireRole(locals, GAS_CHARTING_ROLES);
   const { id } = parseParams(params, idParam);
   const now = new Date();
   const input = await parseBody(request, bloodGasInputSchema(now));

@@ -3,7 +3,7 @@ import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL } from '../support/app.ts';
 import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let browser: Browser;
 let db: Knex;
@@ -15,11 +15,11 @@ beforeAll(async () => {
   db = testDb();
   const unit = await createUnit(db, 2);
   nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
-  const [id] = await db('patients').insert({ mrn: unique('BRW').slice(0, 20), given_name: 'Ailsa', family_name: unique('Upload'), date_of_birth: '1959-09-09' });
-  patientId = id;
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 8 * 3_600_000) });
   const intensivist = await createUser(db, { role: 'intensivist' });
-  await db('target_orders').insert({ patient_id: id, low: 92, high: 96, news2_scale: 1, reason: 'Fixture band', ordered_by: intensivist.id, ordered_at: new Date(Date.now() - 8 * 3_600_000) });
+  ({ patientId } = await createAdmittedPatient(db, {
+    bedId: unit.bedIds[0], since: Date.now() - 8 * 3_600_000,
+    band: { low: 92, high: 96, news2Scale: 1, reason: 'Fixture band', orderedBy: intensivist.id, orderedAt: Date.now() - 8 * 3_600_000 },
+  }));
 });
 afterAll(async () => { await browser?.close(); await db?.destroy(); });
 

@@ -5,7 +5,7 @@ import { Hl7Client } from '@medplum/hl7';
 import { buildOru } from '~/lib/hl7/oru.ts';
 import { APP_URL } from '../support/app.ts';
 import { launchBrowser, signInThroughForm } from '../support/browser.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let browser: Browser;
 let db: Knex;
@@ -18,9 +18,7 @@ beforeAll(async () => {
   db = testDb();
   unit = await createUnit(db, 2);
   charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
-  const [id] = await db('patients').insert({ mrn: unique('IOP').slice(0, 20), given_name: 'Isla', family_name: unique('Interop'), date_of_birth: '1962-02-12' });
-  patientId = id;
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 3_600_000) });
+  ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 }));
 });
 afterAll(async () => { await browser?.close(); await db?.destroy(); });
 

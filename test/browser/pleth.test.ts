@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL } from '../support/app.ts';
 import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let browser: Browser;
 let db: Knex;
@@ -45,8 +45,7 @@ describe('pleth strip check page', () => {
   it('names the line of a bad strip, and attaches a checked strip to a patient\'s reading', async () => {
     const unit = await createUnit(db, 1);
     const nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
-    const [pid] = await db('patients').insert({ mrn: unique('PLE').slice(0, 20), given_name: 'Ines', family_name: unique('Strip'), date_of_birth: '1980-01-01' });
-    await db('bed_stays').insert({ patient_id: pid, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 3_600_000) });
+    const { patientId: pid } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 });
     const [obsId] = await db('observations').insert({ patient_id: pid, bed_id: unit.bedIds[0], taken_at: new Date(Date.now() - 5 * 60_000), source: 'device', spo2: 86, trace: 'weak' });
 
     const context = await browser.newContext();

@@ -4,7 +4,7 @@ import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL, signedIn } from '../support/app.ts';
 import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let browser: Browser;
 let db: Knex;
@@ -18,9 +18,7 @@ beforeAll(async () => {
   const nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
   outreach = await createUser(db, { role: 'outreach' });
   const intensivist = await createUser(db, { role: 'intensivist' });
-  const [id] = await db('patients').insert({ mrn: unique('QB').slice(0, 20), given_name: 'Quill', family_name: unique('Queue'), date_of_birth: '1961-03-03' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 6 * 3_600_000) });
-  await db('target_orders').insert({ patient_id: id, low: 92, high: 96, reason: 'fixture', ordered_by: intensivist.id, ordered_at: new Date(Date.now() - 5 * 3_600_000) });
+  const { patientId: id } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivist.id, orderedAt: Date.now() - 5 * 3_600_000 } });
   const session = await signedIn(nurse.email, nurse.password);
   for (const [spo2, minsAgo] of [[90, 20], [89, 1]] as const) {
     await session.post(`/api/patients/${id}/observations`, { takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(), spo2, heartRate: 100, respRate: 22, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean' });

@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { APP_URL, type HttpSession } from '../support/app.ts';
-import { createUnit, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, testDb } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
 type Who = 'nurse' | 'charge' | 'int' | 'admin' | 'out' | 'device';
@@ -23,8 +23,7 @@ beforeAll(async () => {
   const a = await createUnit(db, 4);
   const people = await signInPeople(db, { nurse: ['nurse', a.unitId], charge: ['charge', a.unitId], int: ['intensivist', null], admin: ['admin', null], out: ['outreach', null] });
   Object.assign(s, people.sessions);
-  const [patient] = await db('patients').insert({ mrn: unique('BI').toUpperCase(), given_name: 'Bad', family_name: 'Input', date_of_birth: '1950-01-01' });
-  await db('bed_stays').insert({ patient_id: patient, bed_id: a.bedIds[0], started_at: new Date(Date.now() - 6 * 3_600_000) });
+  const { patientId: patient } = await createAdmittedPatient(db, { bedId: a.bedIds[0], since: Date.now() - 6 * 3_600_000 });
   const [obs] = await db('observations').insert({ patient_id: patient, bed_id: a.bedIds[0], taken_at: new Date(Date.now() - 600_000), recorded_at: new Date(), source: 'charted', spo2: 95, device: 'room_air', fio2: 0.21, trace: 'clean', recorded_by: people.ids.nurse });
   const made = await s.admin.post('/api/admin/device-keys', { bedId: a.bedIds[0], label: 'bad-input gateway' });
   const { key, deviceKey } = await made.json();

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 import { unitBoard } from '../../src/lib/server/board/board.ts';
 import { db as appDb, closeDb } from '../../src/lib/server/queries/db.ts';
 
@@ -15,10 +15,8 @@ const now = Date.now();
 const min = 60_000;
 
 async function patientIn(bedId: number, band: [number, number] | null) {
-  const [id] = await db('patients').insert({ mrn: unique('BRD'), given_name: 'Board', family_name: unique('Fix'), date_of_birth: '1950-01-01' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: new Date(now - 10 * 60 * min) });
-  if (band) await db('target_orders').insert({ patient_id: id, low: band[0], high: band[1], reason: 'fixture', ordered_by: users.intensivist.id, ordered_at: new Date(now - 9 * 60 * min) });
-  return id;
+  const order = band ? { low: band[0], high: band[1], orderedBy: users.intensivist.id, orderedAt: now - 9 * 60 * min } : undefined;
+  return (await createAdmittedPatient(db, { bedId, since: now - 10 * 60 * min, band: order })).patientId;
 }
 
 async function readings(patientId: number, bedId: number, rows: { minsAgo: number; spo2: number; trace?: string; source?: string; fio2?: number; device?: string }[]) {

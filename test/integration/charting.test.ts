@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
+import { countRows, createAdmittedPatient, createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
 let db: Knex;
@@ -149,9 +149,7 @@ describe('target orders', () => {
 describe('obs entry, corrections and entered in error', () => {
   let patientId: number;
   beforeAll(async () => {
-    const p = await db('patients').insert({ mrn: unique('OBS'), given_name: 'Obs', family_name: 'Fixture', date_of_birth: '1955-05-05' });
-    patientId = p[0];
-    await db('bed_stays').insert({ patient_id: patientId, bed_id: other.bedIds[0], started_at: new Date(Date.now() - 6 * 3_600_000) });
+    ({ patientId } = await createAdmittedPatient(db, { bedId: other.bedIds[0], since: Date.now() - 6 * 3_600_000 }));
     // Move the fixture staff's view: this patient is in `other`, charted by the other unit's nurse.
   });
 
@@ -250,10 +248,9 @@ describe('series for the bed chart', () => {
   let patientId: number;
   const hour = 3_600_000;
   beforeAll(async () => {
-    const [id] = await db('patients').insert({ mrn: unique('SER'), given_name: 'Series', family_name: 'Fixture', date_of_birth: '1966-06-06' });
-    patientId = id;
     const now = Date.now();
-    await db('bed_stays').insert({ patient_id: id, bed_id: other.bedIds[1], started_at: new Date(now - 80 * hour) });
+    const { patientId: id } = await createAdmittedPatient(db, { bedId: other.bedIds[1], since: now - 80 * hour });
+    patientId = id;
     await db('target_orders').insert([
       { patient_id: id, low: 92, high: 96, reason: 'first', ordered_by: ids.intensivist, ordered_at: new Date(now - 75 * hour) },
       { patient_id: id, low: 88, high: 92, reason: 'second', ordered_by: ids.intensivist, ordered_at: new Date(now - 3 * hour) },

@@ -7,7 +7,7 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 import { waitForMail } from '../support/mailbox.ts';
 import { renotifyUnclaimed } from '../../src/lib/server/escalations/sweep.ts';
 import { deliverDueMail } from '../../src/lib/server/mail/outbox-worker.ts';
@@ -42,10 +42,7 @@ afterAll(async () => { await db.destroy(); await closeDb(); });
 
 async function admit() {
   const bedId = unit.bedIds[bedCursor++]!;
-  const [id] = await db('patients').insert({ mrn: unique('ML').slice(0, 20), given_name: 'Mae', family_name: unique('Mail'), date_of_birth: '1950-01-01' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: new Date(Date.now() - 6 * 3_600_000) });
-  await db('target_orders').insert({ patient_id: id, low: 92, high: 96, reason: 'fixture', ordered_by: intensivistId, ordered_at: new Date(Date.now() - 5 * 3_600_000) });
-  return id as number;
+  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
 }
 async function chart(patientId: number, spo2: number, minsAgo: number, extra: Record<string, unknown> = {}) {
   const res = await s.nurse.post(`/api/patients/${patientId}/observations`, {

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 import { received, smtp, waitForMail } from '../support/mailbox.ts';
 import { startInstance } from '../support/instance.ts';
 import { renotifyUnclaimed } from '../../src/lib/server/escalations/sweep.ts';
@@ -17,11 +17,8 @@ let intensivistId: number;
 
 async function admitWithBand(low = 92, high = 96) {
   const bedId = unit.bedIds[bedCursor++]!;
-  const [id] = await db('patients').insert({ mrn: unique('ESC'), given_name: 'Esc', family_name: unique('Fix'), date_of_birth: '1948-02-02' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: new Date(Date.now() - 6 * 3_600_000) });
   // Ordered hours ago: readings are judged only against the band in force when they were taken.
-  await db('target_orders').insert({ patient_id: id, low, high, reason: 'fixture', ordered_by: intensivistId, ordered_at: new Date(Date.now() - 5 * 3_600_000) });
-  return id as number;
+  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low, high, orderedBy: intensivistId, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
 }
 
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();

@@ -10,7 +10,7 @@ import { readFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { createUnit, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { startInstance } from '../support/instance.ts';
 import { received } from '../support/mailbox.ts';
@@ -105,10 +105,8 @@ describe('an app instance killed with SIGKILL during escalation sweeps', () => {
     try {
       // Device readings below band for 10 min, written straight to the table: only a sweep raises them.
       for (const bedId of unit.bedIds) {
-        const [id] = await db('patients').insert({ mrn: unique('KIL').toUpperCase().slice(0, 20), given_name: 'Kay', family_name: unique('Sig'), date_of_birth: '1950-01-01' });
-        await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: new Date(Date.now() - 3 * 3_600_000) });
-        await db('target_orders').insert({ patient_id: id, low: 92, high: 96, reason: 'fixture', ordered_by: intensivistId, ordered_at: new Date(Date.now() - 2 * 3_600_000) });
-        patients.push(id);
+        const { patientId } = await createAdmittedPatient(db, { bedId, since: Date.now() - 3 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 2 * 3_600_000 } });
+        patients.push(patientId);
       }
       const rows = [];
       for (let i = 0; i < patients.length; i++) {

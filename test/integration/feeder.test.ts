@@ -7,7 +7,7 @@ import { spawn } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 import { startInstance } from '../support/instance.ts';
 
 let db: Knex;
@@ -18,9 +18,7 @@ const port = Number(new URL(process.env.APP_URL!).port) + 3;
 beforeAll(async () => {
   db = testDb();
   unit = await createUnit(db, 1);
-  const [id] = await db('patients').insert({ mrn: unique('FEED').slice(0, 20), given_name: 'Pip', family_name: unique('Feeder'), date_of_birth: '1960-01-01' });
-  patientId = id;
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 3_600_000) });
+  ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 }));
   // One device reading, so the feeder picks the bed up (it plays only into monitored beds).
   const admin = await createUser(db, { role: 'admin' });
   const session = await signedIn(admin.email, admin.password);

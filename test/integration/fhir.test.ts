@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { codeIssues, ensureIndexed, r4Codes, structureIssues } from '~/lib/fhir/validate.ts';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
@@ -30,10 +30,10 @@ beforeAll(async () => {
     s[name] = await signedIn(u.email, u.password);
   }
   s.anon = new HttpSession();
-  const [id] = await db('patients').insert({ mrn: unique('FH').slice(0, 20), given_name: 'Fenna', family_name: unique('Export'), date_of_birth: '1958-07-21' });
-  patientId = id;
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[0], started_at: new Date(Date.now() - 5 * 3_600_000) });
-  await db('target_orders').insert({ patient_id: id, low: 88, high: 92, reason: 'Known CO₂ retainer', ordered_by: intensivistId, ordered_at: new Date(Date.now() - 4 * 3_600_000) });
+  ({ patientId } = await createAdmittedPatient(db, {
+    bedId: unit.bedIds[0], since: Date.now() - 5 * 3_600_000, givenName: 'Fenna', dateOfBirth: '1958-07-21',
+    band: { low: 88, high: 92, reason: 'Known CO₂ retainer', orderedBy: intensivistId, orderedAt: Date.now() - 4 * 3_600_000 },
+  }));
 }, 180_000);
 afterAll(async () => { await db.destroy(); });
 
@@ -102,8 +102,7 @@ describe('GET /api/patients/:id/fhir', () => {
   });
 
   it('streams a large window (chunked, no length) and every reading arrives', async () => {
-    const [pid] = await db('patients').insert({ mrn: unique('FHB').slice(0, 20), given_name: 'Bulk', family_name: unique('Export'), date_of_birth: '1960-01-01' });
-    await db('bed_stays').insert({ patient_id: pid, bed_id: unit.bedIds[1], started_at: new Date(Date.now() - 30 * 3_600_000) });
+    const { patientId: pid } = await createAdmittedPatient(db, { bedId: unit.bedIds[1], since: Date.now() - 30 * 3_600_000 });
     const start = Math.floor(Date.now() / 1000) * 1000 - 6 * 3_600_000;
     const rows = Array.from({ length: 12_000 }, (_, i) => ({ patient_id: pid, bed_id: unit.bedIds[1], taken_at: new Date(start + i * 1000), source: 'device', spo2: 90 + (i % 8), heart_rate: 80, trace: 'clean' }));
     for (let i = 0; i < rows.length; i += 2000) await db('observations').insert(rows.slice(i, i + 2000));

@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { APP_URL, HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { countRows, createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { signOut } from '../support/signout.ts';
 import { ADDRESS_FAILURES, ACCOUNT_FAILURES } from '../../src/lib/auth/throttle.ts';
@@ -143,10 +143,9 @@ describe('3. races end in 409, not 500', () => {
     const csv = rows.join('\n');
     const analyse = await s.nurse.request('/api/pleth/analyse', { method: 'POST', headers: { 'content-type': 'text/csv' }, body: csv });
     expect(analyse.status).toBe(400);
-    const patient = await db('patients').insert({ mrn: unique('PL').toUpperCase(), given_name: 'Pl', family_name: 'Eth', date_of_birth: '1950-01-01' });
-    await db('bed_stays').insert({ patient_id: patient[0], bed_id: unit.bedIds[5], started_at: new Date(Date.now() - 3_600_000) });
+    const { patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[5], since: Date.now() - 3_600_000 });
     const before = await countRows(db, 'pleth_checks');
-    const attach = await s.nurse.post('/api/pleth/checks', { patientId: patient[0], fileName: 'fast.csv', csv });
+    const attach = await s.nurse.post('/api/pleth/checks', { patientId, fileName: 'fast.csv', csv });
     expect(attach.status).toBe(400);
     expect(JSON.stringify((await attach.json()).error)).toMatch(/10000 Hz/);
     expect(await countRows(db, 'pleth_checks')).toBe(before);
@@ -156,9 +155,7 @@ describe('3. races end in 409, not 500', () => {
 describe('4. refused instead of stored', () => {
   let patientId: number;
   beforeAll(async () => {
-    const [id] = await db('patients').insert({ mrn: unique('ST').toUpperCase(), given_name: 'Strict', family_name: 'Input', date_of_birth: '1950-01-01' });
-    patientId = id;
-    await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[6], started_at: new Date(Date.now() - 60 * 60_000) });
+    ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[6], since: Date.now() - 60 * 60_000 }));
   });
   const obs = (extra: Record<string, unknown> = {}) => ({ takenAt: new Date(Date.now() - 60_000).toISOString(), spo2: 95, heartRate: 80, device: 'room_air', trace: 'clean', ...extra });
 

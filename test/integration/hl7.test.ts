@@ -9,7 +9,7 @@ import { Hl7Message } from '@medplum/core';
 import { Hl7Client } from '@medplum/hl7';
 import { buildOru, hl7Timestamp } from '~/lib/hl7/oru.ts';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 const MLLP_PORT = Number(process.env.EBB_MLLP_PORT ?? 5599);
 let db: Knex;
@@ -38,9 +38,7 @@ afterAll(async () => {
 });
 
 async function patientInBed(bedId: number, from = new Date(Date.now() - 3_600_000)) {
-  const [id] = await db('patients').insert({ mrn: unique('HL7').slice(0, 20), given_name: 'Ora', family_name: unique('Gate'), date_of_birth: '1966-03-03' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: from });
-  return id as number;
+  return (await createAdmittedPatient(db, { bedId, since: from })).patientId;
 }
 
 /** A live gateway with its sender names, mapping `bedName` to bed `bedIndex` of the test unit. */

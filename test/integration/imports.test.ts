@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, testDb, unique } from '../support/db.ts';
+import { countRows, createAdmittedPatient, createUnit, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
 let db: Knex;
@@ -23,9 +23,7 @@ beforeAll(async () => {
 afterAll(async () => { await db.destroy(); });
 
 async function patientInBed(bedIndex: number, from: Date) {
-  const [id] = await db('patients').insert({ mrn: unique('IMP').slice(0, 20), given_name: 'Tamar', family_name: unique('Trend'), date_of_birth: '1966-02-02' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[bedIndex], started_at: from });
-  return id as number;
+  return (await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: from })).patientId;
 }
 
 const MAPPING = { time: 'Recorded', spo2: 'Sat %', heartRate: 'Pulse', perfusionIndex: 'PI', quality: 'Signal', timeMode: 'iso' };

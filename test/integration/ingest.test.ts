@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { APP_URL, HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { countRows, createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
@@ -23,9 +23,7 @@ afterAll(async () => { await db.destroy(); });
 
 /** A patient in a bed from `from` (and until `to`), written straight to the fixtures. */
 async function patientInBed(bedId: number, from: Date, to: Date | null = null) {
-  const [id] = await db('patients').insert({ mrn: unique('ING').slice(0, 20), given_name: 'Wren', family_name: unique('Feed'), date_of_birth: '1970-05-05' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: from, ended_at: to, end_reason: to ? 'discharged' : null });
-  return id as number;
+  return (await createAdmittedPatient(db, { bedId, since: from, until: to })).patientId;
 }
 
 async function newKey(bedIndex: number) {

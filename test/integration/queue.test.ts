@@ -2,12 +2,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
 const s: Record<string, HttpSession> = {};
 let intensivistId: number;
+let nurseId: number;
 
 beforeAll(async () => {
   db = testDb();
@@ -17,21 +18,24 @@ beforeAll(async () => {
   s.nurse = await signedIn(nurse.email, nurse.password);
   const outreach = await createUser(db, { role: 'outreach' });
   s.outreach = await signedIn(outreach.email, outreach.password);
-  intensivistId = (await createUser(db, { role: 'intensivist' })).id;
+  const intensivist = await createUser(db, { role: 'intensivist' });
+  intensivistId = intensivist.id;
+  s.intensivist = await signedIn(intensivist.email, intensivist.password);
+  const charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
+  s.charge = await signedIn(charge.email, charge.password);
+  nurseId = nurse.id;
 });
 afterAll(async () => { await db.destroy(); });
 
 async function belowBandPatient(bedIndex: number) {
-  const [id] = await db('patients').insert({ mrn: unique('Q').slice(0, 20), given_name: 'Quin', family_name: unique('Queue'), date_of_birth: '1960-02-02' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[bedIndex], started_at: new Date(Date.now() - 6 * 3_600_000) });
-  await db('target_orders').insert({ patient_id: id, low: 92, high: 96, reason: 'fixture', ordered_by: intensivistId, ordered_at: new Date(Date.now() - 5 * 3_600_000) });
+  const { patientId: id } = await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 5 * 3_600_000 } });
   for (const [spo2, minsAgo] of [[90, 25], [89, 12], [88, 2]] as const) {
     const res = await s.nurse.post(`/api/patients/${id}/observations`, {
       takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(), spo2, heartRate: 100, respRate: 22, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean',
     });
     expect(res.status).toBe(201);
   }
-  return id as number;
+  return id;
 }
 
 describe('outreach queue data', () => {
@@ -59,5 +63,53 @@ describe('outreach queue data', () => {
     expect(c).toMatchObject({ outcome: 'reviewed_by_outreach', outcomeLabel: 'Reviewed by outreach', raisedToClaimedMin: 0, claimedToClosedMin: 0 });
     expect(c.closedBy).toMatch(/^Fixture outreach/);
     expect(closed.escalations.some((x: { id: number }) => x.id === oldEsc.id)).toBe(false);
+  });
+});
+
+describe('what the signed-in person may do with each escalation (can, decided on the server)', () => {
+  type Can = { claim: boolean; close: boolean };
+  const canIn = async (who: string, state: 'open' | 'closed', patientId: number): Promise<Can> => {
+    const list = await (await s[who].get(`/api/escalations?state=${state}&unit=${unit.code}`)).json();
+    return list.escalations.find((x: { patient: { id: number } }) => x.patient.id === patientId).can;
+  };
+  const tileCan = async (who: string, bedId: number): Promise<Can> => {
+    const board = await (await s[who].get(`/api/board?unit=${unit.code}`)).json();
+    return board.tiles.find((t: { bedId: number }) => t.bedId === bedId).can;
+  };
+
+  it('claim while raised (nurses, charge nurses, outreach); close until closed (charge nurses, outreach); intensivists neither', async () => {
+    const p = await belowBandPatient(2);
+    const bedId = unit.bedIds[2];
+    expect(await canIn('nurse', 'open', p)).toEqual({ claim: true, close: false });
+    expect(await canIn('charge', 'open', p)).toEqual({ claim: true, close: true });
+    expect(await canIn('outreach', 'open', p)).toEqual({ claim: true, close: true });
+    expect(await canIn('intensivist', 'open', p)).toEqual({ claim: false, close: false });
+
+    // A board tile offers the claim to the charge nurse and to the bed's own nurse only.
+    expect(await tileCan('charge', bedId)).toEqual({ claim: true });
+    expect(await tileCan('nurse', bedId)).toEqual({ claim: false });
+    expect(await tileCan('outreach', bedId)).toEqual({ claim: false });
+    expect(await tileCan('intensivist', bedId)).toEqual({ claim: false });
+    expect((await s.charge.put(`/api/beds/${bedId}/assignment`, { nurseId })).status).toBe(200);
+    expect(await tileCan('nurse', bedId)).toEqual({ claim: true });
+
+    // Claimed: nobody may claim it again (the server refuses too); closing stays with charge nurses and outreach.
+    const id = (await db('escalations').where({ patient_id: p, kind: 'below_band' }).first()).id;
+    const claimed = await s.nurse.post(`/api/escalations/${id}/claim`);
+    expect(claimed.status).toBe(200);
+    expect((await claimed.json()).can).toEqual({ claim: false, close: false });
+    expect(await canIn('nurse', 'open', p)).toEqual({ claim: false, close: false });
+    expect(await canIn('charge', 'open', p)).toEqual({ claim: false, close: true });
+    expect(await canIn('outreach', 'open', p)).toEqual({ claim: false, close: true });
+    expect(await canIn('intensivist', 'open', p)).toEqual({ claim: false, close: false });
+    expect(await tileCan('charge', bedId)).toEqual({ claim: false });
+    expect((await (await s.charge.get(`/api/escalations/${id}`)).json()).can).toEqual({ claim: false, close: true });
+    expect((await s.charge.post(`/api/escalations/${id}/claim`)).status).toBe(409);
+    expect((await s.nurse.post(`/api/escalations/${id}/close`, { outcome: 'treated_at_bedside' })).status).toBe(403);
+
+    // Closed: nothing more for anyone.
+    const closed = await s.charge.post(`/api/escalations/${id}/close`, { outcome: 'treated_at_bedside' });
+    expect((await closed.json()).can).toEqual({ claim: false, close: false });
+    for (const who of ['nurse', 'charge', 'outreach', 'intensivist']) expect(await canIn(who, 'closed', p), who).toEqual({ claim: false, close: false });
   });
 });

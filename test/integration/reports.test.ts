@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
+import { countRows, createAdmittedPatient, createUnit, rebuildPatientRollup, testDb } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { lastWholeDays } from '../../src/lib/reports/shift.ts';
 import { formatClock } from '../../src/lib/time/format.ts';
@@ -32,9 +32,7 @@ beforeAll(async () => {
 
   // The hand-computed case of src/lib/reports/unit-report.test.ts, on yesterday (unit zone), through the database and the API.
   yesterday = lastWholeDays(Date.now(), 'Europe/London', 1)[0]!;
-  [patientId] = await db('patients').insert({ mrn: unique('REP'), given_name: 'Report', family_name: unique('Case'), date_of_birth: '1950-01-01' });
-  await db('bed_stays').insert({ patient_id: patientId, bed_id: unit.bedIds[0], started_at: new Date(yesterday.from - 60 * MIN) });
-  await db('target_orders').insert({ patient_id: patientId, low: 92, high: 96, reason: 'fixture', ordered_by: ids.intensivist, ordered_at: new Date(yesterday.from - 60 * MIN) });
+  ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: yesterday.from - 60 * MIN, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: yesterday.from - 60 * MIN } }));
   const charted = (t: Date, spo2: number, trace = 'clean') => ({ patient_id: patientId, bed_id: unit.bedIds[0], taken_at: t, source: 'charted', spo2, heart_rate: 80, resp_rate: 18, trace, device: 'room_air', fio2: 0.21 });
   await db('observations').insert([charted(at(0), 95), charted(at(1), 90), charted(at(2), 94, 'noisy'), charted(at(3), 95)]);
   // A corrected-away row must not count: it is superseded.

@@ -7,7 +7,7 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { createUnit, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, testDb } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { CALLERS, ROLE_MATRIX, type Caller, type MatrixRow } from './role-matrix.table.ts';
 
@@ -58,8 +58,7 @@ describe('every route × every caller', () => {
       int: ['intensivist', null], out: ['outreach', null], admin: ['admin', null],
     });
     Object.assign(s, people.sessions);
-    const [patient] = await db('patients').insert({ mrn: unique('RM').toUpperCase(), given_name: 'Role', family_name: 'Matrix', date_of_birth: '1960-06-06' });
-    await db('bed_stays').insert({ patient_id: patient, bed_id: a.bedIds[0], started_at: new Date(Date.now() - 3_600_000) });
+    const { patientId: patient } = await createAdmittedPatient(db, { bedId: a.bedIds[0], since: Date.now() - 3_600_000 });
     const [obs] = await db('observations').insert({ patient_id: patient, bed_id: a.bedIds[0], taken_at: new Date(Date.now() - 600_000), recorded_at: new Date(), source: 'charted', spo2: 95, device: 'room_air', fio2: 0.21, trace: 'clean', recorded_by: people.ids.nurse });
     Object.assign(fx, { patient: String(patient), obs: String(obs), bed: String(a.bedIds[1]), unit: a.code, missing: '987654321' });
   });

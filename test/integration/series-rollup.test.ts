@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { APP_URL, type HttpSession } from '../support/app.ts';
-import { createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, rebuildPatientRollup, testDb } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 import { bandCompliance } from '../../src/lib/oxygenation/compliance.ts';
 import { floorMinute, minuteRollup } from '../../src/lib/oxygenation/rollup.ts';
@@ -30,10 +30,8 @@ beforeAll(async () => {
 afterAll(async () => { await db.destroy(); });
 
 async function patientInBed(bedIndex: number, from: number, band: [number, number] | null = [92, 96]) {
-  const [id] = await db('patients').insert({ mrn: unique('ROL').slice(0, 20), given_name: 'Rolla', family_name: unique('Minute'), date_of_birth: '1961-03-03' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: unit.bedIds[bedIndex], started_at: new Date(from) });
-  if (band) await db('target_orders').insert({ patient_id: id, low: band[0], high: band[1], reason: 'fixture', ordered_by: ids.intensivist, ordered_at: new Date(from + 7_500) });
-  return id as number;
+  const order = band ? { low: band[0], high: band[1], orderedBy: ids.intensivist, orderedAt: from + 7_500 } : undefined;
+  return (await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: from, band: order })).patientId;
 }
 
 async function currentReadings(patientId: number) {

@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { HttpSession, signedIn } from '../support/app.ts';
-import { createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
@@ -26,11 +26,9 @@ afterAll(async () => { await db.destroy(); });
 async function patientWithDeviceReadings(bedIndex: number, secondsAgo: number[], spo2 = 88) {
   const now = Date.now();
   const bedId = unit.bedIds[bedIndex]!;
-  const [id] = await db('patients').insert({ mrn: unique('TT').slice(0, 20), given_name: 'Tam', family_name: unique('Time'), date_of_birth: '1955-05-05' });
-  await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: new Date(now - 6 * 60 * min) });
-  await db('target_orders').insert({ patient_id: id, low: 92, high: 96, reason: 'fixture', ordered_by: intensivistId, ordered_at: new Date(now - 5 * 60 * min) });
+  const { patientId: id } = await createAdmittedPatient(db, { bedId, since: now - 6 * 60 * min, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: now - 5 * 60 * min } });
   await db('observations').insert(secondsAgo.map((sec) => ({ patient_id: id, bed_id: bedId, taken_at: new Date(now - sec * 1000), source: 'device', spo2, heart_rate: 96, trace: 'clean' })));
-  return id as number;
+  return id;
 }
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const tileOf = async (label: string) => ((await (await s.get(`/api/board?unit=${unit.code}`)).json()).tiles as { bedLabel: string; state: Record<string, unknown>; monitor: Record<string, unknown> | null; concern: { reason: string }; latest: Record<string, unknown> }[]).find((t) => t.bedLabel === label)!;

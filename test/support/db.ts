@@ -38,6 +38,39 @@ export async function createUnit(db: Knex, beds = 4) {
   return { unitId, code, bedIds };
 }
 
+export interface AdmittedPatientFields {
+  bedId: number;
+  /** When the open bed stay began. */
+  since: Date | number;
+  /** Ends the stay (discharged) at this time; open when left out. */
+  until?: Date | number | null;
+  /** A target order in force from `orderedAt`. */
+  band?: { low: number; high: number; orderedBy: number; orderedAt: Date | number; reason?: string; news2Scale?: 1 | 2 };
+  mrn?: string; givenName?: string; familyName?: string; dateOfBirth?: string;
+}
+
+/**
+ * A patient put straight into the tables, as an admission leaves them: the patient row, a bed stay in
+ * `bedId` from `since` (open unless `until`), and a target order when `band` is given. For fixtures
+ * that arrange a past or a bed faster than the API allows; tests of admitting itself use the API.
+ */
+export async function createAdmittedPatient(db: Knex, f: AdmittedPatientFields): Promise<{ patientId: number; stayId: number; orderId: number | null; mrn: string }> {
+  const mrn = f.mrn ?? unique('ADM').toUpperCase().slice(0, 20);
+  const [patientId] = await db('patients').insert({
+    mrn, given_name: f.givenName ?? 'Fixture', family_name: f.familyName ?? unique('Patient'), date_of_birth: f.dateOfBirth ?? '1960-01-01',
+  });
+  const until = f.until == null ? null : new Date(f.until);
+  const [stayId] = await db('bed_stays').insert({ patient_id: patientId, bed_id: f.bedId, started_at: new Date(f.since), ended_at: until, end_reason: until ? 'discharged' : null });
+  let orderId: number | null = null;
+  if (f.band) {
+    const b = f.band;
+    [orderId] = await db('target_orders').insert({
+      patient_id: patientId, low: b.low, high: b.high, news2_scale: b.news2Scale ?? 1, reason: b.reason ?? 'fixture', ordered_by: b.orderedBy, ordered_at: new Date(b.orderedAt),
+    });
+  }
+  return { patientId, stayId, orderId, mrn };
+}
+
 export async function countRows(db: Knex, table: string): Promise<number> {
   const [{ n }] = await db(table).count<{ n: number }[]>({ n: '*' });
   return Number(n);

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { formatDateTime } from '~/lib/time/format.ts';
 import type { DeviceKeyView } from '~/lib/server/devices/keys.ts';
 
@@ -15,7 +16,8 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
   const [bedId, setBedId] = useState('');
   const [label, setLabel] = useState('');
   const [fresh, setFresh] = useState<{ key: string; label: string; bed: string } | null>(null);
-  const [message, setMessage] = useState<string | null>(null);
+  const actions = useForm();
+  const message = actions.alert ?? actions.status;
   const [revoking, setRevoking] = useState<number | null>(null);
   const [reason, setReason] = useState('');
   if (error) return <p role="alert">Could not load device keys: {String((error as Error).message)}</p>;
@@ -25,27 +27,17 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
 
   async function create(e: React.FormEvent) {
     e.preventDefault();
-    setMessage(null);
-    try {
-      const res = await postJson<{ key: string; deviceKey: DeviceKeyView }>('/api/admin/device-keys', { bedId: Number(bedId), label });
-      setFresh({ key: res.key, label: res.deviceKey.label, bed: res.deviceKey.bed.label });
-      setLabel('');
-      await mutate();
-    } catch (err) {
-      setMessage((err as Error).message);
-    }
+    const res = await actions.submit(() => postJson<{ key: string; deviceKey: DeviceKeyView }>('/api/admin/device-keys', { bedId: Number(bedId), label }));
+    if (res === undefined) return;
+    setFresh({ key: res.key, label: res.deviceKey.label, bed: res.deviceKey.bed.label });
+    setLabel('');
+    await mutate();
   }
 
   async function revoke(id: number) {
-    try {
-      await postJson(`/api/admin/device-keys/${id}/revoke`, { reason });
-      setRevoking(null);
-      setReason('');
-      setMessage(`Key ${id} revoked: its gateway is refused from now on.`);
-      await mutate();
-    } catch (err) {
-      setMessage((err as Error).message);
-    }
+    if (!await actions.act(`Key ${id} revoked: its gateway is refused from now on.`, () => postJson(`/api/admin/device-keys/${id}/revoke`, { reason }), { after: mutate })) return;
+    setRevoking(null);
+    setReason('');
   }
 
   return (

@@ -1,6 +1,8 @@
 import { useEffect, useMemo, useState } from 'react';
-import useSWR, { mutate as globalMutate } from 'swr';
-import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import useSWR from 'swr';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
+import { useRefreshChart } from '~/components/chart/chart-shared.tsx';
 import { MAX_TREND_FILE_BYTES, guessMapping, headerNames, mappingFits, trendMappingSchema, type TimeMode, type TrendMapping } from '~/lib/imports/mapping.ts';
 import type { ImportView, TrendPreview } from '~/lib/server/trend-files/imports.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
@@ -37,7 +39,10 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   const [draft, setDraft] = useState<Draft>(EMPTY_DRAFT);
   const [preview, setPreview] = useState<TrendPreview | null>(null);
   const [progress, setProgress] = useState<{ label: string; fraction: number } | null>(null);
-  const [message, setMessage] = useState<{ kind: 'ok' | 'error'; text: string; fields?: Record<string, string> } | null>(null);
+  // Refusals of a file name lines and columns ("line 12", "spo2"): kept as the server sent them.
+  const { errors: refusals, setErrors: setRefusals, alert, setAlert, status, setStatus, submit } = useForm();
+  const refreshChart = useRefreshChart(patientId);
+  const clearMessages = () => { setAlert(null); setStatus(''); setRefusals({}); };
   const [withdrawing, setWithdrawing] = useState<number | null>(null);
   const [reason, setReason] = useState('');
   const timeZone = data?.timeZone ?? 'UTC';
@@ -45,12 +50,12 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   useEffect(() => { setPreview(null); }, [draft, file]);
 
   async function chooseFile(f: File | null) {
-    setMessage(null);
+    clearMessages();
     setFile(f);
     setHeaders([]);
     if (!f) return;
     if (f.size > MAX_TREND_FILE_BYTES) {
-      setMessage({ kind: 'error', text: `This file is ${(f.size / 1024 / 1024).toFixed(1)} MB; the limit is 20 MB.` });
+      setAlert(`This file is ${(f.size / 1024 / 1024).toFixed(1)} MB; the limit is 20 MB.`);
       setFile(null);
       return;
     }
@@ -74,17 +79,13 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   }
 
   async function run<T>(label: string, url: string): Promise<T | null> {
-    setMessage(null);
+    clearMessages();
     setProgress({ label, fraction: 0 });
-    try {
-      return await uploadFile<T>(url, file!, (fraction) => setProgress({ label, fraction }));
-    } catch (err) {
-      const e = err as { message: string; fields?: Record<string, string> };
-      setMessage({ kind: 'error', text: e.message, fields: e.fields });
-      return null;
-    } finally {
-      setProgress(null);
-    }
+    const answer = await submit(() => uploadFile<T>(url, file!, (fraction) => setProgress({ label, fraction })), {
+      onRefused: (_fields, err) => setRefusals(err instanceof ApiClientError ? err.fields : {}),
+    });
+    setProgress(null);
+    return answer ?? null;
   }
 
   async function doPreview() {
@@ -95,35 +96,30 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   /** Leaves an unfit optional column out of the mapping; the preview must then be run again. */
   function unmap(field: 'perfusionIndex' | 'quality', column: string) {
     setDraft((d) => ({ ...d, [field]: '' }));
-    setMessage({ kind: 'ok', text: `Column "${column}" is now left unmapped. Preview again to see what would be stored.` });
+    clearMessages();
+    setStatus(`Column "${column}" is now left unmapped. Preview again to see what would be stored.`);
   }
 
   async function doCommit() {
     if (!preview) return;
     const res = await run<{ import: ImportView }>('Uploading to store', uploadUrl('commit', preview.fileHash));
     if (!res) return;
-    setMessage({ kind: 'ok', text: `Stored ${formatCount(res.import.rowsStored)} readings from ${res.import.fileName} as import ${res.import.id}.` });
+    setStatus(`Stored ${formatCount(res.import.rowsStored)} readings from ${res.import.fileName} as import ${res.import.id}.`);
     setPreview(null);
     setFile(null);
     setHeaders([]);
     await mutate();
-    // Every view of this patient (the chart island too) refetches.
-    const base = `/api/patients/${patientId}`;
-    await globalMutate((key) => typeof key === 'string' && (key === base || key.startsWith(`${base}/`) || key.startsWith(`${base}?`)));
+    await refreshChart(); // every view of this patient (the chart island too) refetches
   }
 
   async function withdraw(id: number) {
-    try {
-      await postJson(`/api/imports/${id}/withdraw`, { reason });
-      setMessage({ kind: 'ok', text: `Import ${id} withdrawn: its readings stay in the record, marked withdrawn, and leave the chart.` });
-      setWithdrawing(null);
-      setReason('');
-      await mutate();
-      const base = `/api/patients/${patientId}`;
-      await globalMutate((key) => typeof key === 'string' && key.startsWith(`${base}/`));
-    } catch (err) {
-      setMessage({ kind: 'error', text: (err as Error).message });
-    }
+    clearMessages();
+    if (await submit(() => postJson(`/api/imports/${id}/withdraw`, { reason })) === undefined) return;
+    setStatus(`Import ${id} withdrawn: its readings stay in the record, marked withdrawn, and leave the chart.`);
+    setWithdrawing(null);
+    setReason('');
+    await mutate();
+    await refreshChart();
   }
 
   const select = (key: keyof Draft, label: string, optional = false) => (
@@ -150,15 +146,16 @@ export default function TrendUpload({ patientId, canChart }: Props) {
         (clean, weak, noisy or absent). Up to 20 MB. Nothing is stored until you commit.
       </p>
 
-      {message && (
-        <div role={message.kind === 'error' ? 'alert' : 'status'} data-testid="upload-message"
-          className={message.kind === 'error' ? 'mb-3 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200' : 'mb-3 rounded-md bg-glass-50 p-2 text-sm dark:bg-glass-900/40'}>
-          {message.text}
-          {message.fields && Object.keys(message.fields).length > 0 && (
-            <ul className="ml-4 list-disc">{Object.entries(message.fields).map(([k, v]) => <li key={k}>{k}: {v}</li>)}</ul>
+      {alert && (
+        <div role="alert" data-testid="upload-message"
+          className="mb-3 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200">
+          {alert}
+          {Object.keys(refusals).length > 0 && (
+            <ul className="ml-4 list-disc">{Object.entries(refusals).map(([k, v]) => <li key={k}>{k}: {v}</li>)}</ul>
           )}
         </div>
       )}
+      {!alert && status && <div role="status" data-testid="upload-message" className="mb-3 rounded-md bg-glass-50 p-2 text-sm dark:bg-glass-900/40">{status}</div>}
 
       {canChart && (
         <div className="space-y-3">

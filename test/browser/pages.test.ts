@@ -1,24 +1,27 @@
 /**
  * Every page of the app (test/support/pages.ts), in a real browser:
+ * - the table names every page file under src/pages;
  * - reflow: at 1440, 390 and 320 CSS px wide the document never scrolls sideways (WCAG 2.1 1.4.10);
  * - axe-core (the accessibility engine) by day and by night: no serious or critical violation.
  */
-import { readFileSync } from 'node:fs';
+import { readFileSync, readdirSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
 import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
-import { APP_PAGES, demoEmail, demoPatientId, resolvePath, type AppPage, type DemoRole } from '../support/pages.ts';
+import { APP_PAGES, demoEmail, demoPatientId, resolvePath, setPasswordLinkToken, type AppPage, type DemoRole, type PageFixtures } from '../support/pages.ts';
 
 const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 let browser: Browser;
-let patientId: number;
+let fixtures: PageFixtures;
 const contexts = new Map<string, BrowserContext>();
 
 beforeAll(async () => {
   browser = await launchBrowser();
-  patientId = await demoPatientId();
+  fixtures = { patient: await demoPatientId(), link: await setPasswordLinkToken() };
 }, 60_000);
 afterAll(async () => {
   for (const c of contexts.values()) await c.close();
@@ -47,12 +50,22 @@ async function open(p: AppPage, night: boolean, width = 1440): Promise<Page> {
   const context = await contextFor(p.as, night);
   const page = await context.newPage();
   await page.setViewportSize({ width, height: 900 });
-  const res = await page.goto(`${APP_URL}${resolvePath(p, patientId)}`);
+  const res = await page.goto(`${APP_URL}${resolvePath(p, fixtures)}`);
   expect(res?.status(), `${p.name}: ${p.path}`).toBe(p.status ?? 200);
   if (p.ready) await waitForIsland(page, p.ready);
   await page.waitForLoadState('networkidle').catch(() => {});
   return page;
 }
+
+describe('the page table', () => {
+  it('has a row for every page file under src/pages', () => {
+    const pagesDir = fileURLToPath(new URL('../../src/pages', import.meta.url));
+    const walk = (dir: string): string[] => readdirSync(dir, { withFileTypes: true })
+      .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : e.name.endsWith('.astro') ? [relative(pagesDir, join(dir, e.name))] : []));
+    const listed = new Set(APP_PAGES.map((p) => p.file));
+    expect(walk(pagesDir).filter((f) => !listed.has(f)), 'pages missing from APP_PAGES in test/support/pages.ts').toEqual([]);
+  });
+});
 
 describe('no page scrolls sideways (WCAG 2.1 1.4.10 reflow)', () => {
   for (const p of APP_PAGES) {

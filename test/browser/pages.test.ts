@@ -1,7 +1,8 @@
 /**
  * Every page of the app (test/support/pages.ts), in a real browser:
  * - the table names every page file under src/pages;
- * - reflow: at 1440, 390 and 320 CSS px wide the document never scrolls sideways (WCAG 2.1 1.4.10);
+ * - reflow: at 1440, 390 and 320 CSS px wide the document never scrolls sideways (WCAG 2.1 1.4.10),
+ *   and every stacked table's cell labels are its column headers;
  * - axe-core (the accessibility engine) by day and by night: no serious or critical violation.
  */
 import { readFileSync, readdirSync } from 'node:fs';
@@ -67,11 +68,42 @@ describe('the page table', () => {
   });
 });
 
+/**
+ * In the page, at phone width: the data tables on screen. A stacked table (`stack-table`) shows each
+ * cell's label, and the label is its column's header; any other table fits without scrolling in
+ * its own box. Returns what is wrong, in words.
+ */
+function phoneTableProblems(): string[] {
+  const problems: string[] = [];
+  for (const table of document.querySelectorAll('main table')) {
+    // Print-only tables and tables in closed <details> are not on screen.
+    if (!(table instanceof HTMLTableElement) || !table.checkVisibility()) continue;
+    const name = table.dataset.testid ?? table.caption?.textContent ?? 'table';
+    if (!table.classList.contains('stack-table')) {
+      if (table.scrollWidth > table.clientWidth + 1) problems.push(`${name}: scrolls inside its own box (give it stack-table and data-label)`);
+      continue;
+    }
+    const headers = [...(table.tHead?.rows[0]?.cells ?? [])].map((c) => c.textContent?.trim() ?? '');
+    for (const row of [...table.tBodies].flatMap((b) => [...b.rows])) {
+      const cells = [...row.cells];
+      cells.forEach((cell, i) => {
+        const label = cell.dataset.label;
+        if (label === undefined) return;
+        if (cells.length === headers.length && label !== headers[i]) problems.push(`${name}: column ${i + 1} labelled "${label}" under the header "${headers[i]}"`);
+        const shown = getComputedStyle(cell, '::before').content;
+        if (shown !== JSON.stringify(label)) problems.push(`${name}: the label "${label}" is not shown (${shown})`);
+      });
+    }
+    if (table.scrollWidth > table.clientWidth + 1) problems.push(`${name}: a stacked table still scrolls sideways`);
+  }
+  return problems;
+}
+
 describe('no page scrolls sideways (WCAG 2.1 1.4.10 reflow)', () => {
   for (const p of APP_PAGES) {
     it(`${p.name} at 1440, 390 and 320 px`, async () => {
       const page = await open(p, false);
-      const widths: Record<number, { scroll: number; viewport: number; wide: string[] }> = {};
+      const widths: Record<number, { scroll: number; viewport: number; wide: string[]; tables: string[] }> = {};
       for (const width of [1440, 390, 320]) {
         await page.setViewportSize({ width, height: 900 });
         await page.waitForTimeout(250); // charts re-measure their containers
@@ -80,11 +112,15 @@ describe('no page scrolls sideways (WCAG 2.1 1.4.10 reflow)', () => {
           // Name the elements that stick out, so a failure says where to look.
           const wide = [...document.querySelectorAll('body *')].filter((e) => e.getBoundingClientRect().right > viewport + 1 && e.getBoundingClientRect().width > 0)
             .slice(-4).map((e) => `${e.tagName.toLowerCase()}${e.id ? `#${e.id}` : ''}.${String(e.className).slice(0, 60)}`);
-          return { scroll: document.documentElement.scrollWidth, viewport, wide };
+          return { scroll: document.documentElement.scrollWidth, viewport, wide, tables: [] as string[] };
         });
+        if (width < 640) widths[width]!.tables = await page.evaluate(phoneTableProblems);
       }
       await page.close();
-      for (const width of [1440, 390, 320]) expect(widths[width]!.scroll, `${p.name} at ${width} px: ${widths[width]!.wide.join(' | ')}`).toBeLessThanOrEqual(widths[width]!.viewport);
+      for (const width of [1440, 390, 320]) {
+        expect(widths[width]!.scroll, `${p.name} at ${width} px: ${widths[width]!.wide.join(' | ')}`).toBeLessThanOrEqual(widths[width]!.viewport);
+        expect(widths[width]!.tables, `${p.name}: tables at ${width} px`).toEqual([]);
+      }
     }, 60_000);
   }
 });

@@ -1,6 +1,5 @@
 import { useState } from 'react';
-import useSWR from 'swr';
-import { fetchJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatDateTimeSeconds } from '~/lib/time/format.ts';
 
 interface OutboxItem { id: number; key: string; to: string; subject: string; status: string; attempts: number; lastError: string | null; createdAt: string; sentAt: string | null; nextAttemptAt: string; text: string }
@@ -9,7 +8,7 @@ interface MailOverview { outbox: OutboxItem[]; received: Received[] | null; rece
 
 /** The mail outbox, and what the development SMTP fake received — newest first, each mail whole. */
 export default function MailBox({ timeZone }: { timeZone: string }) {
-  const { data, error } = useSWR<MailOverview>('/api/admin/mail', fetchJson, { refreshInterval: 10_000 });
+  const { data, error } = usePolled<MailOverview>('/api/admin/mail', 10_000);
   const [open, setOpen] = useState<string | null>(null);
   if (error) return <p role="alert">Could not load mail: {(error as Error).message}</p>;
   if (!data) return <p>Loading mail…</p>;

@@ -5,6 +5,7 @@ import type { BoardTile } from '~/lib/board/tiles.ts';
 import { formatMinutes, latestWords, monitorWords, stateWords } from '~/lib/board/tiles.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { KIND_LABELS, type EscalationKind } from '~/lib/escalations/decide.ts';
 import { formatClock, formatClockSeconds } from '~/lib/time/format.ts';
 
@@ -15,13 +16,7 @@ const timeIn = (iso: string | number, zone: string) => formatClockSeconds(iso, z
 /** The ward board: server-rendered first, then kept fresh by polling; stale data is said plainly. */
 export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
   const key = `/api/board?unit=${encodeURIComponent(initial.unit.code)}`;
-  const { data, error, mutate } = useSWR<BoardResponse>(key, fetchJson, {
-    fallbackData: initial, refreshInterval: pollMs, revalidateOnFocus: true, keepPreviousData: true,
-    // SWR pauses polling while errored and backs off exponentially; a board must come back on its own promptly.
-    onErrorRetry: (_err, _key, _config, revalidate, { retryCount }) => {
-      setTimeout(() => revalidate({ retryCount }), 5_000);
-    },
-  });
+  const { data, error, mutate } = usePolled<BoardResponse>(key, pollMs, { fallbackData: initial, revalidateOnFocus: true });
   const board = data ?? initial;
   const [mine, setMine] = useState(false);
   const nurses = useSWR<{ nurses: { id: number; name: string }[] }>(me.role === 'charge' ? '/api/nurses' : null, fetchJson);

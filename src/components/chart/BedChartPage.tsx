@@ -9,18 +9,19 @@
  * the patient (`chartKeys(patientId).matches`).
  */
 import { useEffect, useMemo, useState } from 'react';
-import useSWR from 'swr';
 import type { ObsPage, ObsView, PatientDetail, SeriesResponse } from '~/lib/charting/api-types.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
 import { ApiClientError, fetchJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import DerivedFigures from './DerivedFigures.tsx';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import ObsRecordTable from './ObsRecordTable.tsx';
 import SaturationChart, { type ExtraSpo2Mark } from './SaturationChart.tsx';
 import TargetOrderPanel from './TargetOrderPanel.tsx';
 import { GasBias } from './BloodGasPanel.tsx';
-import { DEFAULT_WINDOW_HOURS, POLL_MS, chartKeys, errorText, fmtFio2, useRefreshChart, type WindowHours } from './chart-shared.tsx';
+import { DEFAULT_WINDOW_HOURS, POLL_MS, chartKeys, fmtFio2, useRefreshChart, type WindowHours } from './chart-shared.tsx';
+import { errorText } from '~/lib/client/use-form.ts';
 
 export interface BedChartPageProps {
   patientId: number;
@@ -37,8 +38,8 @@ export default function BedChartPage({ patientId, initial, chartSize, printedBy 
   const keys = chartKeys(patientId);
   const [hours, setHours] = useState<WindowHours>(DEFAULT_WINDOW_HOURS);
   const refresh = useRefreshChart(patientId);
-  const patientQ = useSWR<PatientDetail>(keys.patient, fetchJson, { fallbackData: initial?.patient, refreshInterval: PATIENT_POLL_MS });
-  const seriesQ = useSWR<SeriesResponse>(keys.series(hours), fetchJson, { refreshInterval: POLL_MS, keepPreviousData: true });
+  const patientQ = usePolled<PatientDetail>(keys.patient, PATIENT_POLL_MS, { fallbackData: initial?.patient });
+  const seriesQ = usePolled<SeriesResponse>(keys.series(hours), POLL_MS);
   const patient = patientQ.data;
   // Arterial blood gases: their measured SaO₂ as diamonds on the SpO₂ panel (ringed when occult hypoxaemia).
   const gasMarks = useMemo(() => ({ name: 'SaO₂ (blood gas)', marks: gasMarksOf(seriesQ.data) }), [seriesQ.data]);
@@ -128,7 +129,7 @@ function PrintHeader({ patient, hours, printedBy }: { patient: PatientDetail; ho
 /** Print only: every charted obs of the chart's window (all statuses), not one page of it. */
 function PrintObsRecord({ patientId, timeZone, from }: { patientId: number; timeZone: string; from: number | null }) {
   const key = from === null ? null : `/api/patients/${patientId}/observations?page=1&pageSize=200&print=${Math.floor(from / 60_000)}`;
-  const q = useSWR<ObsView[]>(key, async () => {
+  const q = usePolled<ObsView[]>(key, POLL_MS, { fetcher: async () => {
     const items: ObsView[] = [];
     for (let page = 1; page <= 20; page++) {
       const res = await fetchJson<ObsPage>(`/api/patients/${patientId}/observations?page=${page}&pageSize=200`);
@@ -137,7 +138,7 @@ function PrintObsRecord({ patientId, timeZone, from }: { patientId: number; time
       if (items.length >= res.total || !oldest || new Date(oldest.takenAt).getTime() < from!) break;
     }
     return items.filter((o) => new Date(o.takenAt).getTime() >= from!);
-  }, { refreshInterval: POLL_MS });
+  } });
   const rows = q.data ?? [];
   return (
     <section className="hidden print:block" data-testid="print-record" aria-label="Charted obs of the chart window">

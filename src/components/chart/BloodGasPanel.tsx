@@ -5,22 +5,24 @@
  * and shape. Pressures show in the unit's gas unit. The browser checks with the API's own schema.
  */
 import { useEffect, useId, useState, type FormEvent, type ReactNode } from 'react';
-import useSWR from 'swr';
 import type { BloodGasCreated, BloodGasList, BloodGasView, NearestSpo2 } from '~/lib/bloodgas/api-types.ts';
-import { bloodGasCorrectionSchema, bloodGasInputSchema, enteredInErrorSchema, SAMPLE_TYPE_LABELS } from '~/lib/bloodgas/bloodgas-input.ts';
+import { bloodGasCorrectionSchema, bloodGasInputSchema, SAMPLE_TYPE_LABELS } from '~/lib/bloodgas/bloodgas-input.ts';
 import { BERLIN_WORDS, formatGas, fromMmHg, SAMPLE_TYPES, type GasUnit } from '~/lib/bloodgas/compute.ts';
 import { formatInTimeZone } from 'date-fns-tz';
 import { clockIn, sampleInstant, unitDayOptions } from '~/lib/bloodgas/sample-time.ts';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
-import { POLL_MS, apiFieldErrors, chartKeys, errorText, fmtFio2, useRefreshChart, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
+import { POLL_MS, chartKeys, fmtFio2, useRefreshChart } from './chart-shared.tsx';
+import EnteredInErrorForm from './EnteredInErrorForm.tsx';
+import { errorText, useForm, zodFieldErrors, type FieldErrors } from '~/lib/client/use-form.ts';
 
 export const gasKey = (patientId: number) => `${chartKeys(patientId).patient}/blood-gases`;
 
 export interface BloodGasPanelProps { patientId: number; timeZone: string; canChart: boolean; now?: () => Date }
 
 export default function BloodGasPanel({ patientId, timeZone, canChart, now = () => new Date() }: BloodGasPanelProps) {
-  const { data, error } = useSWR<BloodGasList>(gasKey(patientId), fetchJson, { refreshInterval: POLL_MS, keepPreviousData: true });
+  const { data, error } = usePolled<BloodGasList>(gasKey(patientId), POLL_MS);
   const [message, setMessage] = useState('');
   return (
     <section aria-labelledby="gas-title" data-testid="blood-gases">
@@ -46,7 +48,7 @@ export default function BloodGasPanel({ patientId, timeZone, canChart, now = () 
 
 /** The patient's running SpO₂ bias, shown beside the band: a prompt for the intensivist, never an automatic change. */
 export function GasBias({ patientId }: { patientId: number }) {
-  const { data } = useSWR<BloodGasList>(gasKey(patientId), fetchJson, { refreshInterval: POLL_MS });
+  const { data } = usePolled<BloodGasList>(gasKey(patientId), POLL_MS);
   if (!data?.bias) return null;
   const m = data.bias.median;
   const over = m > 0;
@@ -102,6 +104,7 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
   const cell = (c: ReactNode) => (struck ? <s>{c}</s> : c);
   const occult = g.flags.includes('occult_hypoxaemia');
   const d = g.derived;
+  const refresh = useRefreshChart(patientId);
   return (
     <>
       <tr data-gas-id={g.id} data-status={g.status} data-occult={occult || undefined} className={`border-b border-ink-100 align-top dark:border-ink-800 ${occult && !struck ? 'bg-coral-50 dark:bg-coral-900/25' : ''}`}>
@@ -141,7 +144,7 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
         <tr className="border-b border-ink-100 dark:border-ink-800"><td colSpan={12} className="pb-1 text-xs text-ink-500 dark:text-ink-400">{d.notes.join(' · ')}</td></tr>
       )}
       {marking === 'error' && (
-        <tr><td colSpan={12} className="bg-ink-50 p-3 dark:bg-ink-950/40"><GasErrorForm gasId={g.id} patientId={patientId} onDone={() => onMark(null)} /></td></tr>
+        <tr><td colSpan={12} className="bg-ink-50 p-3 dark:bg-ink-950/40"><EnteredInErrorForm url={`/api/blood-gases/${g.id}/entered-in-error`} label="Mark blood gas entered in error" what="The gas" onDone={() => { onMark(null); void refresh(); }} onCancel={() => onMark(null)} /></td></tr>
       )}
       {marking === 'correct' && (
         <tr><td colSpan={12} className="bg-ink-50 p-3 dark:bg-ink-950/40">
@@ -152,31 +155,6 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
   );
 }
 
-function GasErrorForm({ gasId, patientId, onDone }: { gasId: number; patientId: number; onDone: () => void }) {
-  const uid = useId();
-  const refresh = useRefreshChart(patientId);
-  const [reason, setReason] = useState('');
-  const [err, setErr] = useState<string | null>(null);
-  async function submit(e: FormEvent) {
-    e.preventDefault();
-    const parsed = enteredInErrorSchema.safeParse({ reason });
-    if (!parsed.success) { setErr(parsed.error.issues[0]?.message ?? 'Give the reason'); return; }
-    try {
-      await postJson(`/api/blood-gases/${gasId}/entered-in-error`, parsed.data);
-      onDone();
-      void refresh();
-    } catch (x) { setErr(`Not saved: ${errorText(x)}`); }
-  }
-  return (
-    <form onSubmit={submit} noValidate className="max-w-xl" aria-label="Mark blood gas entered in error">
-      <p className="mb-1 text-sm">The gas stays in the record, struck through, with your name and reason.</p>
-      <label htmlFor={`${uid}-r`} className="block text-sm font-bold">Reason this entry is in error</label>
-      <input id={`${uid}-r`} className="field" value={reason} onChange={(e) => setReason(e.target.value)} aria-invalid={err ? true : undefined} aria-describedby={err ? `${uid}-e` : undefined} />
-      {err && <p id={`${uid}-e`} className="text-sm text-coral-700 dark:text-coral-300">{err}</p>}
-      <div className="mt-2 flex gap-2"><button className="btn-primary" type="submit">Mark entered in error</button><button className="btn-quiet" type="button" onClick={onDone}>Cancel</button></div>
-    </form>
-  );
-}
 
 type GasFieldName = 'day' | 'clock' | 'sampleType' | 'gasUnit' | 'ph' | 'pao2' | 'paco2' | 'sao2' | 'hco3' | 'baseExcess' | 'lactate' | 'hb' | 'fio2' | 'spo2AtSample' | 'note' | 'reason';
 
@@ -207,9 +185,7 @@ function GasForm({ patientId, timeZone, gasUnit, now = () => new Date(), onSaved
     if (!days.some((d) => d.value === day)) days.push({ value: day, label: formatInTimeZone(new Date(correcting.sampledAt), timeZone, 'd MMM') });
   }
   const [v, setV] = useState(() => (correcting ? fromGas(correcting) : blank()));
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [alert, setAlert] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
+  const { errors, setErrors, clearErrors, alert, busy, submit: run } = useForm();
   const [spo2Touched, setSpo2Touched] = useState(Boolean(correcting));
   const [nearestWords, setNearestWords] = useState<string>('');
 
@@ -233,13 +209,12 @@ function GasForm({ patientId, timeZone, gasUnit, now = () => new Date(), onSaved
   const set = (f: GasFieldName, value: string) => {
     if (f === 'spo2AtSample') { setSpo2Touched(true); setNearestWords(''); }
     setV((p) => ({ ...p, [f]: value }));
-    if (errors[f]) setErrors(({ [f]: _x, ...rest }) => rest);
+    clearErrors(f);
   };
 
   async function submit(e: FormEvent) {
     e.preventDefault();
     if (busy) return;
-    setAlert(null);
     const at = sampleInstant(v.day, v.clock, timeZone);
     if (!('at' in at)) { setErrors({ clock: at.error }); return; }
     const clean = (f: GasFieldName) => v[f].trim().replace(',', '.');
@@ -251,7 +226,7 @@ function GasForm({ patientId, timeZone, gasUnit, now = () => new Date(), onSaved
     let body: unknown;
     if (correcting) {
       const parsed = bloodGasCorrectionSchema(now()).safeParse({ reason: v.reason, gas: raw });
-      if (!parsed.success) { setErrors(mapTime(Object.fromEntries(Object.entries(zodFieldErrors(parsed.error)).map(([k, m]) => [k.replace(/^gas\./, ''), m])))); return; }
+      if (!parsed.success) { setErrors(gasFieldErrors(zodFieldErrors(parsed.error))); return; }
       url = `/api/blood-gases/${correcting.id}/correct`;
       body = { reason: parsed.data.reason, gas: { ...parsed.data.gas, sampledAt: parsed.data.gas.sampledAt.toISOString() } };
     } else {
@@ -260,18 +235,13 @@ function GasForm({ patientId, timeZone, gasUnit, now = () => new Date(), onSaved
       body = { ...parsed.data, sampledAt: parsed.data.sampledAt.toISOString() };
     }
     setErrors({});
-    setBusy(true);
-    try {
-      const res = await postJson<BloodGasCreated>(url, body);
-      const occult = res.flags.includes('occult_hypoxaemia');
-      onSaved(`${correcting ? 'Correction saved; the original stays, struck through' : 'Saved'}: gas of ${formatDayTime(res.bloodGas.sampledAt, timeZone)}${occult ? ' — occult hypoxaemia: SaO₂ under 88 % while SpO₂ read 92 % or more; a bedside task is raised' : ''}`);
-      setV(blank());
-      setSpo2Touched(false);
-      void refresh();
-    } catch (err) {
-      if (err instanceof ApiClientError) { setErrors(mapTime(Object.fromEntries(Object.entries(apiFieldErrors(err)).map(([k, m]) => [k.replace(/^gas\./, ''), m])))); setAlert(`Not saved: ${err.message}`); }
-      else setAlert(`Not saved: ${errorText(err)}`);
-    } finally { setBusy(false); }
+    const res = await run(() => postJson<BloodGasCreated>(url, body), { failurePrefix: 'Not saved: ', onRefused: (fields) => setErrors(gasFieldErrors(fields)) });
+    if (res === undefined) return;
+    const occult = res.flags.includes('occult_hypoxaemia');
+    onSaved(`${correcting ? 'Correction saved; the original stays, struck through' : 'Saved'}: gas of ${formatDayTime(res.bloodGas.sampledAt, timeZone)}${occult ? ' — occult hypoxaemia: SaO₂ under 88 % while SpO₂ read 92 % or more; a bedside task is raised' : ''}`);
+    setV(blank());
+    setSpo2Touched(false);
+    void refresh();
   }
 
   const err = (f: string) => errors[f] ? <p id={id(`${f}-e`)} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300" data-field-error={f}>{errors[f]}</p> : null;
@@ -333,6 +303,11 @@ function GasForm({ patientId, timeZone, gasUnit, now = () => new Date(), onSaved
       </div>
     </form>
   );
+}
+
+/** A correction's fields sit under `gas.`; the form's fields do not. */
+function gasFieldErrors(e: FieldErrors): FieldErrors {
+  return mapTime(Object.fromEntries(Object.entries(e).map(([k, m]) => [k.replace(/^gas\./, ''), m])));
 }
 
 /** The schema names the instant `sampledAt`; the form shows it as the clock field. */

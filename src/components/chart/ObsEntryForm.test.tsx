@@ -10,8 +10,11 @@ afterEach(() => {
   vi.unstubAllGlobals();
 });
 
-const savedObs = (body: Record<string, unknown>): ObsView =>
-  obs({ id: 555, takenAt: String(body.takenAt), spo2: (body.spo2 as number) ?? null, notices: (body.spo2 as number) < 70 ? ['Below calibrated range — confirm with arterial blood gas'] : [] });
+// A correction posts { reason, obs }; a new obs posts the obs itself.
+const savedObs = (posted: Record<string, unknown>): ObsView => {
+  const body = (posted.obs ?? posted) as Record<string, unknown>;
+  return obs({ id: 555, takenAt: String(body.takenAt), spo2: (body.spo2 as number) ?? null, notices: (body.spo2 as number) < 70 ? ['Below calibrated range — confirm with arterial blood gas'] : [] });
+};
 
 function setup(opts: { lastCharted?: ObsView | null; correcting?: ObsView; post?: (c: StubCall) => { status?: number; body: unknown }; timeZone?: string } = {}) {
   const post = opts.post ?? ((c: StubCall) => ({ status: 201, body: { observation: savedObs(c.body as Record<string, unknown>) } }));

@@ -27,9 +27,10 @@ import {
   obsInputSchema,
   obsNotices,
 } from '~/lib/charting/obs-input.ts';
-import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { postJson } from '~/lib/client/fetch-json.ts';
 import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '~/lib/oxygenation/types.ts';
-import { apiFieldErrors, errorText, formatClock, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
+import { formatClock } from './chart-shared.tsx';
+import { useForm, zodFieldErrors, type FieldErrors } from '~/lib/client/use-form.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
 import { parseWallEntry, toWallEntry } from '~/lib/time/wall-clock.ts';
 
@@ -103,10 +104,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   const formRef = useRef<HTMLFormElement>(null);
   const spo2Ref = useRef<HTMLInputElement>(null);
   const [values, setValues] = useState<Values>(() => initialValues(lastCharted, correcting, now(), timeZone));
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [formError, setFormError] = useState<string | null>(null);
-  const [status, setStatus] = useState('');
-  const [busy, setBusy] = useState(false);
+  const { errors, setErrors, clearErrors, alert: formError, status, setStatus, busy, submit: run } = useForm();
 
   const device = values.device as OxygenDevice | '';
   const showFlow = device !== '' && FLOW_DEVICES.includes(device);
@@ -125,7 +123,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
       }
       return next;
     });
-    if (errors[field]) setErrors(({ [field]: _dropped, ...rest }) => rest);
+    clearErrors(field);
     setStatus('');
   }
 
@@ -133,7 +131,7 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   function setTakenAgo(minutes: number) {
     const w = toWallEntry(now().getTime() - minutes * 60_000, timeZone);
     setValues((v) => ({ ...v, takenDate: w.date, takenAt: w.time }));
-    if (errors.takenAt || errors.takenDate) setErrors(({ takenAt: _a, takenDate: _b, ...rest }) => rest);
+    clearErrors('takenAt', 'takenDate');
     setStatus('');
   }
   const typedTaken = parseWallEntry({ date: values.takenDate, time: values.takenAt }, timeZone);
@@ -171,7 +169,6 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   async function submit(e: FormEvent) {
     e.preventDefault();
     if (busy) return;
-    setFormError(null);
     setStatus('');
     const at = now();
     const raw = rawObs();
@@ -205,9 +202,8 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
       body = { ...parsed.data, takenAt: parsed.data.takenAt.toISOString() };
     }
     setErrors({});
-    setBusy(true);
-    try {
-      const res = await postJson<{ observation: ObsView }>(url, body);
+    const res = await run(() => postJson<{ observation: ObsView }>(url, body), { failurePrefix: 'Not saved: ', onRefused: focusFirstError });
+    if (res !== undefined) {
       const saved = res?.observation;
       if (!correcting) {
         setValues((v) => {
@@ -221,17 +217,6 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
       const notes = saved?.notices?.length ? ` — ${saved.notices.join('; ')}` : '';
       setStatus(`Saved${saved ? `: obs at ${formatClock(saved.takenAt, timeZone)}` : ''}${notes}`);
       if (saved) onSaved?.(saved);
-    } catch (err) {
-      if (err instanceof ApiClientError) {
-        const errs = apiFieldErrors(err);
-        setErrors(errs);
-        setFormError(`Not saved: ${err.message}`);
-        focusFirstError(errs);
-      } else {
-        setFormError(`Not saved: ${errorText(err)}`);
-      }
-    } finally {
-      setBusy(false);
     }
   }
 

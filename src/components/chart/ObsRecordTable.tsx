@@ -4,28 +4,15 @@
  * replaced it. Current charted rows can be corrected (the entry form, prefilled, with a reason)
  * or marked entered in error (with a reason) by those who may chart.
  */
-import { useId, useState, type FormEvent, type ReactNode } from 'react';
-import useSWR from 'swr';
+import { useState, type ReactNode } from 'react';
 import type { ObsPage, ObsView, OrderView } from '~/lib/charting/api-types.ts';
-import { CONSCIOUSNESS_LABELS, DEVICE_LABELS, enteredInErrorSchema } from '~/lib/charting/obs-input.ts';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { CONSCIOUSNESS_LABELS, DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import ObsEntryForm from './ObsEntryForm.tsx';
-import {
-  OBS_PAGE_SIZE,
-  POLL_MS,
-  StateBadge,
-  StateIcon,
-  TRACE_WORDS,
-  bandStateOf,
-  chartKeys,
-  errorText,
-  fmtFio2,
-  fmtNum,
-  formatDateTime,
-  orderAt,
-  useRefreshChart,
-} from './chart-shared.tsx';
+import EnteredInErrorForm from './EnteredInErrorForm.tsx';
+import { OBS_PAGE_SIZE, POLL_MS, StateBadge, StateIcon, TRACE_WORDS, bandStateOf, chartKeys, fmtFio2, fmtNum, formatDateTime, orderAt, useRefreshChart } from './chart-shared.tsx';
+import { errorText } from '~/lib/client/use-form.ts';
 
 export interface ObsRecordTableProps {
   patientId: number;
@@ -56,7 +43,7 @@ export default function ObsRecordTable({ patientId, timeZone, canChart, orders =
   const [message, setMessage] = useState('');
   const refresh = useRefreshChart(patientId);
   const key = chartKeys(patientId).observations(page, pageSize);
-  const { data, error, isLoading } = useSWR<ObsPage>(key, fetchJson, { refreshInterval: POLL_MS, keepPreviousData: true });
+  const { data, error, isLoading } = usePolled<ObsPage>(key, POLL_MS);
 
   const total = data?.total ?? 0;
   const pages = Math.max(1, Math.ceil(total / pageSize));
@@ -130,7 +117,7 @@ export default function ObsRecordTable({ patientId, timeZone, canChart, orders =
                           onCancel={() => setAction(null)}
                         />
                       ) : (
-                        <EnteredInErrorForm obs={o} timeZone={timeZone} onDone={() => done('Marked entered in error')} onCancel={() => setAction(null)} />
+                        <EnteredInErrorForm url={`/api/observations/${o.id}/entered-in-error`} label={`Mark obs of ${formatDateTime(o.takenAt, timeZone)} entered in error`} what="The entry" onDone={() => done('Marked entered in error')} onCancel={() => setAction(null)} />
                       )
                     ) : null
                   }
@@ -247,55 +234,3 @@ function StatusWords({ o, timeZone, linkable }: { o: ObsView; timeZone: string; 
   );
 }
 
-function EnteredInErrorForm({ obs, timeZone, onDone, onCancel }: { obs: ObsView; timeZone: string; onDone: () => void; onCancel: () => void }) {
-  const uid = useId();
-  const [reason, setReason] = useState('');
-  const [fieldError, setFieldError] = useState<string | null>(null);
-  const [formError, setFormError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-
-  async function submit(e: FormEvent) {
-    e.preventDefault();
-    if (busy) return;
-    setFormError(null);
-    const parsed = enteredInErrorSchema.safeParse({ reason });
-    if (!parsed.success) {
-      setFieldError(parsed.error.issues[0]?.message ?? 'Give the reason this entry is in error');
-      return;
-    }
-    setFieldError(null);
-    setBusy(true);
-    try {
-      await postJson(`/api/observations/${obs.id}/entered-in-error`, parsed.data);
-      onDone();
-    } catch (err) {
-      if (err instanceof ApiClientError && err.fields.reason) setFieldError(err.fields.reason);
-      setFormError(`Not saved: ${errorText(err)}`);
-    } finally {
-      setBusy(false);
-    }
-  }
-
-  return (
-    <form onSubmit={submit} noValidate aria-label={`Mark obs of ${formatDateTime(obs.takenAt, timeZone)} entered in error`} className="max-w-xl">
-      <p className="mb-2 text-sm">The entry stays in the record, struck through, with your name and reason.</p>
-      <label htmlFor={`${uid}-reason`} className="mb-0.5 block text-sm font-bold">Reason this entry is in error</label>
-      <input
-        id={`${uid}-reason`}
-        className="field"
-        value={reason}
-        autoComplete="off"
-        autoFocus
-        aria-invalid={fieldError ? true : undefined}
-        aria-describedby={fieldError ? `${uid}-reason-error` : undefined}
-        onChange={(e) => setReason(e.target.value)}
-      />
-      {fieldError && <p id={`${uid}-reason-error`} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300">{fieldError}</p>}
-      {formError && <p role="alert" className="mt-1 text-sm text-coral-800 dark:text-coral-200">{formError}</p>}
-      <div className="mt-2 flex gap-2">
-        <button type="submit" className="btn-primary" disabled={busy}>Mark entered in error</button>
-        <button type="button" className="btn-quiet" onClick={onCancel}>Cancel</button>
-      </div>
-    </form>
-  );
-}

@@ -18,7 +18,8 @@ import { valuesAt, type ValuesAt } from '~/lib/charting/chart-values.ts';
 import { CALIBRATED_FLOOR_PCT, DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { formatClock, formatDayTime } from '~/lib/time/format.ts';
 import { CHART_COLOURS, type ChartColours } from '~/lib/ui/chart-palette.ts';
-import { StateBadge, StateIcon, WINDOW_HOURS, bandStateOf, bandStateWord, errorText, fmtFio2, type BandState, type WindowHours } from './chart-shared.tsx';
+import { StateBadge, StateIcon, WINDOW_HOURS, bandStateOf, bandStateWord, fmtFio2, type BandState, type WindowHours } from './chart-shared.tsx';
+import { errorText } from '~/lib/client/use-form.ts';
 
 /** An extra set of marks on the SpO₂ panel (e.g. measured SaO₂ from blood gases). */
 export interface ExtraSpo2Mark {

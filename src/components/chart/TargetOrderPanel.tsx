@@ -8,14 +8,15 @@
  * history is then refreshed and the writer asked to check it and order again.
  */
 import { useId, useState, type FormEvent } from 'react';
-import useSWR from 'swr';
 import type { OrderView } from '~/lib/charting/api-types.ts';
 import { SCALE2_MAX_HIGH, TARGET_PRESETS, targetOrderSchema } from '~/lib/charting/target-input.ts';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import type { BloodGasList } from '~/lib/bloodgas/api-types.ts';
 import { formatGas, supportsScale2 } from '~/lib/bloodgas/compute.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
-import { POLL_MS, apiFieldErrors, chartKeys, errorText, formatDateTime, useRefreshChart, zodFieldErrors, type FieldErrors } from './chart-shared.tsx';
+import { POLL_MS, chartKeys, formatDateTime, useRefreshChart } from './chart-shared.tsx';
+import { errorText, useForm, zodFieldErrors } from '~/lib/client/use-form.ts';
 
 export interface TargetOrderPanelProps {
   patientId: number;
@@ -42,8 +43,7 @@ const EMPTY: FormValues = { low: '', high: '', preset: null, reason: '', news2Sc
 
 export default function TargetOrderPanel({ patientId, timeZone, canOrder, initialOrders, co2RetentionRisk }: TargetOrderPanelProps) {
   const keys = chartKeys(patientId);
-  const { data, error } = useSWR<{ orders: OrderView[] }>(keys.targets, fetchJson, {
-    refreshInterval: POLL_MS,
+  const { data, error } = usePolled<{ orders: OrderView[] }>(keys.targets, POLL_MS, {
     fallbackData: initialOrders ? { orders: initialOrders } : undefined,
   });
   const orders = data?.orders ?? [];
@@ -100,7 +100,7 @@ export default function TargetOrderPanel({ patientId, timeZone, canOrder, initia
 
 /** Beside the Scale 2 choice: the most recent PaCO₂ and pH, or that no blood gas supports it (the decision stays with the intensivist). */
 function Scale2Gas({ patientId, timeZone }: { patientId: number; timeZone: string }) {
-  const { data } = useSWR<BloodGasList>(`${chartKeys(patientId).patient}/blood-gases`, fetchJson, { refreshInterval: POLL_MS });
+  const { data } = usePolled<BloodGasList>(`${chartKeys(patientId).patient}/blood-gases`, POLL_MS);
   if (!data) return null;
   const g = data.bloodGases.find((x) => x.status === 'current' && x.sampleType !== 'venous') ?? null;
   if (!g) return <p className="mt-1 text-sm font-bold" data-testid="scale2-gas">No blood gas supports Scale 2: no arterial or capillary PaCO₂ charted. The order will say so.</p>;
@@ -118,10 +118,7 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
   const id = (f: string) => `${uid}-${f}`;
   const refresh = useRefreshChart(patientId);
   const [v, setV] = useState<FormValues>(EMPTY);
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [alert, setAlert] = useState<string | null>(null);
-  const [status, setStatus] = useState('');
-  const [busy, setBusy] = useState(false);
+  const { errors, setErrors, clearErrors, alert, setAlert, status, setStatus, busy, submit: run } = useForm();
   /** The newest order on screen when editing began (undefined until the first edit). */
   const [basedOn, setBasedOn] = useState<number | null | undefined>(undefined);
 
@@ -140,15 +137,13 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
       if (p && (String(p.low) !== next.low.trim() || String(p.high) !== next.high.trim())) next.preset = null;
       return next;
     });
-    const touched = Object.keys(patch);
-    if (touched.some((k) => errors[k])) setErrors((e) => Object.fromEntries(Object.entries(e).filter(([k]) => !touched.includes(k))));
+    clearErrors(...Object.keys(patch));
     setStatus('');
   }
 
   async function submit(e: FormEvent) {
     e.preventDefault();
     if (busy) return;
-    setAlert(null);
     setStatus('');
     const based = basedOn !== undefined ? basedOn : newestId;
     const parsed = targetOrderSchema.safeParse({
@@ -165,27 +160,22 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
       return;
     }
     setErrors({});
-    setBusy(true);
-    try {
-      await postJson(chartKeys(patientId).targets, parsed.data);
-      setV(EMPTY);
-      setBasedOn(undefined);
-      setStatus(`Band ${parsed.data.low}–${parsed.data.high} % ordered`);
-      void refresh();
-    } catch (err) {
-      if (err instanceof ApiClientError && err.status === 409) {
-        setAlert(STALE_ORDER_MESSAGE);
-        setBasedOn(undefined);
-        void refresh();
-      } else if (err instanceof ApiClientError) {
-        setErrors(apiFieldErrors(err));
-        setAlert(`Not ordered: ${err.message}`);
-      } else {
-        setAlert(`Not ordered: ${errorText(err)}`);
-      }
-    } finally {
-      setBusy(false);
-    }
+    const ordered = await run(() => postJson(chartKeys(patientId).targets, parsed.data), {
+      failurePrefix: 'Not ordered: ',
+      onRefused: (_fields, err) => {
+        // Someone ordered a band since this form was opened: say so, and show theirs.
+        if (err instanceof ApiClientError && err.status === 409) {
+          setAlert(STALE_ORDER_MESSAGE);
+          setBasedOn(undefined);
+          void refresh();
+        }
+      },
+    });
+    if (ordered === undefined) return;
+    setV(EMPTY);
+    setBasedOn(undefined);
+    setStatus(`Band ${parsed.data.low}–${parsed.data.high} % ordered`);
+    void refresh();
   }
 
   const err = (f: string) =>

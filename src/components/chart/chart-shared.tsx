@@ -5,9 +5,7 @@
  */
 import { useCallback, useId } from 'react';
 import { useSWRConfig } from 'swr';
-import type { ZodError } from 'zod';
 import type { OrderView } from '~/lib/charting/api-types.ts';
-import { ApiClientError } from '~/lib/client/fetch-json.ts';
 import { formatClock as fmtClock, formatDayTime as fmtDayTime } from '~/lib/time/format.ts';
 
 export const POLL_MS = 15_000;
@@ -62,30 +60,6 @@ export const formatDateTime = (t: string | number | Date, timeZone: string) => f
 export const fmtFio2 = (f: number) => (Math.round(f * 100) / 100).toFixed(2);
 export const fmtNum = (v: number | null | undefined, digits = 0) =>
   v === null || v === undefined || !Number.isFinite(v) ? '—' : digits === 0 ? String(Math.round(v)) : v.toFixed(digits);
-
-// ── Field errors ─────────────────────────────────────────────────────────────────────────────
-export type FieldErrors = Record<string, string>;
-
-/** First message per top-level field (a path under `obs.` is folded onto the field itself). */
-export function zodFieldErrors(error: ZodError): FieldErrors {
-  const out: FieldErrors = {};
-  for (const issue of error.issues) {
-    const path = issue.path.filter((p) => p !== 'obs');
-    const key = path.length ? String(path[0]) : '_form';
-    if (!(key in out)) out[key] = issue.message;
-  }
-  return out;
-}
-
-/** The API's `fields` map ("spo2", "obs.spo2", "takenAt") onto the form's field names. */
-export function apiFieldErrors(err: ApiClientError): FieldErrors {
-  const out: FieldErrors = {};
-  for (const [path, message] of Object.entries(err.fields ?? {})) {
-    const key = path.replace(/^obs\./, '').split('.')[0] || '_form';
-    if (!(key in out)) out[key] = message;
-  }
-  return out;
-}
 
 // ── Band state ───────────────────────────────────────────────────────────────────────────────
 export type BandState = 'below' | 'in' | 'above' | 'untrusted' | 'no_band' | 'no_reading';
@@ -168,9 +142,3 @@ export const TRACE_WORDS: Record<string, string> = {
   noisy: 'noisy trace',
   absent: 'no trace',
 };
-
-export function errorText(err: unknown): string {
-  if (err instanceof ApiClientError) return err.message;
-  if (err instanceof Error) return err.message;
-  return String(err);
-}

@@ -1,8 +1,8 @@
 import { useState } from 'react';
-import useSWR from 'swr';
 import type { EscalationView } from '~/lib/server/escalations/service.ts';
 import { KIND_LABELS, OUTCOME_LABELS, OUTCOMES, type Outcome } from '~/lib/escalations/decide.ts';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatAge, formatDayTime, formatMinutes, formatWhen } from '~/lib/time/format.ts';
 
 /** An open escalation as the queue gets it: with the patient's SpO₂ now and its last 30 minutes. */
@@ -24,10 +24,7 @@ export default function EscalationQueue({ initial, me, unit: fixedUnit, units = 
   const q = new URLSearchParams({ state: tab, ...(unit ? { unit } : {}), ...(kind ? { kind } : {}) });
   const key = `/api/escalations?${q}`;
   const unfiltered = tab === 'open' && !unit && !kind;
-  const { data, error, mutate } = useSWR<Answer>(key, fetchJson, {
-    fallbackData: unfiltered ? initial : undefined, refreshInterval: pollMs, keepPreviousData: true,
-    onErrorRetry: (_e, _k, _c, revalidate, { retryCount }) => { setTimeout(() => revalidate({ retryCount }), 5_000); },
-  });
+  const { data, error, mutate } = usePolled<Answer>(key, pollMs, { fallbackData: unfiltered ? initial : undefined });
   const list = data?.escalations ?? [];
   const now = Date.parse(data?.generatedAt ?? initial.generatedAt);
   const canClaim = ['nurse', 'charge', 'outreach'].includes(me.role);

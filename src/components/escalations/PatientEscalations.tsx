@@ -1,15 +1,14 @@
-import useSWR from 'swr';
 import type { EscalationView } from '~/lib/server/escalations/service.ts';
-import { fetchJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatWhen } from '~/lib/time/format.ts';
+import { POLL_MS } from '~/components/chart/chart-shared.tsx';
 
 type List = { escalations: EscalationView[] };
 
 /** The patient's open escalations and prompts, above the bed chart; refreshed with it. */
 export default function PatientEscalations({ patientId, timeZone }: { patientId: number; timeZone: string }) {
-  const opts = { refreshInterval: 15_000 };
-  const acting = useSWR<List>(`/api/escalations?state=open&patient=${patientId}`, fetchJson, opts);
-  const wean = useSWR<List>(`/api/escalations?state=open&patient=${patientId}&kind=wean_prompt`, fetchJson, opts);
+  const acting = usePolled<List>(`/api/escalations?state=open&patient=${patientId}`, POLL_MS);
+  const wean = usePolled<List>(`/api/escalations?state=open&patient=${patientId}&kind=wean_prompt`, POLL_MS);
   const list = [...(acting.data?.escalations ?? []), ...(wean.data?.escalations ?? [])];
   if (list.length === 0) return null;
   const time = (iso: string) => formatWhen(iso, timeZone);

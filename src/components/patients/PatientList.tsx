@@ -2,6 +2,7 @@ import { useState, type FormEvent, type ReactElement } from 'react';
 import useSWR from 'swr';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatDateTime } from '~/lib/time/format.ts';
 
 interface Props { timeZone: string; unitCode: string; units: { code: string; name: string }[]; canAdmit: boolean }
@@ -11,7 +12,7 @@ interface BedsResponse { unit: { code: string; name: string }; beds: { id: numbe
 export default function PatientList({ timeZone, unitCode, units, canAdmit }: Props) {
   const [showDischarged, setShowDischarged] = useState(false);
   const listKey = `/api/patients?unit=${encodeURIComponent(unitCode)}&discharged=${showDischarged ? 'include' : 'exclude'}`;
-  const { data, error, mutate } = useSWR<{ patients: PatientSummary[] }>(listKey, fetchJson, { refreshInterval: 15_000 });
+  const { data, error, mutate } = usePolled<{ patients: PatientSummary[] }>(listKey, 15_000);
   const beds = useSWR<BedsResponse>(canAdmit ? `/api/units/${encodeURIComponent(unitCode)}/beds` : null, fetchJson);
   const [status, setStatus] = useState<string | null>(null);
 

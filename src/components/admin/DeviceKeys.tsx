@@ -69,17 +69,17 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
       )}
       {message && <p role="status" className="text-sm">{message}</p>}
 
-      <table className="w-full text-sm" data-testid="device-key-table">
-        <thead><tr className="text-left text-ink-500"><th className="py-1">Key</th><th>Bed</th><th>Gateway</th><th>Created</th><th>Last used</th><th>State</th><th /></tr></thead>
+      <table className="stack-table w-full text-sm" data-testid="device-key-table">
+        <thead><tr className="text-left text-ink-500"><th className="py-1">Key</th><th>Bed</th><th>Gateway</th><th>Created</th><th>Last used</th><th>State</th><th><span className="sr-only">Actions</span></th></tr></thead>
         <tbody>
           {data.keys.map((k) => (
             <tr key={k.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-              <td className="py-1.5 font-mono">{k.prefix}…</td>
-              <td>{k.bed.label} <span className="text-ink-500">{k.bed.unitCode}</span></td>
-              <td>{k.label}</td>
-              <td>{when(k.createdAt)}{k.createdBy ? ` by ${k.createdBy}` : ''}</td>
-              <td>{when(k.lastUsedAt)}</td>
-              <td>{k.revokedAt ? <span>revoked {when(k.revokedAt)}{k.revokedBy ? ` by ${k.revokedBy}` : ''}: {k.revokeReason}</span> : 'live'}</td>
+              <td data-label="Key" className="py-1.5 font-mono">{k.prefix}…</td>
+              <td data-label="Bed">{k.bed.label} <span className="text-ink-500">{k.bed.unitCode}</span></td>
+              <td data-label="Gateway">{k.label}</td>
+              <td data-label="Created">{when(k.createdAt)}{k.createdBy ? ` by ${k.createdBy}` : ''}</td>
+              <td data-label="Last used">{when(k.lastUsedAt)}</td>
+              <td data-label="State">{k.revokedAt ? <span>revoked {when(k.revokedAt)}{k.revokedBy ? ` by ${k.revokedBy}` : ''}: {k.revokeReason}</span> : 'live'}</td>
               <td>
                 {!k.revokedAt && revoking !== k.id && <button type="button" className="btn-quiet" onClick={() => { setRevoking(k.id); setReason(''); }}>Revoke</button>}
                 {revoking === k.id && (

@@ -77,13 +77,13 @@ export default function Hl7Gateways() {
               <span className="text-sm">{g.revokedAt ? `revoked ${when(g.revokedAt)}${g.revokedBy ? ` by ${g.revokedBy}` : ''}: ${g.revokeReason}` : 'live'}</span>
             </div>
             <p className="text-sm text-ink-600 dark:text-ink-300">Registered {when(g.createdAt)}{g.createdBy ? ` by ${g.createdBy}` : ''}; last message {when(g.lastMessageAt)}</p>
-            <table className="mt-2 w-full text-sm">
-              <thead><tr className="text-left text-ink-600 dark:text-ink-300"><th className="py-1">PV1-3 as sent</th><th>Bed</th><th /></tr></thead>
+            <table className="stack-table mt-2 w-full text-sm" data-testid="gateway-beds">
+              <thead><tr className="text-left text-ink-600 dark:text-ink-300"><th className="py-1">PV1-3 as sent</th><th>Bed</th><th><span className="sr-only">Actions</span></th></tr></thead>
               <tbody>
                 {g.beds.map((b) => (
                   <tr key={b.id} className="border-t border-ink-100 dark:border-ink-800">
-                    <td className="py-1 font-mono">{b.bedName}</td>
-                    <td>{b.bed.label} <span className="text-ink-600 dark:text-ink-300">{b.bed.unitCode}</span></td>
+                    <td data-label="PV1-3 as sent" className="py-1 font-mono">{b.bedName}</td>
+                    <td data-label="Bed">{b.bed.label} <span className="text-ink-600 dark:text-ink-300">{b.bed.unitCode}</span></td>
                     <td>{!g.revokedAt && <button type="button" className="btn-quiet" onClick={() => void run(() => deleteJson(`/api/admin/hl7-gateways/${g.id}/beds/${b.id}`), `Bed name ${b.bedName} unmapped.`)}>Unmap</button>}</td>
                   </tr>
                 ))}

@@ -59,9 +59,9 @@ export default function UserTable({ timeZone }: { timeZone: string }) {
       </form>
       {message && <p role="status" data-testid="staff-message" className="mb-3 rounded bg-glass-50 p-2 dark:bg-glass-900/40">{message}</p>}
       <div className="overflow-x-auto">
-      <table className="w-full text-sm" data-testid="user-table">
+      <table className="stack-table w-full text-sm" data-testid="user-table">
         <thead>
-          <tr className="text-left text-ink-500 dark:text-ink-300"><th className="py-1">Name</th><th>E-mail</th><th>Role</th><th>Unit</th><th>Access</th><th>Sign-in</th><th /></tr>
+          <tr className="text-left text-ink-500 dark:text-ink-300"><th className="py-1">Name</th><th>E-mail</th><th>Role</th><th>Unit</th><th>Access</th><th>Sign-in</th><th><span className="sr-only">Actions</span></th></tr>
         </thead>
         <tbody>
           {data.users.map((user) => {
@@ -69,18 +69,18 @@ export default function UserTable({ timeZone }: { timeZone: string }) {
             const isEditing = editing === user.id;
             return (
               <tr key={user.id} className="border-t border-ink-100 align-top dark:border-ink-800" data-testid={`user-${user.email}`}>
-                <td className="py-1.5">{user.name}</td>
-                <td>{user.email}</td>
-                <td>{isEditing
+                <td data-label="Name" className="py-1.5">{user.name}</td>
+                <td data-label="E-mail">{user.email}</td>
+                <td data-label="Role">{isEditing
                   ? <select aria-label="New role" className="field" value={edit.role} onChange={(e) => setEdit({ ...edit, role: e.target.value as Role })}>{ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}</select>
                   : ROLE_LABELS[user.role]}</td>
-                <td>{isEditing
+                <td data-label="Unit">{isEditing
                   ? (needsUnit(edit.role) ? unitSelect(edit.unitCode, (v) => setEdit({ ...edit, unitCode: v }), `unit-${user.id}`) : 'all units')
                   : user.unit_code ?? 'all units'}</td>
-                <td>{user.active
+                <td data-label="Access">{user.active
                   ? (user.must_change_password ? 'active · password not yet chosen' : 'active')
                   : <strong>deactivated{user.deactivated_at ? ` ${formatDayTime(user.deactivated_at, timeZone)}` : ''}</strong>}</td>
-                <td>{locked ? <strong>locked until {formatDayTime(user.locked_until!, timeZone)}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : user.last_signin_at ? `last ${formatDayTime(user.last_signin_at, timeZone)}` : 'never'}</td>
+                <td data-label="Sign-in">{locked ? <strong>locked until {formatDayTime(user.locked_until!, timeZone)}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : user.last_signin_at ? `last ${formatDayTime(user.last_signin_at, timeZone)}` : 'never'}</td>
                 <td className="space-x-1 whitespace-nowrap py-1">
                   {isEditing ? (
                     <>

@@ -195,16 +195,16 @@ export default function TrendUpload({ patientId, canChart }: Props) {
       {error && <p role="alert">Could not load imports: {String((error as Error).message)}</p>}
       {data && data.imports.length === 0 && <p className="text-sm text-ink-500">None yet.</p>}
       {data && data.imports.length > 0 && (
-        <table className="mt-2 w-full text-sm" data-testid="import-list">
-          <thead><tr className="text-left text-ink-500"><th className="py-1">File</th><th>Readings</th><th>Span</th><th>Committed</th><th>State</th><th /></tr></thead>
+        <table className="stack-table mt-2 w-full text-sm" data-testid="import-list">
+          <thead><tr className="text-left text-ink-500"><th className="py-1">File</th><th>Readings</th><th>Span</th><th>Committed</th><th>State</th><th><span className="sr-only">Actions</span></th></tr></thead>
           <tbody>
             {data.imports.map((imp) => (
               <tr key={imp.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-                <td className="py-1.5">{imp.fileName}<br /><span className="font-mono text-xs text-ink-500">{imp.fileHash.slice(0, 12)}…</span></td>
-                <td>{formatCount(imp.rowsStored)} stored{imp.rowsSkipped ? `, ${imp.rowsSkipped} skipped` : ''}{imp.rowsRefused ? `, ${imp.rowsRefused} refused` : ''}</td>
-                <td>{when(imp.firstAt, timeZone)} – {when(imp.lastAt, timeZone)}</td>
-                <td>{when(imp.committedAt, timeZone)} by {imp.committedBy}</td>
-                <td>{imp.withdrawnAt
+                <td data-label="File" className="py-1.5">{imp.fileName}<br /><span className="font-mono text-xs text-ink-500">{imp.fileHash.slice(0, 12)}…</span></td>
+                <td data-label="Readings">{formatCount(imp.rowsStored)} stored{imp.rowsSkipped ? `, ${imp.rowsSkipped} skipped` : ''}{imp.rowsRefused ? `, ${imp.rowsRefused} refused` : ''}</td>
+                <td data-label="Span">{when(imp.firstAt, timeZone)} – {when(imp.lastAt, timeZone)}</td>
+                <td data-label="Committed">{when(imp.committedAt, timeZone)} by {imp.committedBy}</td>
+                <td data-label="State">{imp.withdrawnAt
                   ? <span className={imp.withdrawnAt ? 'line-through decoration-1' : ''} title={imp.withdrawReason ?? ''}>withdrawn {when(imp.withdrawnAt, timeZone)} by {imp.withdrawnBy}: {imp.withdrawReason}</span>
                   : 'standing'}</td>
                 <td>
@@ -273,13 +273,13 @@ function PreviewPanel({ preview, timeZone, busy, onCommit, onUnmap }: { preview:
         </div>
       ))}
       {preview.refused.count > 0 && (
-        <table className="mt-2 w-full text-sm" data-testid="refused-groups">
+        <table className="stack-table mt-2 w-full text-sm" data-testid="refused-groups">
           <caption className="text-left font-bold">Refused rows by reason ({n(preview.refused.count)})</caption>
           <thead><tr className="text-left text-ink-500"><th>Reason</th><th className="w-20 text-right">Rows</th><th className="pl-4">First lines</th></tr></thead>
           <tbody>{preview.refused.groups.map((g) => (
             <tr key={g.reason} className="border-t border-ink-100 dark:border-ink-800">
-              <td>{g.reason}</td><td className="text-right tabular-nums">{n(g.count)}</td>
-              <td className="pl-4">{g.firstLines.join(', ')}{g.count > g.firstLines.length ? ', …' : ''}</td>
+              <td data-label="Reason">{g.reason}</td><td data-label="Rows" className="text-right tabular-nums">{n(g.count)}</td>
+              <td data-label="First lines" className="pl-4">{g.firstLines.join(', ')}{g.count > g.firstLines.length ? ', …' : ''}</td>
             </tr>
           ))}</tbody>
         </table>

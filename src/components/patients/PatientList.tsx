@@ -39,15 +39,15 @@ export default function PatientList({ timeZone, unitCode, units, canAdmit }: Pro
         {!data && !error && <p>Loading…</p>}
         {data && data.patients.length === 0 && <p className="text-ink-500">No patients.</p>}
         {data && data.patients.length > 0 && (
-          <table className="w-full text-sm" data-testid="patient-table">
-            <thead><tr className="text-left text-ink-500"><th className="py-1">Bed</th><th>Patient</th><th>Band</th><th>Admitted</th><th /></tr></thead>
+          <table className="stack-table w-full text-sm" data-testid="patient-table">
+            <thead><tr className="text-left text-ink-500"><th className="py-1">Bed</th><th>Patient</th><th>Band</th><th>Admitted</th><th><span className="sr-only">Actions</span></th></tr></thead>
             <tbody>
               {data.patients.map((p) => (
                 <tr key={p.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-                  <td className="py-2 font-mono">{p.bed?.label ?? <span className="text-ink-400">discharged</span>}</td>
-                  <td><a className="font-bold underline" href={`/patients/${p.id}`}>{p.familyName}, {p.givenName}</a> <span className="text-ink-500">{p.mrn}{p.co2RetentionRisk ? ' · CO₂ retention risk' : ''}</span></td>
-                  <td>{p.band ? `${p.band.low}–${p.band.high} %` : <strong>no band ordered</strong>}</td>
-                  <td>{p.admittedAt ? formatDateTime(p.admittedAt, timeZone) : ''}</td>
+                  <td data-label="Bed" className="py-2 font-mono">{p.bed?.label ?? <span className="text-ink-400">discharged</span>}</td>
+                  <td data-label="Patient"><a className="font-bold underline" href={`/patients/${p.id}`}>{p.familyName}, {p.givenName}</a> <span className="text-ink-500">{p.mrn}{p.co2RetentionRisk ? ' · CO₂ retention risk' : ''}</span></td>
+                  <td data-label="Band">{p.band ? `${p.band.low}–${p.band.high} %` : <strong>no band ordered</strong>}</td>
+                  <td data-label="Admitted">{p.admittedAt ? formatDateTime(p.admittedAt, timeZone) : ''}</td>
                   <td>{canAdmit && p.bed && <StayActions patient={p} units={units} currentUnit={unitCode} onDone={refresh} />}</td>
                 </tr>
               ))}

@@ -69,6 +69,7 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
       )}
       {message && <p role="status" className="text-sm">{message}</p>}
 
+      {data.keys.length === 0 && <p data-testid="no-device-keys">No device keys yet: readings posted to /api/ingest are refused until a key is made for a bed.</p>}
       <table className="stack-table w-full text-sm" data-testid="device-key-table">
         <thead><tr className="text-left text-ink-500"><th className="py-1">Key</th><th>Bed</th><th>Gateway</th><th>Created</th><th>Last used</th><th>State</th><th><span className="sr-only">Actions</span></th></tr></thead>
         <tbody>

@@ -29,7 +29,10 @@ cleanup() {
   trap - EXIT INT TERM
   [ -n "${APP_PID:-}" ] && kill "$APP_PID" 2>/dev/null || true
   for pid in ${EXTRA_PIDS:-}; do kill "$pid" 2>/dev/null || true; done
-  wait 2>/dev/null || true
+  # Wait only for what we just stopped: a bare `wait` would also wait for mariadbd, which ignores
+  # the terminal's SIGINT, so Ctrl-C would hang before stop_mariadb.
+  # shellcheck disable=SC2086
+  wait ${APP_PID:-} ${EXTRA_PIDS:-} 2>/dev/null || true
   stop_mariadb
 }
 trap cleanup EXIT INT TERM

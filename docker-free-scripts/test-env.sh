@@ -64,7 +64,7 @@ node --import tsx docker-free-scripts/seed-if-empty.ts
 # The MLLP listener is its own process (see docker-free-scripts/mllp.ts); it needs the migrated database.
 node --import tsx docker-free-scripts/mllp.ts >"var/mllp-$TEST_APP_PORT.log" 2>&1 &
 EXTRA_PIDS="${EXTRA_PIDS:-} $!"
-for _ in $(seq 1 100); do
+for _ in $(seq 1 300); do # up to 60 s: tsx compiles it first, slow on a busy 2-core machine
   grep -q "HL7 v2 listener on" "var/mllp-$TEST_APP_PORT.log" 2>/dev/null && break
   sleep 0.2
 done

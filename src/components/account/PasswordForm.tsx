@@ -1,5 +1,6 @@
 import { useEffect, useState } from 'react';
-import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import type { Strength } from '~/lib/auth/password-policy.ts';
 
 type PolicyModule = typeof import('~/lib/auth/password-policy.ts');
@@ -17,9 +18,7 @@ export default function PasswordForm({ mode, token, email, required }: Props) {
   const [next, setNext] = useState('');
   const [again, setAgain] = useState('');
   const [policy, setPolicy] = useState<PolicyModule | null>(null);
-  const [busy, setBusy] = useState(false);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const { errors, setErrors, alert: message, busy, submit: run } = useForm();
   const [done, setDone] = useState(false);
 
   useEffect(() => { void loadPolicy().then(setPolicy); }, []);
@@ -30,23 +29,17 @@ export default function PasswordForm({ mode, token, email, required }: Props) {
   async function submit(event: React.FormEvent) {
     event.preventDefault();
     setErrors({});
-    setMessage(null);
     if (next !== again) { setErrors({ again: 'The two passwords differ' }); return; }
-    setBusy(true);
-    try {
-      if (mode === 'link') await postJson('/api/account/password-link', { token, password: next });
-      else await postJson('/api/account/password', { currentPassword: current, newPassword: next });
-      setDone(true);
-    } catch (err) {
-      if (err instanceof ApiClientError) {
-        const fields = { ...err.fields };
-        if (fields.password) { fields.newPassword = fields.password; delete fields.password; }
-        setErrors(fields);
-        setMessage(err.message);
-      } else setMessage(String(err));
-    } finally {
-      setBusy(false);
-    }
+    const changed = await run(
+      () => (mode === 'link'
+        ? postJson('/api/account/password-link', { token, password: next })
+        : postJson('/api/account/password', { currentPassword: current, newPassword: next })),
+      {
+        // The link route names the new password `password`; this form calls it `newPassword`.
+        onRefused: ({ password, ...rest }) => setErrors(password ? { ...rest, newPassword: password } : rest),
+      },
+    );
+    if (changed !== undefined) setDone(true);
   }
 
   if (done) {

@@ -70,19 +70,19 @@ export default function AuditReader({ units }: { units: { code: string; name: st
             </span>
           </div>
           <div className="overflow-x-auto">
-          <table className="w-full text-sm" data-testid="audit-table">
+          <table className="stack-table w-full text-sm" data-testid="audit-table">
             <thead><tr className="text-left text-ink-500 dark:text-ink-300"><th className="py-1">When</th><th>Who</th><th>Action</th><th>What</th><th>Before</th><th>After</th></tr></thead>
             <tbody>
               {data.rows.map((r) => {
                 const changed = changedKeys(r.before, r.after);
                 return (
                   <tr key={r.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-                    <td className="whitespace-nowrap py-1.5">{r.atLocal}</td>
-                    <td>{r.actorName ?? 'system'}</td>
-                    <td className="font-mono text-xs">{r.action}</td>
-                    <td>{r.entity} {r.entityId}</td>
-                    <td><Side value={r.before} changed={changed} /></td>
-                    <td><Side value={r.after} changed={changed} /></td>
+                    <td data-label="When" className="whitespace-nowrap py-1.5">{r.atLocal}</td>
+                    <td data-label="Who">{r.actorName ?? 'system'}</td>
+                    <td data-label="Action" className="font-mono text-xs">{r.action}</td>
+                    <td data-label="What">{r.entity} {r.entityId}</td>
+                    <td data-label="Before"><Side value={r.before} changed={changed} /></td>
+                    <td data-label="After"><Side value={r.after} changed={changed} /></td>
                   </tr>
                 );
               })}

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import useSWR from 'swr';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { formatDateTime } from '~/lib/time/format.ts';
 import type { DeviceKeyView } from '~/lib/devices/api-types.ts';
 
@@ -15,7 +16,8 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
   const [bedId, setBedId] = useState('');
   const [label, setLabel] = useState('');
   const [fresh, setFresh] = useState<{ key: string; label: string; bed: string } | null>(null);
-  const [message, setMessage] = useState<string | null>(null);
+  const actions = useForm();
+  const message = actions.alert ?? actions.status;
   const [revoking, setRevoking] = useState<number | null>(null);
   const [reason, setReason] = useState('');
   if (error) return <p role="alert">Could not load device keys: {String((error as Error).message)}</p>;
@@ -25,27 +27,17 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
 
   async function create(e: React.FormEvent) {
     e.preventDefault();
-    setMessage(null);
-    try {
-      const res = await postJson<{ key: string; deviceKey: DeviceKeyView }>('/api/admin/device-keys', { bedId: Number(bedId), label });
-      setFresh({ key: res.key, label: res.deviceKey.label, bed: res.deviceKey.bed.label });
-      setLabel('');
-      await mutate();
-    } catch (err) {
-      setMessage((err as Error).message);
-    }
+    const res = await actions.submit(() => postJson<{ key: string; deviceKey: DeviceKeyView }>('/api/admin/device-keys', { bedId: Number(bedId), label }));
+    if (res === undefined) return;
+    setFresh({ key: res.key, label: res.deviceKey.label, bed: res.deviceKey.bed.label });
+    setLabel('');
+    await mutate();
   }
 
   async function revoke(id: number) {
-    try {
-      await postJson(`/api/admin/device-keys/${id}/revoke`, { reason });
-      setRevoking(null);
-      setReason('');
-      setMessage(`Key ${id} revoked: its gateway is refused from now on.`);
-      await mutate();
-    } catch (err) {
-      setMessage((err as Error).message);
-    }
+    if (!await actions.act(`Key ${id} revoked: its gateway is refused from now on.`, () => postJson(`/api/admin/device-keys/${id}/revoke`, { reason }), { after: mutate })) return;
+    setRevoking(null);
+    setReason('');
   }
 
   return (
@@ -77,17 +69,18 @@ export default function DeviceKeys({ timeZone }: { timeZone: string }) {
       )}
       {message && <p role="status" className="text-sm">{message}</p>}
 
-      <table className="w-full text-sm" data-testid="device-key-table">
-        <thead><tr className="text-left text-ink-500"><th className="py-1">Key</th><th>Bed</th><th>Gateway</th><th>Created</th><th>Last used</th><th>State</th><th /></tr></thead>
+      {data.keys.length === 0 && <p data-testid="no-device-keys">No device keys yet: readings posted to /api/ingest are refused until a key is made for a bed.</p>}
+      <table className="stack-table w-full text-sm" data-testid="device-key-table">
+        <thead><tr className="text-left text-ink-500"><th className="py-1">Key</th><th>Bed</th><th>Gateway</th><th>Created</th><th>Last used</th><th>State</th><th><span className="sr-only">Actions</span></th></tr></thead>
         <tbody>
           {data.keys.map((k) => (
             <tr key={k.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-              <td className="py-1.5 font-mono">{k.prefix}…</td>
-              <td>{k.bed.label} <span className="text-ink-500">{k.bed.unitCode}</span></td>
-              <td>{k.label}</td>
-              <td>{when(k.createdAt)}{k.createdBy ? ` by ${k.createdBy}` : ''}</td>
-              <td>{when(k.lastUsedAt)}</td>
-              <td>{k.revokedAt ? <span>revoked {when(k.revokedAt)}{k.revokedBy ? ` by ${k.revokedBy}` : ''}: {k.revokeReason}</span> : 'live'}</td>
+              <td data-label="Key" className="py-1.5 font-mono">{k.prefix}…</td>
+              <td data-label="Bed">{k.bed.label} <span className="text-ink-500">{k.bed.unitCode}</span></td>
+              <td data-label="Gateway">{k.label}</td>
+              <td data-label="Created">{when(k.createdAt)}{k.createdBy ? ` by ${k.createdBy}` : ''}</td>
+              <td data-label="Last used">{when(k.lastUsedAt)}</td>
+              <td data-label="State">{k.revokedAt ? <span>revoked {when(k.revokedAt)}{k.revokedBy ? ` by ${k.revokedBy}` : ''}: {k.revokeReason}</span> : 'live'}</td>
               <td>
                 {!k.revokedAt && revoking !== k.id && <button type="button" className="btn-quiet" onClick={() => { setRevoking(k.id); setReason(''); }}>Revoke</button>}
                 {revoking === k.id && (

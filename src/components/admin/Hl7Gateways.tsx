@@ -1,21 +1,16 @@
 import { useState } from 'react';
 import useSWR from 'swr';
-import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { deleteJson, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import type { GatewayList, GatewayView } from '~/lib/hl7/api-types.ts';
 import { formatDateTime } from '~/lib/time/format.ts';
-
-async function deleteJson(url: string) {
-  const res = await fetch(url, { method: 'DELETE', headers: { accept: 'application/json' }, credentials: 'same-origin' });
-  const body = await res.json().catch(() => null);
-  if (!res.ok) throw new Error(body?.error?.message ?? `Request failed (${res.status})`);
-  return body;
-}
 
 /** Admin: HL7 v2 gateways (known by MSH-3 / MSH-4) and their bed names (PV1-3) mapped to beds. */
 export default function Hl7Gateways() {
   const { data, error, mutate } = useSWR<GatewayList>('/api/admin/hl7-gateways', fetchJson);
   const [form, setForm] = useState({ label: '', sendingApplication: '', sendingFacility: '' });
-  const [message, setMessage] = useState<string | null>(null);
+  const actions = useForm();
+  const message = actions.alert ?? actions.status;
   const [revoking, setRevoking] = useState<number | null>(null);
   const [reason, setReason] = useState('');
   const [mapping, setMapping] = useState<Record<number, { bedName: string; bedId: string }>>({});
@@ -24,16 +19,8 @@ export default function Hl7Gateways() {
   const when = (iso: string | null) => (iso ? formatDateTime(iso, data.timeZone) : '—');
   const units = [...new Set(data.beds.map((b) => b.unitName))];
 
-  async function run(work: () => Promise<unknown>, done: string) {
-    setMessage(null);
-    try {
-      await work();
-      setMessage(done);
-      await mutate();
-    } catch (err) {
-      setMessage((err as Error).message);
-    }
-  }
+  const run = (work: () => Promise<unknown>, done: string) => actions.act(done, work, { after: mutate });
+
 
   const bedForm = (g: GatewayView) => {
     const m = mapping[g.id] ?? { bedName: '', bedId: '' };
@@ -41,7 +28,7 @@ export default function Hl7Gateways() {
     return (
       <form className="mt-2 flex flex-wrap items-end gap-2" onSubmit={(e) => {
         e.preventDefault();
-        void run(() => postJson(`/api/admin/hl7-gateways/${g.id}/beds`, { bedName: m.bedName, bedId: Number(m.bedId) }), `Bed name ${m.bedName} mapped.`).then(() => set({ bedName: '' }));
+        void run(() => postJson(`/api/admin/hl7-gateways/${g.id}/beds`, { bedName: m.bedName, bedId: Number(m.bedId) }), `Bed name ${m.bedName} mapped.`).then((ok) => ok && set({ bedName: '' }));
       }}>
         <label className="text-sm font-bold">Bed name as sent in PV1-3
           <input className="field mt-1 w-48 font-mono" value={m.bedName} onChange={(e) => set({ bedName: e.target.value })} required maxLength={120} placeholder="ICU4^^B03" />
@@ -66,7 +53,7 @@ export default function Hl7Gateways() {
       </p>
       <form className="flex flex-wrap items-end gap-3" onSubmit={(e) => {
         e.preventDefault();
-        void run(() => postJson('/api/admin/hl7-gateways', form), `Gateway ${form.label} registered: map its bed names below.`).then(() => setForm({ label: '', sendingApplication: '', sendingFacility: '' }));
+        void run(() => postJson('/api/admin/hl7-gateways', form), `Gateway ${form.label} registered: map its bed names below.`).then((ok) => ok && setForm({ label: '', sendingApplication: '', sendingFacility: '' }));
       }}>
         <label className="text-sm font-bold">Gateway
           <input className="field mt-1 w-56" value={form.label} onChange={(e) => setForm({ ...form, label: e.target.value })} required minLength={2} maxLength={80} placeholder="e.g. Level 4 monitor gateway" />
@@ -90,13 +77,13 @@ export default function Hl7Gateways() {
               <span className="text-sm">{g.revokedAt ? `revoked ${when(g.revokedAt)}${g.revokedBy ? ` by ${g.revokedBy}` : ''}: ${g.revokeReason}` : 'live'}</span>
             </div>
             <p className="text-sm text-ink-600 dark:text-ink-300">Registered {when(g.createdAt)}{g.createdBy ? ` by ${g.createdBy}` : ''}; last message {when(g.lastMessageAt)}</p>
-            <table className="mt-2 w-full text-sm">
-              <thead><tr className="text-left text-ink-600 dark:text-ink-300"><th className="py-1">PV1-3 as sent</th><th>Bed</th><th /></tr></thead>
+            <table className="stack-table mt-2 w-full text-sm" data-testid="gateway-beds">
+              <thead><tr className="text-left text-ink-600 dark:text-ink-300"><th className="py-1">PV1-3 as sent</th><th>Bed</th><th><span className="sr-only">Actions</span></th></tr></thead>
               <tbody>
                 {g.beds.map((b) => (
                   <tr key={b.id} className="border-t border-ink-100 dark:border-ink-800">
-                    <td className="py-1 font-mono">{b.bedName}</td>
-                    <td>{b.bed.label} <span className="text-ink-600 dark:text-ink-300">{b.bed.unitCode}</span></td>
+                    <td data-label="PV1-3 as sent" className="py-1 font-mono">{b.bedName}</td>
+                    <td data-label="Bed">{b.bed.label} <span className="text-ink-600 dark:text-ink-300">{b.bed.unitCode}</span></td>
                     <td>{!g.revokedAt && <button type="button" className="btn-quiet" onClick={() => void run(() => deleteJson(`/api/admin/hl7-gateways/${g.id}/beds/${b.id}`), `Bed name ${b.bedName} unmapped.`)}>Unmap</button>}</td>
                   </tr>
                 ))}
@@ -106,7 +93,7 @@ export default function Hl7Gateways() {
             {!g.revokedAt && bedForm(g)}
             {!g.revokedAt && revoking !== g.id && <button type="button" className="btn-quiet mt-2" onClick={() => { setRevoking(g.id); setReason(''); }}>Revoke gateway</button>}
             {revoking === g.id && (
-              <form className="mt-2 flex flex-wrap gap-2" onSubmit={(e) => { e.preventDefault(); void run(() => postJson(`/api/admin/hl7-gateways/${g.id}/revoke`, { reason }), `Gateway ${g.label} revoked: its messages are refused from now on.`).then(() => setRevoking(null)); }}>
+              <form className="mt-2 flex flex-wrap gap-2" onSubmit={(e) => { e.preventDefault(); void run(() => postJson(`/api/admin/hl7-gateways/${g.id}/revoke`, { reason }), `Gateway ${g.label} revoked: its messages are refused from now on.`).then((ok) => ok && setRevoking(null)); }}>
                 <input className="field" aria-label="Reason" placeholder="reason" value={reason} onChange={(e) => setReason(e.target.value)} required minLength={2} maxLength={200} />
                 <button type="submit" className="btn-primary">Revoke</button>
                 <button type="button" className="btn-quiet" onClick={() => setRevoking(null)}>Keep</button>

@@ -1,6 +1,7 @@
 import { useEffect, useState, type FormEvent } from 'react';
 import useSWR from 'swr';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 
 interface Settings { consecutiveCharted: number; deviceDwellMin: number; urgentMarginPoints: number; urgentFloorPct: number; cannotVerifyMin: number; aboveOnOxygenMin: number; renotifyMin: number; overdueMin: number; monitorSilentMin: number; silentBelowProbeMin: number; outreachEmails: string[]; unitPhone: string | null; gasUnit: 'kPa' | 'mmHg'; barometricMmHg: number; shiftStart: string; shiftEnd: string }
 interface Answer { unit: { code: string; name: string }; configured: boolean; settings: Settings; updatedAt: string | null }
@@ -29,8 +30,7 @@ const SHIFT_FIELDS: ['shiftStart' | 'shiftEnd', string, string][] = [
 export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
   const { data, mutate } = useSWR<Answer>(`/api/units/${encodeURIComponent(unitCode)}/settings`, fetchJson);
   const [values, setValues] = useState<Record<string, string>>({});
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [status, setStatus] = useState<string | null>(null);
+  const { errors, alert, status, act } = useForm();
   useEffect(() => {
     if (!data) return;
     const v: Record<string, string> = Object.fromEntries(FIELDS.map(([k]) => [k, String(data.settings[k])]));
@@ -45,21 +45,13 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
 
   async function submit(event: FormEvent) {
     event.preventDefault();
-    setErrors({});
-    setStatus(null);
     const body: Record<string, unknown> = Object.fromEntries(FIELDS.map(([k]) => [k, values[k] === '' ? undefined : Number(values[k])]));
     body.outreachEmails = (values.outreachEmails ?? '').split(/[\s,;]+/).filter(Boolean);
     body.shiftStart = values.shiftStart?.trim() || undefined;
     body.shiftEnd = values.shiftEnd?.trim() || undefined;
     body.gasUnit = values.gasUnit;
     body.unitPhone = (values.unitPhone ?? '').trim() || null;
-    try {
-      await postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT');
-      setStatus('Saved.');
-      await mutate();
-    } catch (err) {
-      if (err instanceof ApiClientError) setErrors({ ...err.fields, _: err.message });
-    }
+    await act('Saved.', () => postJson(`/api/units/${encodeURIComponent(unitCode)}/settings`, body, 'PUT'), { rawFieldPaths: true, after: mutate });
   }
 
   return (
@@ -102,7 +94,7 @@ export default function UnitSettingsForm({ unitCode }: { unitCode: string }) {
       <div className="flex items-center gap-3 md:col-span-2">
         <button className="btn-primary" type="submit">Save settings</button>
         <span role="status">{status}</span>
-        {errors._ && <span role="alert" className="text-coral-700">{errors._}</span>}
+        {alert && <span role="alert" className="text-coral-700">{alert}</span>}
       </div>
     </form>
   );

@@ -1,48 +1,29 @@
 import useSWR from 'swr';
 import { useState } from 'react';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { formatDate } from '~/lib/time/format.ts';
 import type { AdminUnit } from '~/lib/staff/api-types.ts';
-
-async function call(url: string, body: unknown, method: 'POST' | 'PATCH' | 'PUT' = 'POST') {
-  if (method !== 'PATCH') return postJson(url, body, method);
-  const res = await fetch(url, { method, headers: { 'content-type': 'application/json', accept: 'application/json' }, credentials: 'same-origin', body: JSON.stringify(body) });
-  const data = await res.json();
-  if (!res.ok) throw new ApiClientError(res.status, data.error?.code, data.error?.message, data.error?.fields);
-  return data;
-}
 
 /** Units and their beds: create and rename units; add, rename, reorder and retire beds. */
 export default function UnitsAndBeds() {
   const { data, error, mutate } = useSWR<{ units: AdminUnit[] }>('/api/admin/units', fetchJson);
-  const [message, setMessage] = useState<string | null>(null);
-  const [fields, setFields] = useState<Record<string, string>>({});
+  const actions = useForm();
+  const fields = actions.errors;
+  const message = actions.alert ?? actions.status;
   const [unitForm, setUnitForm] = useState({ code: '', name: '', hospital: '', timeZone: 'Europe/London' });
   const [newBed, setNewBed] = useState<Record<string, string>>({});
   if (error) return <p role="alert">Could not load units: {String(error.message ?? error)}</p>;
   if (!data) return <p>Loading units…</p>;
 
-  async function act(done: string, fn: () => Promise<unknown>) {
-    setMessage(null);
-    setFields({});
-    try {
-      await fn();
-      setMessage(done);
-      await mutate();
-      return true;
-    } catch (err) {
-      if (err instanceof ApiClientError) setFields(err.fields);
-      setMessage(`Not done: ${(err as Error).message}`);
-      return false;
-    }
-  }
+  const act = (done: string, work: () => Promise<unknown>) => actions.act(done, work, { failurePrefix: 'Not done: ', rawFieldPaths: true, after: mutate });
 
   async function move(unit: AdminUnit, index: number, by: -1 | 1) {
     const ids = unit.beds.filter((b) => b.active).map((b) => b.id);
     const j = index + by;
     if (j < 0 || j >= ids.length) return;
     [ids[index], ids[j]] = [ids[j], ids[index]];
-    await act(`Beds of ${unit.code} reordered.`, () => call(`/api/admin/units/${unit.code}/beds`, { bedIds: ids }, 'PUT'));
+    await act(`Beds of ${unit.code} reordered.`, () => postJson(`/api/admin/units/${unit.code}/beds`, { bedIds: ids }, 'PUT'));
   }
 
   const fieldError = (k: string) => fields[k] && <span className="text-sm text-coral-700 dark:text-coral-300">{fields[k]}</span>;
@@ -60,7 +41,7 @@ export default function UnitsAndBeds() {
               <span className="text-ink-600 dark:text-ink-300">{unit.code} · {unit.hospital} · {unit.timeZone}</span>
               <button className="btn-quiet" onClick={() => {
                 const name = window.prompt(`New name for ${unit.code}`, unit.name);
-                if (name) void act(`${unit.code} renamed.`, () => call(`/api/admin/units/${unit.code}`, { name }, 'PATCH'));
+                if (name) void act(`${unit.code} renamed.`, () => postJson(`/api/admin/units/${unit.code}`, { name }, 'PATCH'));
               }}>Rename unit</button>
             </div>
             <ol className="space-y-1" aria-label={`Beds of ${unit.name}, in board order`}>
@@ -72,11 +53,11 @@ export default function UnitsAndBeds() {
                   <button className="btn-quiet" aria-label={`Move ${bed.label} down`} disabled={i === active.length - 1} onClick={() => move(unit, i, 1)}>↓</button>
                   <button className="btn-quiet" onClick={() => {
                     const label = window.prompt(`New label for ${bed.label}`, bed.label);
-                    if (label) void act(`Bed renamed to ${label}.`, () => call(`/api/admin/units/${unit.code}/beds/${bed.id}`, { label }, 'PATCH'));
+                    if (label) void act(`Bed renamed to ${label}.`, () => postJson(`/api/admin/units/${unit.code}/beds/${bed.id}`, { label }, 'PATCH'));
                   }}>Rename</button>
                   <button className="btn-quiet" disabled={bed.occupied} title={bed.occupied ? 'Move or discharge the patient first' : undefined} onClick={() => {
                     const reason = window.prompt(`Why is ${bed.label} retired? (its history stays)`);
-                    if (reason) void act(`${bed.label} retired.`, () => call(`/api/admin/units/${unit.code}/beds/${bed.id}/retire`, { reason }));
+                    if (reason) void act(`${bed.label} retired.`, () => postJson(`/api/admin/units/${unit.code}/beds/${bed.id}/retire`, { reason }));
                   }}>Retire</button>
                 </li>
               ))}
@@ -86,7 +67,7 @@ export default function UnitsAndBeds() {
             )}
             <form className="mt-3 flex items-end gap-2" onSubmit={async (e) => {
               e.preventDefault();
-              if (await act(`Bed added to ${unit.code}.`, () => call(`/api/admin/units/${unit.code}/beds`, { label: newBed[unit.code] ?? '' }))) setNewBed({ ...newBed, [unit.code]: '' });
+              if (await act(`Bed added to ${unit.code}.`, () => postJson(`/api/admin/units/${unit.code}/beds`, { label: newBed[unit.code] ?? '' }))) setNewBed({ ...newBed, [unit.code]: '' });
             }}>
               <label className="block"><span className="mb-1 block text-sm font-bold">New bed label</span>
                 <input className="field" value={newBed[unit.code] ?? ''} onChange={(e) => setNewBed({ ...newBed, [unit.code]: e.target.value })} /></label>
@@ -97,7 +78,7 @@ export default function UnitsAndBeds() {
       })}
       <form className="panel grid gap-3 md:grid-cols-5 md:items-end" data-testid="create-unit" noValidate onSubmit={async (e) => {
         e.preventDefault();
-        if (await act(`Unit ${unitForm.code.toUpperCase()} created.`, () => call('/api/admin/units', unitForm))) setUnitForm({ ...unitForm, code: '', name: '' });
+        if (await act(`Unit ${unitForm.code.toUpperCase()} created.`, () => postJson('/api/admin/units', unitForm))) setUnitForm({ ...unitForm, code: '', name: '' });
       }}>
         <label className="block"><span className="mb-1 block font-bold">Code</span><input className="field" value={unitForm.code} onChange={(e) => setUnitForm({ ...unitForm, code: e.target.value })} />{fieldError('code')}</label>
         <label className="block"><span className="mb-1 block font-bold">Name</span><input className="field" value={unitForm.name} onChange={(e) => setUnitForm({ ...unitForm, name: e.target.value })} />{fieldError('name')}</label>

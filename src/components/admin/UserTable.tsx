@@ -1,26 +1,20 @@
 import useSWR from 'swr';
 import { useState } from 'react';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { ROLES, ROLE_LABELS, spansUnits, type Role } from '~/lib/auth/roles.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
 import type { AdminUnit, StaffListItem } from '~/lib/staff/api-types.ts';
 
 const needsUnit = (role: Role) => !spansUnits(role) && role !== 'admin';
 
-async function send(url: string, body: unknown, method: 'POST' | 'PATCH' = 'POST') {
-  if (method === 'POST') return postJson(url, body);
-  const res = await fetch(url, { method, headers: { 'content-type': 'application/json', accept: 'application/json' }, credentials: 'same-origin', body: JSON.stringify(body) });
-  const data = await res.json();
-  if (!res.ok) throw new ApiClientError(res.status, data.error?.code, data.error?.message, data.error?.fields);
-  return data;
-}
-
 /** Staff accounts: add a person (a set-password link goes by e-mail), change role or unit, end or restore access. */
 export default function UserTable({ timeZone }: { timeZone: string }) {
   const { data, error, mutate } = useSWR<{ users: StaffListItem[] }>('/api/admin/users', fetchJson);
   const { data: unitData } = useSWR<{ units: AdminUnit[] }>('/api/admin/units', fetchJson);
-  const [message, setMessage] = useState<string | null>(null);
-  const [fields, setFields] = useState<Record<string, string>>({});
+  const actions = useForm();
+  const fields = actions.errors;
+  const message = actions.alert ?? actions.status;
   const [form, setForm] = useState({ name: '', email: '', role: 'nurse' as Role, unitCode: '' });
   const [editing, setEditing] = useState<number | null>(null);
   const [edit, setEdit] = useState({ role: 'nurse' as Role, unitCode: '' });
@@ -29,25 +23,12 @@ export default function UserTable({ timeZone }: { timeZone: string }) {
   const units = unitData?.units ?? [];
   const now = Date.now();
 
-  async function act(label: string, fn: () => Promise<unknown>) {
-    setMessage(null);
-    setFields({});
-    try {
-      await fn();
-      setMessage(label);
-      await mutate();
-      return true;
-    } catch (err) {
-      if (err instanceof ApiClientError) setFields(err.fields);
-      setMessage(`Not done: ${(err as Error).message}`);
-      return false;
-    }
-  }
+  const act = (done: string, work: () => Promise<unknown>) => actions.act(done, work, { failurePrefix: 'Not done: ', rawFieldPaths: true, after: mutate });
 
   async function create(event: React.FormEvent) {
     event.preventDefault();
     const body = { name: form.name, email: form.email, role: form.role, ...(needsUnit(form.role) ? { unitCode: form.unitCode || undefined } : {}) };
-    const ok = await act(`Account made for ${form.email}; a set-password link is on its way by e-mail.`, () => send('/api/admin/users', body));
+    const ok = await act(`Account made for ${form.email}; a set-password link is on its way by e-mail.`, () => postJson('/api/admin/users', body));
     if (ok) setForm({ name: '', email: '', role: form.role, unitCode: form.unitCode });
   }
 
@@ -78,9 +59,9 @@ export default function UserTable({ timeZone }: { timeZone: string }) {
       </form>
       {message && <p role="status" data-testid="staff-message" className="mb-3 rounded bg-glass-50 p-2 dark:bg-glass-900/40">{message}</p>}
       <div className="overflow-x-auto">
-      <table className="w-full text-sm" data-testid="user-table">
+      <table className="stack-table w-full text-sm" data-testid="user-table">
         <thead>
-          <tr className="text-left text-ink-500 dark:text-ink-300"><th className="py-1">Name</th><th>E-mail</th><th>Role</th><th>Unit</th><th>Access</th><th>Sign-in</th><th /></tr>
+          <tr className="text-left text-ink-500 dark:text-ink-300"><th className="py-1">Name</th><th>E-mail</th><th>Role</th><th>Unit</th><th>Access</th><th>Sign-in</th><th><span className="sr-only">Actions</span></th></tr>
         </thead>
         <tbody>
           {data.users.map((user) => {
@@ -88,35 +69,35 @@ export default function UserTable({ timeZone }: { timeZone: string }) {
             const isEditing = editing === user.id;
             return (
               <tr key={user.id} className="border-t border-ink-100 align-top dark:border-ink-800" data-testid={`user-${user.email}`}>
-                <td className="py-1.5">{user.name}</td>
-                <td>{user.email}</td>
-                <td>{isEditing
+                <td data-label="Name" className="py-1.5">{user.name}</td>
+                <td data-label="E-mail">{user.email}</td>
+                <td data-label="Role">{isEditing
                   ? <select aria-label="New role" className="field" value={edit.role} onChange={(e) => setEdit({ ...edit, role: e.target.value as Role })}>{ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}</select>
                   : ROLE_LABELS[user.role]}</td>
-                <td>{isEditing
+                <td data-label="Unit">{isEditing
                   ? (needsUnit(edit.role) ? unitSelect(edit.unitCode, (v) => setEdit({ ...edit, unitCode: v }), `unit-${user.id}`) : 'all units')
                   : user.unit_code ?? 'all units'}</td>
-                <td>{user.active
+                <td data-label="Access">{user.active
                   ? (user.must_change_password ? 'active · password not yet chosen' : 'active')
                   : <strong>deactivated{user.deactivated_at ? ` ${formatDayTime(user.deactivated_at, timeZone)}` : ''}</strong>}</td>
-                <td>{locked ? <strong>locked until {formatDayTime(user.locked_until!, timeZone)}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : user.last_signin_at ? `last ${formatDayTime(user.last_signin_at, timeZone)}` : 'never'}</td>
+                <td data-label="Sign-in">{locked ? <strong>locked until {formatDayTime(user.locked_until!, timeZone)}</strong> : user.failed_signins > 0 ? `${user.failed_signins} wrong in a row` : user.last_signin_at ? `last ${formatDayTime(user.last_signin_at, timeZone)}` : 'never'}</td>
                 <td className="space-x-1 whitespace-nowrap py-1">
                   {isEditing ? (
                     <>
                       <button className="btn-quiet" onClick={async () => {
                         const body = { role: edit.role, unitCode: needsUnit(edit.role) ? (edit.unitCode || null) : null };
-                        if (await act(`${user.email} changed.`, () => send(`/api/admin/users/${user.id}`, body, 'PATCH'))) setEditing(null);
+                        if (await act(`${user.email} changed.`, () => postJson(`/api/admin/users/${user.id}`, body, 'PATCH'))) setEditing(null);
                       }}>Save</button>
                       <button className="btn-quiet" onClick={() => setEditing(null)}>Cancel</button>
                     </>
                   ) : (
                     <>
                       <button className="btn-quiet" onClick={() => { setEditing(user.id); setEdit({ role: user.role, unitCode: user.unit_code ?? '' }); }}>Change role</button>
-                      {user.active && <button className="btn-quiet" onClick={() => act(`A set-password link was sent to ${user.email}.`, () => send(`/api/admin/users/${user.id}/send-link`, {}))}>Send password link</button>}
+                      {user.active && <button className="btn-quiet" onClick={() => act(`A set-password link was sent to ${user.email}.`, () => postJson(`/api/admin/users/${user.id}/send-link`, {}))}>Send password link</button>}
                       {user.active
-                        ? <button className="btn-quiet" onClick={() => window.confirm(`End ${user.name}'s access now?`) && act(`${user.email} deactivated; their sessions stop at the next request.`, () => send(`/api/admin/users/${user.id}/deactivate`, {}))}>Deactivate</button>
-                        : <button className="btn-quiet" onClick={() => act(`${user.email} reactivated.`, () => send(`/api/admin/users/${user.id}/reactivate`, {}))}>Reactivate</button>}
-                      {(locked || user.failed_signins > 0) && <button className="btn-quiet" onClick={() => act(`${user.email} unlocked.`, () => send(`/api/admin/users/${user.id}/unlock`, {}))}>Unlock</button>}
+                        ? <button className="btn-quiet" onClick={() => window.confirm(`End ${user.name}'s access now?`) && act(`${user.email} deactivated; their sessions stop at the next request.`, () => postJson(`/api/admin/users/${user.id}/deactivate`, {}))}>Deactivate</button>
+                        : <button className="btn-quiet" onClick={() => act(`${user.email} reactivated.`, () => postJson(`/api/admin/users/${user.id}/reactivate`, {}))}>Reactivate</button>}
+                      {(locked || user.failed_signins > 0) && <button className="btn-quiet" onClick={() => act(`${user.email} unlocked.`, () => postJson(`/api/admin/users/${user.id}/unlock`, {}))}>Unlock</button>}
                     </>
                   )}
                 </td>

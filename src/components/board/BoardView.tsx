@@ -6,6 +6,7 @@ import { formatMinutes, latestWords, monitorWords, stateWords } from '~/lib/boar
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { usePolled } from '~/lib/client/use-polled.ts';
+import { errorText, useForm } from '~/lib/client/use-form.ts';
 import { KIND_LABELS, type EscalationKind } from '~/lib/escalations/decide.ts';
 import { formatClock, formatClockSeconds } from '~/lib/time/format.ts';
 
@@ -155,7 +156,9 @@ function escalationWords(e: NonNullable<BoardTile['escalation']>, zone: string):
 function Tile({ tile, zone, nurses, onDone }: {
   tile: BoardTileView; zone: string; nurses: { id: number; name: string }[] | null; onDone: (text: string, ok: boolean) => void;
 }) {
-  const [assignError, setAssignError] = useState<string | null>(null);
+  const assigning = useForm();
+  const claiming = useForm();
+  const assignError = assigning.alert;
   if (!tile.patient) {
     return (
       <li className="rounded-lg border border-dashed border-ink-200 p-3 text-ink-500 dark:border-ink-700 dark:text-ink-400" data-testid={`tile-${tile.bedLabel}`} data-concern="empty">
@@ -167,27 +170,21 @@ function Tile({ tile, zone, nurses, onDone }: {
   const tone = TONE[tile.state.name] ?? TONE.no_reading;
   const spo2 = tile.latest?.spo2;
   async function assign(value: string) {
-    setAssignError(null);
     const name = value === '' ? null : nurses?.find((n) => String(n.id) === value)?.name ?? 'the nurse';
-    try {
-      await postJson(`/api/beds/${tile.bedId}/assignment`, { nurseId: value === '' ? null : Number(value) }, 'PUT');
-      onDone(name ? `Bed ${tile.bedLabel}: ${name} assigned.` : `Bed ${tile.bedLabel}: no nurse assigned now.`, true);
-    } catch (err) {
-      const text = `Bed ${tile.bedLabel}: assignment not saved — ${(err as Error).message}`;
-      setAssignError(text);
-      onDone(text, false);
-    }
+    const failure = `Bed ${tile.bedLabel}: assignment not saved — `;
+    const saved = await assigning.act(name ? `Bed ${tile.bedLabel}: ${name} assigned.` : `Bed ${tile.bedLabel}: no nurse assigned now.`,
+      () => postJson(`/api/beds/${tile.bedId}/assignment`, { nurseId: value === '' ? null : Number(value) }, 'PUT'),
+      { failurePrefix: failure, onRefused: (_f, err) => onDone(`${failure}${errorText(err)}`, false) });
+    if (saved) onDone(name ? `Bed ${tile.bedLabel}: ${name} assigned.` : `Bed ${tile.bedLabel}: no nurse assigned now.`, true);
   }
   const esc = tile.escalation;
   const mayClaim = tile.can.claim;
   async function claim() {
     if (!esc) return;
-    try {
-      await postJson(`/api/escalations/${esc.id}/claim`, {});
-      onDone(`Bed ${tile.bedLabel}: you claimed the ${(KIND_LABELS[esc.kind as EscalationKind] ?? 'escalation').toLowerCase()}.`, true);
-    } catch (err) {
-      onDone(`Bed ${tile.bedLabel}: not claimed — ${(err as Error).message}`, false);
-    }
+    const claimed = await claiming.submit(() => postJson(`/api/escalations/${esc.id}/claim`, {}), {
+      onRefused: (_f, err) => onDone(`Bed ${tile.bedLabel}: not claimed — ${errorText(err)}`, false),
+    });
+    if (claimed !== undefined) onDone(`Bed ${tile.bedLabel}: you claimed the ${(KIND_LABELS[esc.kind as EscalationKind] ?? 'escalation').toLowerCase()}.`, true);
   }
   return (
     <li className={`relative rounded-lg border-2 p-3 shadow-sm ${tone}`} data-testid={`tile-${tile.bedLabel}`} data-concern={tile.concern.key} data-state={tile.state.name}>

@@ -77,7 +77,7 @@ function GasTable({ list, timeZone, canChart, patientId }: { list: BloodGasList;
   if (list.bloodGases.length === 0) return <p className="text-sm text-ink-500">No blood gases charted.</p>;
   return (
     <div className="overflow-x-auto">
-      <table className="w-full min-w-[56rem] border-collapse text-sm" data-testid="gas-table">
+      <table className="stack-table w-full min-w-[56rem] border-collapse text-sm" data-testid="gas-table">
         <caption className="sr-only">Blood gases, newest first</caption>
         <thead>
           <tr className="border-b border-ink-200 text-left text-xs uppercase tracking-wide text-ink-500 dark:border-ink-700 dark:text-ink-400">
@@ -108,12 +108,12 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
   return (
     <>
       <tr data-gas-id={g.id} data-status={g.status} data-occult={occult || undefined} className={`border-b border-ink-100 align-top dark:border-ink-800 ${occult && !struck ? 'bg-coral-50 dark:bg-coral-900/25' : ''}`}>
-        <td className={`py-1.5 pr-2 whitespace-nowrap ${tone}`}>{cell(formatDayTime(g.sampledAt, timeZone))}</td>
-        <td className={`pr-2 ${tone}`}>{cell(SAMPLE_TYPE_LABELS[g.sampleType])}</td>
-        <td className={`pr-2 ${tone}`}>{cell(g.ph.toFixed(2))}</td>
-        <td className={`pr-2 whitespace-nowrap ${tone}`}>{cell(formatGas(g.pao2MmHg, unit))}</td>
-        <td className={`pr-2 whitespace-nowrap ${tone}`}>{cell(formatGas(g.paco2MmHg, unit))}</td>
-        <td className={`pr-2 ${tone}`}>
+        <td data-label="Sampled" className={`py-1.5 pr-2 whitespace-nowrap ${tone}`}>{cell(formatDayTime(g.sampledAt, timeZone))}</td>
+        <td data-label="Type" className={`pr-2 ${tone}`}>{cell(SAMPLE_TYPE_LABELS[g.sampleType])}</td>
+        <td data-label="pH" className={`pr-2 ${tone}`}>{cell(g.ph.toFixed(2))}</td>
+        <td data-label="PaO₂" className={`pr-2 whitespace-nowrap ${tone}`}>{cell(formatGas(g.pao2MmHg, unit))}</td>
+        <td data-label="PaCO₂" className={`pr-2 whitespace-nowrap ${tone}`}>{cell(formatGas(g.paco2MmHg, unit))}</td>
+        <td data-label="SaO₂ / SpO₂" className={`pr-2 ${tone}`}>
           {cell(<span className="inline-flex flex-col">
             <span className="font-bold">SaO₂ {fmt(g.sao2)} %</span>
             <span>{g.spo2AtSample === null ? 'no SpO₂ paired' : `SpO₂ ${g.spo2AtSample} %${g.spo2Source === 'nearest_reading' ? ' (nearest reading)' : ''}`}</span>
@@ -121,12 +121,12 @@ function GasRow({ g, unit, timeZone, canAct, marking, onMark, patientId }: { g: 
             {occult && !struck && <OccultMark className="text-xs" />}
           </span>)}
         </td>
-        <td className={`pr-2 ${tone}`}>{cell(d.pf === null ? '—' : <span className="inline-flex flex-col"><span className="font-bold">{d.pf}</span>{d.berlinBand && <span className="text-xs">{BERLIN_WORDS[d.berlinBand]}</span>}</span>)}</td>
-        <td className={`pr-2 whitespace-nowrap ${tone}`}>{cell(d.aaGradient === null ? '—' : formatGas(d.aaGradient, unit))}</td>
-        <td className={`pr-2 whitespace-nowrap ${tone}`}>{cell(d.oxygenContent === null ? '—' : `${d.oxygenContent.toFixed(1)} mL/dL`)}</td>
-        <td className={`pr-2 ${tone}`}>{cell([g.hco3 === null ? '—' : `${g.hco3}`, g.baseExcess === null ? '—' : `${g.baseExcess > 0 ? '+' : ''}${g.baseExcess}`, g.lactate === null ? '—' : `${g.lactate}`, g.hbGdl === null ? '—' : `${g.hbGdl} g/dL`].join(' · '))}</td>
-        <td className={`pr-2 ${tone}`}>{cell(fmtFio2(g.fio2))}</td>
-        <td className="min-w-[12rem] text-xs">
+        <td data-label="P/F" className={`pr-2 ${tone}`}>{cell(d.pf === null ? '—' : <span className="inline-flex flex-col"><span className="font-bold">{d.pf}</span>{d.berlinBand && <span className="text-xs">{BERLIN_WORDS[d.berlinBand]}</span>}</span>)}</td>
+        <td data-label="A–a" className={`pr-2 whitespace-nowrap ${tone}`}>{cell(d.aaGradient === null ? '—' : formatGas(d.aaGradient, unit))}</td>
+        <td data-label="CaO₂" className={`pr-2 whitespace-nowrap ${tone}`}>{cell(d.oxygenContent === null ? '—' : `${d.oxygenContent.toFixed(1)} mL/dL`)}</td>
+        <td data-label="HCO₃⁻ · BE · lactate · Hb" className={`pr-2 ${tone}`}>{cell([g.hco3 === null ? '—' : `${g.hco3}`, g.baseExcess === null ? '—' : `${g.baseExcess > 0 ? '+' : ''}${g.baseExcess}`, g.lactate === null ? '—' : `${g.lactate}`, g.hbGdl === null ? '—' : `${g.hbGdl} g/dL`].join(' · '))}</td>
+        <td data-label="FiO₂" className={`pr-2 ${tone}`}>{cell(fmtFio2(g.fio2))}</td>
+        <td data-label="Who · status" className="min-w-[12rem] text-xs">
           <p>{g.recordedBy ?? '—'}</p>
           {g.status === 'superseded' && <p><strong>Corrected</strong>{g.statusBy ? ` by ${g.statusBy}` : ''}{g.statusReason ? ` — why: “${g.statusReason}”` : ''}</p>}
           {g.status === 'entered_in_error' && <p><strong>Entered in error</strong>{g.statusBy ? ` by ${g.statusBy}` : ''}{g.statusReason ? ` — why: “${g.statusReason}”` : ''}</p>}

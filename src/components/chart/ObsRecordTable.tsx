@@ -72,7 +72,7 @@ export default function ObsRecordTable({ patientId, timeZone, canChart, orders =
       {!data && isLoading && <p>Loading obs…</p>}
       {data && (
         <div className="overflow-x-auto">
-          <table className="w-full min-w-[60rem] border-collapse text-sm">
+          <table className="stack-table w-full min-w-[60rem] border-collapse text-sm" data-testid="obs-table">
             <caption className="sr-only">Obs record, newest first, page {data.page} of {pages}</caption>
             <thead>
               <tr className="border-b border-ink-200 text-left text-xs uppercase tracking-wide text-ink-500 dark:border-ink-700 dark:text-ink-400">
@@ -152,9 +152,9 @@ function ObsRow({ o, timeZone, orders, columns, linkable, canAct, action, onActi
   return (
     <>
       <tr id={`obs-${o.id}`} data-status={o.status} className={`border-b border-ink-100 align-top dark:border-ink-800 ${struck ? 'bg-ink-50 dark:bg-ink-950/40' : ''}`}>
-        <td className={`py-1.5 pr-2 whitespace-nowrap ${tone}`}>{cell(formatDateTime(o.takenAt, timeZone))}</td>
-        <td className={`pr-2 ${tone}`}>{cell(SOURCE_WORDS[o.source] ?? o.source)}</td>
-        <td className={`pr-2 ${tone}`}>
+        <td data-label="Time" className={`py-1.5 pr-2 whitespace-nowrap ${tone}`}>{cell(formatDateTime(o.takenAt, timeZone))}</td>
+        <td data-label="Source" className={`pr-2 ${tone}`}>{cell(SOURCE_WORDS[o.source] ?? o.source)}</td>
+        <td data-label="SpO₂" className={`pr-2 ${tone}`}>
           {cell(
             <span className="inline-flex flex-col">
               <span className="font-bold">{o.spo2 === null ? '—' : `${o.spo2} %`}</span>
@@ -171,17 +171,17 @@ function ObsRow({ o, timeZone, orders, columns, linkable, canAct, action, onActi
             </span>,
           )}
         </td>
-        <td className={`pr-2 ${tone}`}>{cell(fmtNum(o.heartRate))}</td>
-        <td className={`pr-2 ${tone}`}>{cell(fmtNum(o.respRate))}</td>
-        <td className={`pr-2 whitespace-nowrap ${tone}`}>{cell(o.fio2 === null ? '—' : `${fmtFio2(o.fio2)}${o.fio2Estimated ? ' est.' : ''}`)}</td>
-        <td className={`pr-2 ${tone}`}>
+        <td data-label="HR" className={`pr-2 ${tone}`}>{cell(fmtNum(o.heartRate))}</td>
+        <td data-label="RR" className={`pr-2 ${tone}`}>{cell(fmtNum(o.respRate))}</td>
+        <td data-label="FiO₂" className={`pr-2 whitespace-nowrap ${tone}`}>{cell(o.fio2 === null ? '—' : `${fmtFio2(o.fio2)}${o.fio2Estimated ? ' est.' : ''}`)}</td>
+        <td data-label="Device" className={`pr-2 ${tone}`}>
           {cell(o.device ? `${DEVICE_LABELS[o.device]}${o.flowLpm !== null ? ` ${o.flowLpm} L/min` : ''}` : '—')}
         </td>
-        <td className={`pr-2 ${tone}`}>{cell(fmtNum(o.systolic))}</td>
-        <td className={`pr-2 ${tone}`}>{cell(o.temperature === null ? '—' : o.temperature.toFixed(1))}</td>
-        <td className={`pr-2 ${tone}`}>{cell(o.consciousness ? CONSCIOUSNESS_LABELS[o.consciousness] : '—')}</td>
-        <td className={`pr-2 ${tone}`}>{cell(o.recordedBy ?? '—')}</td>
-        <td className="min-w-[14rem] text-xs">
+        <td data-label="Systolic BP" className={`pr-2 ${tone}`}>{cell(fmtNum(o.systolic))}</td>
+        <td data-label="Temp" className={`pr-2 ${tone}`}>{cell(o.temperature === null ? '—' : o.temperature.toFixed(1))}</td>
+        <td data-label="Consciousness" className={`pr-2 ${tone}`}>{cell(o.consciousness ? CONSCIOUSNESS_LABELS[o.consciousness] : '—')}</td>
+        <td data-label="Who" className={`pr-2 ${tone}`}>{cell(o.recordedBy ?? '—')}</td>
+        <td data-label="Status" className="min-w-[14rem] text-xs">
           <StatusWords o={o} timeZone={timeZone} linkable={linkable} />
           {o.note && <p className="mt-0.5 italic">Note: {o.note}</p>}
           {canAct && (

@@ -215,9 +215,15 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
   const cursorLine = cursorAt !== null ? <ReferenceLine x={cursorAt} yAxisId="y" stroke={colours.cursor} strokeWidth={1} ifOverflow="hidden" /> : null;
   const escalationLines = (labelled: boolean) => series?.escalations.flatMap((e) => [
     <ReferenceLine key={`r${e.id}`} yAxisId="y" x={e.raisedAt} stroke={colours.escalation} strokeWidth={2} strokeDasharray="4 2" ifOverflow="hidden"
-      label={labelled ? { value: `escalation${e.severity === 'urgent' ? ' (urgent)' : ''}`, position: 'insideTopLeft', fill: colours.escalation, fontSize: 11 } : undefined} />,
+      label={labelled ? escalationLabel(e, series) : undefined} />,
     e.closedAt !== null ? <ReferenceLine key={`c${e.id}`} yAxisId="y" x={e.closedAt} stroke={colours.escalation} strokeWidth={1} ifOverflow="hidden" /> : null,
   ]);
+  // A mark in the last third of the window is labelled on its left, a line lower than "now", so
+  // on a phone the word is neither cut off at the edge nor written over "now".
+  const escalationLabel = (e: { raisedAt: number; severity: string | null }, s: { from: number; to: number }) => {
+    const late = (e.raisedAt - s.from) / Math.max(1, s.to - s.from) > 0.66;
+    return { value: `escalation${e.severity === 'urgent' ? ' (urgent)' : ''}`, position: late ? 'insideTopRight' as const : 'insideTopLeft' as const, dy: late ? 14 : 0, fill: colours.escalation, fontSize: 11 };
+  };
   const w = size?.width;
   const panel = (height: number, child: ReactNode, testId: string) => (
     <div className="w-full" style={{ height: size ? undefined : height }} data-testid={testId}>

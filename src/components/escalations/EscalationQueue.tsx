@@ -1,7 +1,8 @@
 import { useState } from 'react';
 import type { EscalationList as Answer, QueueEscalation as QueueItem } from '~/lib/escalations/api-types.ts';
 import { KIND_LABELS, OUTCOME_LABELS, OUTCOMES, type Outcome } from '~/lib/escalations/decide.ts';
-import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatAge, formatDayTime, formatMinutes, formatWhen } from '~/lib/time/format.ts';
 
@@ -83,20 +84,17 @@ function Row({ e, now, onChange }: { e: QueueItem; now: number; onChange: (notic
   const [closing, setClosing] = useState(false);
   const [outcome, setOutcome] = useState<Outcome | ''>('');
   const [note, setNote] = useState('');
-  const [error, setError] = useState<string | null>(null);
+  const { alert: error, setAlert, act: attempt } = useForm();
   const urgent = e.severity === 'urgent';
   const zone = e.unit.timeZone;
   const where = `bed ${e.bedLabel ?? '—'} (${e.unit.name})`;
 
   async function act(url: string, body: unknown, done: string) {
-    setError(null);
-    try {
-      await postJson(url, body);
-      setClosing(false);
-      onChange(done);
-    } catch (err) {
-      setError(err instanceof ApiClientError ? Object.values(err.fields)[0] ?? err.message : String(err));
-    }
+    await attempt(done, () => postJson(url, body), {
+      // A refused close names the field at fault (the outcome, the note): say that, not the summary.
+      onRefused: (fields) => { const first = Object.values(fields)[0]; if (first) setAlert(first); },
+      after: () => { setClosing(false); onChange(done); },
+    });
   }
 
   return (

@@ -2,6 +2,7 @@ import { useState } from 'react';
 import type { HandoverNoteView } from '~/lib/reports/api-types.ts';
 import { handoverNoteInput } from '~/lib/reports/note-input.ts';
 import { ApiClientError, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
 
 interface Props { patientId: number; bedLabel: string; timeZone: string; initial: HandoverNoteView | null; canWrite: boolean }
@@ -13,8 +14,7 @@ interface Props { patientId: number; bedLabel: string; timeZone: string; initial
 export default function HandoverNote({ patientId, bedLabel, timeZone, initial, canWrite }: Props) {
   const [note, setNote] = useState<HandoverNoteView | null>(initial);
   const [draft, setDraft] = useState(initial?.note ?? '');
-  const [problem, setProblem] = useState<string | null>(null);
-  const [saving, setSaving] = useState(false);
+  const { alert: problem, setAlert: setProblem, busy: saving, submit: run } = useForm();
   const [saved, setSaved] = useState(false);
 
   async function save(e: React.FormEvent) {
@@ -23,17 +23,13 @@ export default function HandoverNote({ patientId, bedLabel, timeZone, initial, c
     setSaved(false);
     const parsed = handoverNoteInput.safeParse({ note: draft, basedOnVersion: note?.version ?? null });
     if (!parsed.success) { setProblem(parsed.error.issues[0]?.message ?? 'Check the note'); return; }
-    setSaving(true);
-    try {
-      const res = await postJson<{ note: HandoverNoteView }>(`/api/patients/${patientId}/handover-notes`, parsed.data);
-      setNote(res.note);
-      setDraft(res.note.note);
-      setSaved(true);
-    } catch (err) {
-      setProblem(err instanceof ApiClientError ? err.message : 'Could not save the note; it is still in the box.');
-    } finally {
-      setSaving(false);
-    }
+    const res = await run(() => postJson<{ note: HandoverNoteView }>(`/api/patients/${patientId}/handover-notes`, parsed.data), {
+      onRefused: (_fields, err) => { if (!(err instanceof ApiClientError)) setProblem('Could not save the note; it is still in the box.'); },
+    });
+    if (res === undefined) return;
+    setNote(res.note);
+    setDraft(res.note.note);
+    setSaved(true);
   }
 
   return (

@@ -1,6 +1,8 @@
 import { useEffect, useMemo, useState } from 'react';
-import useSWR, { mutate as globalMutate } from 'swr';
-import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import useSWR from 'swr';
+import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
+import { useRefreshChart } from '~/components/chart/chart-shared.tsx';
 import { MAX_TREND_FILE_BYTES, guessMapping, headerNames, mappingFits, trendMappingSchema, type TimeMode, type TrendMapping } from '~/lib/imports/mapping.ts';
 import type { ImportView, TrendPreview } from '~/lib/imports/api-types.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
@@ -37,7 +39,10 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   const [draft, setDraft] = useState<Draft>(EMPTY_DRAFT);
   const [preview, setPreview] = useState<TrendPreview | null>(null);
   const [progress, setProgress] = useState<{ label: string; fraction: number } | null>(null);
-  const [message, setMessage] = useState<{ kind: 'ok' | 'error'; text: string; fields?: Record<string, string> } | null>(null);
+  // Refusals of a file name lines and columns ("line 12", "spo2"): kept as the server sent them.
+  const { errors: refusals, setErrors: setRefusals, alert, setAlert, status, setStatus, submit } = useForm();
+  const refreshChart = useRefreshChart(patientId);
+  const clearMessages = () => { setAlert(null); setStatus(''); setRefusals({}); };
   const [withdrawing, setWithdrawing] = useState<number | null>(null);
   const [reason, setReason] = useState('');
   const timeZone = data?.timeZone ?? 'UTC';
@@ -45,12 +50,12 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   useEffect(() => { setPreview(null); }, [draft, file]);
 
   async function chooseFile(f: File | null) {
-    setMessage(null);
+    clearMessages();
     setFile(f);
     setHeaders([]);
     if (!f) return;
     if (f.size > MAX_TREND_FILE_BYTES) {
-      setMessage({ kind: 'error', text: `This file is ${(f.size / 1024 / 1024).toFixed(1)} MB; the limit is 20 MB.` });
+      setAlert(`This file is ${(f.size / 1024 / 1024).toFixed(1)} MB; the limit is 20 MB.`);
       setFile(null);
       return;
     }
@@ -74,17 +79,13 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   }
 
   async function run<T>(label: string, url: string): Promise<T | null> {
-    setMessage(null);
+    clearMessages();
     setProgress({ label, fraction: 0 });
-    try {
-      return await uploadFile<T>(url, file!, (fraction) => setProgress({ label, fraction }));
-    } catch (err) {
-      const e = err as { message: string; fields?: Record<string, string> };
-      setMessage({ kind: 'error', text: e.message, fields: e.fields });
-      return null;
-    } finally {
-      setProgress(null);
-    }
+    const answer = await submit(() => uploadFile<T>(url, file!, (fraction) => setProgress({ label, fraction })), {
+      onRefused: (_fields, err) => setRefusals(err instanceof ApiClientError ? err.fields : {}),
+    });
+    setProgress(null);
+    return answer ?? null;
   }
 
   async function doPreview() {
@@ -95,35 +96,30 @@ export default function TrendUpload({ patientId, canChart }: Props) {
   /** Leaves an unfit optional column out of the mapping; the preview must then be run again. */
   function unmap(field: 'perfusionIndex' | 'quality', column: string) {
     setDraft((d) => ({ ...d, [field]: '' }));
-    setMessage({ kind: 'ok', text: `Column "${column}" is now left unmapped. Preview again to see what would be stored.` });
+    clearMessages();
+    setStatus(`Column "${column}" is now left unmapped. Preview again to see what would be stored.`);
   }
 
   async function doCommit() {
     if (!preview) return;
     const res = await run<{ import: ImportView }>('Uploading to store', uploadUrl('commit', preview.fileHash));
     if (!res) return;
-    setMessage({ kind: 'ok', text: `Stored ${formatCount(res.import.rowsStored)} readings from ${res.import.fileName} as import ${res.import.id}.` });
+    setStatus(`Stored ${formatCount(res.import.rowsStored)} readings from ${res.import.fileName} as import ${res.import.id}.`);
     setPreview(null);
     setFile(null);
     setHeaders([]);
     await mutate();
-    // Every view of this patient (the chart island too) refetches.
-    const base = `/api/patients/${patientId}`;
-    await globalMutate((key) => typeof key === 'string' && (key === base || key.startsWith(`${base}/`) || key.startsWith(`${base}?`)));
+    await refreshChart(); // every view of this patient (the chart island too) refetches
   }
 
   async function withdraw(id: number) {
-    try {
-      await postJson(`/api/imports/${id}/withdraw`, { reason });
-      setMessage({ kind: 'ok', text: `Import ${id} withdrawn: its readings stay in the record, marked withdrawn, and leave the chart.` });
-      setWithdrawing(null);
-      setReason('');
-      await mutate();
-      const base = `/api/patients/${patientId}`;
-      await globalMutate((key) => typeof key === 'string' && key.startsWith(`${base}/`));
-    } catch (err) {
-      setMessage({ kind: 'error', text: (err as Error).message });
-    }
+    clearMessages();
+    if (await submit(() => postJson(`/api/imports/${id}/withdraw`, { reason })) === undefined) return;
+    setStatus(`Import ${id} withdrawn: its readings stay in the record, marked withdrawn, and leave the chart.`);
+    setWithdrawing(null);
+    setReason('');
+    await mutate();
+    await refreshChart();
   }
 
   const select = (key: keyof Draft, label: string, optional = false) => (
@@ -150,15 +146,16 @@ export default function TrendUpload({ patientId, canChart }: Props) {
         (clean, weak, noisy or absent). Up to 20 MB. Nothing is stored until you commit.
       </p>
 
-      {message && (
-        <div role={message.kind === 'error' ? 'alert' : 'status'} data-testid="upload-message"
-          className={message.kind === 'error' ? 'mb-3 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200' : 'mb-3 rounded-md bg-glass-50 p-2 text-sm dark:bg-glass-900/40'}>
-          {message.text}
-          {message.fields && Object.keys(message.fields).length > 0 && (
-            <ul className="ml-4 list-disc">{Object.entries(message.fields).map(([k, v]) => <li key={k}>{k}: {v}</li>)}</ul>
+      {alert && (
+        <div role="alert" data-testid="upload-message"
+          className="mb-3 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200">
+          {alert}
+          {Object.keys(refusals).length > 0 && (
+            <ul className="ml-4 list-disc">{Object.entries(refusals).map(([k, v]) => <li key={k}>{k}: {v}</li>)}</ul>
           )}
         </div>
       )}
+      {!alert && status && <div role="status" data-testid="upload-message" className="mb-3 rounded-md bg-glass-50 p-2 text-sm dark:bg-glass-900/40">{status}</div>}
 
       {canChart && (
         <div className="space-y-3">
@@ -198,16 +195,16 @@ export default function TrendUpload({ patientId, canChart }: Props) {
       {error && <p role="alert">Could not load imports: {String((error as Error).message)}</p>}
       {data && data.imports.length === 0 && <p className="text-sm text-ink-500">None yet.</p>}
       {data && data.imports.length > 0 && (
-        <table className="mt-2 w-full text-sm" data-testid="import-list">
-          <thead><tr className="text-left text-ink-500"><th className="py-1">File</th><th>Readings</th><th>Span</th><th>Committed</th><th>State</th><th /></tr></thead>
+        <table className="stack-table mt-2 w-full text-sm" data-testid="import-list">
+          <thead><tr className="text-left text-ink-500"><th className="py-1">File</th><th>Readings</th><th>Span</th><th>Committed</th><th>State</th><th><span className="sr-only">Actions</span></th></tr></thead>
           <tbody>
             {data.imports.map((imp) => (
               <tr key={imp.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-                <td className="py-1.5">{imp.fileName}<br /><span className="font-mono text-xs text-ink-500">{imp.fileHash.slice(0, 12)}…</span></td>
-                <td>{formatCount(imp.rowsStored)} stored{imp.rowsSkipped ? `, ${imp.rowsSkipped} skipped` : ''}{imp.rowsRefused ? `, ${imp.rowsRefused} refused` : ''}</td>
-                <td>{when(imp.firstAt, timeZone)} – {when(imp.lastAt, timeZone)}</td>
-                <td>{when(imp.committedAt, timeZone)} by {imp.committedBy}</td>
-                <td>{imp.withdrawnAt
+                <td data-label="File" className="py-1.5">{imp.fileName}<br /><span className="font-mono text-xs text-ink-500">{imp.fileHash.slice(0, 12)}…</span></td>
+                <td data-label="Readings">{formatCount(imp.rowsStored)} stored{imp.rowsSkipped ? `, ${imp.rowsSkipped} skipped` : ''}{imp.rowsRefused ? `, ${imp.rowsRefused} refused` : ''}</td>
+                <td data-label="Span">{when(imp.firstAt, timeZone)} – {when(imp.lastAt, timeZone)}</td>
+                <td data-label="Committed">{when(imp.committedAt, timeZone)} by {imp.committedBy}</td>
+                <td data-label="State">{imp.withdrawnAt
                   ? <span className={imp.withdrawnAt ? 'line-through decoration-1' : ''} title={imp.withdrawReason ?? ''}>withdrawn {when(imp.withdrawnAt, timeZone)} by {imp.withdrawnBy}: {imp.withdrawReason}</span>
                   : 'standing'}</td>
                 <td>
@@ -276,13 +273,13 @@ function PreviewPanel({ preview, timeZone, busy, onCommit, onUnmap }: { preview:
         </div>
       ))}
       {preview.refused.count > 0 && (
-        <table className="mt-2 w-full text-sm" data-testid="refused-groups">
+        <table className="stack-table mt-2 w-full text-sm" data-testid="refused-groups">
           <caption className="text-left font-bold">Refused rows by reason ({n(preview.refused.count)})</caption>
           <thead><tr className="text-left text-ink-500"><th>Reason</th><th className="w-20 text-right">Rows</th><th className="pl-4">First lines</th></tr></thead>
           <tbody>{preview.refused.groups.map((g) => (
             <tr key={g.reason} className="border-t border-ink-100 dark:border-ink-800">
-              <td>{g.reason}</td><td className="text-right tabular-nums">{n(g.count)}</td>
-              <td className="pl-4">{g.firstLines.join(', ')}{g.count > g.firstLines.length ? ', …' : ''}</td>
+              <td data-label="Reason">{g.reason}</td><td data-label="Rows" className="text-right tabular-nums">{n(g.count)}</td>
+              <td data-label="First lines" className="pl-4">{g.firstLines.join(', ')}{g.count > g.firstLines.length ? ', …' : ''}</td>
             </tr>
           ))}</tbody>
         </table>

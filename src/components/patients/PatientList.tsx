@@ -1,7 +1,8 @@
 import { useState, type FormEvent, type ReactElement } from 'react';
 import useSWR from 'swr';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
-import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatDateTime } from '~/lib/time/format.ts';
 
@@ -38,15 +39,15 @@ export default function PatientList({ timeZone, unitCode, units, canAdmit }: Pro
         {!data && !error && <p>Loading…</p>}
         {data && data.patients.length === 0 && <p className="text-ink-500">No patients.</p>}
         {data && data.patients.length > 0 && (
-          <table className="w-full text-sm" data-testid="patient-table">
-            <thead><tr className="text-left text-ink-500"><th className="py-1">Bed</th><th>Patient</th><th>Band</th><th>Admitted</th><th /></tr></thead>
+          <table className="stack-table w-full text-sm" data-testid="patient-table">
+            <thead><tr className="text-left text-ink-500"><th className="py-1">Bed</th><th>Patient</th><th>Band</th><th>Admitted</th><th><span className="sr-only">Actions</span></th></tr></thead>
             <tbody>
               {data.patients.map((p) => (
                 <tr key={p.id} className="border-t border-ink-100 align-top dark:border-ink-800">
-                  <td className="py-2 font-mono">{p.bed?.label ?? <span className="text-ink-400">discharged</span>}</td>
-                  <td><a className="font-bold underline" href={`/patients/${p.id}`}>{p.familyName}, {p.givenName}</a> <span className="text-ink-500">{p.mrn}{p.co2RetentionRisk ? ' · CO₂ retention risk' : ''}</span></td>
-                  <td>{p.band ? `${p.band.low}–${p.band.high} %` : <strong>no band ordered</strong>}</td>
-                  <td>{p.admittedAt ? formatDateTime(p.admittedAt, timeZone) : ''}</td>
+                  <td data-label="Bed" className="py-2 font-mono">{p.bed?.label ?? <span className="text-ink-400">discharged</span>}</td>
+                  <td data-label="Patient"><a className="font-bold underline" href={`/patients/${p.id}`}>{p.familyName}, {p.givenName}</a> <span className="text-ink-500">{p.mrn}{p.co2RetentionRisk ? ' · CO₂ retention risk' : ''}</span></td>
+                  <td data-label="Band">{p.band ? `${p.band.low}–${p.band.high} %` : <strong>no band ordered</strong>}</td>
+                  <td data-label="Admitted">{p.admittedAt ? formatDateTime(p.admittedAt, timeZone) : ''}</td>
                   <td>{canAdmit && p.bed && <StayActions patient={p} units={units} currentUnit={unitCode} onDone={refresh} />}</td>
                 </tr>
               ))}
@@ -63,28 +64,20 @@ function FieldError({ id, message }: { id: string; message?: string }) {
 }
 
 function AdmitForm({ freeBeds, onDone }: { freeBeds: { id: number; label: string }[]; onDone: (m: string) => Promise<void> }) {
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [busy, setBusy] = useState(false);
+  const { errors, alert, busy, submit: run } = useForm();
 
   async function submit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const form = event.currentTarget;
     const f = new FormData(form);
-    setBusy(true);
-    setErrors({});
-    try {
-      const { patient } = await postJson<{ patient: PatientSummary }>('/api/patients', {
-        givenName: f.get('givenName'), familyName: f.get('familyName'), mrn: f.get('mrn'), dateOfBirth: f.get('dateOfBirth'),
-        co2RetentionRisk: f.get('co2RetentionRisk') === 'on', bedId: f.get('bedId') ? Number(f.get('bedId')) : undefined,
-      });
-      form.reset();
-      await onDone(`${patient.familyName}, ${patient.givenName} admitted to bed ${patient.bed?.label}.`);
-    } catch (err) {
-      if (err instanceof ApiClientError) setErrors({ ...err.fields, _: err.message });
-      else setErrors({ _: String(err) });
-    } finally {
-      setBusy(false);
-    }
+    const admitted = await run(() => postJson<{ patient: PatientSummary }>('/api/patients', {
+      givenName: f.get('givenName'), familyName: f.get('familyName'), mrn: f.get('mrn'), dateOfBirth: f.get('dateOfBirth'),
+      co2RetentionRisk: f.get('co2RetentionRisk') === 'on', bedId: f.get('bedId') ? Number(f.get('bedId')) : undefined,
+    }));
+    if (admitted === undefined) return;
+    const { patient } = admitted;
+    form.reset();
+    await onDone(`${patient.familyName}, ${patient.givenName} admitted to bed ${patient.bed?.label}.`);
   }
 
   const field = (name: string, label: string, input: ReactElement) => (
@@ -114,7 +107,7 @@ function AdmitForm({ freeBeds, onDone }: { freeBeds: { id: number; label: string
       </label>
       <div className="md:col-span-3 flex items-center gap-3">
         <button className="btn-primary" type="submit" disabled={busy}>Admit</button>
-        {errors._ && <span role="alert" className="text-coral-700 dark:text-coral-300">{errors._}</span>}
+        {alert && <span role="alert" className="text-coral-700 dark:text-coral-300">{alert}</span>}
       </div>
     </form>
   );
@@ -124,17 +117,12 @@ function StayActions({ patient, units, currentUnit, onDone }: { patient: Patient
   const [mode, setMode] = useState<'none' | 'move' | 'discharge'>('none');
   const [targetUnit, setTargetUnit] = useState(currentUnit);
   const beds = useSWR<BedsResponse>(mode === 'move' ? `/api/units/${encodeURIComponent(targetUnit)}/beds` : null, fetchJson);
-  const [error, setError] = useState<string | null>(null);
+  const { alert: error, submit: run } = useForm();
 
   async function act(url: string, body: unknown, message: string) {
-    setError(null);
-    try {
-      await postJson(url, body);
-      setMode('none');
-      await onDone(message);
-    } catch (err) {
-      setError((err as Error).message);
-    }
+    if (await run(() => postJson(url, body)) === undefined) return;
+    setMode('none');
+    await onDone(message);
   }
 
   if (mode === 'none') {

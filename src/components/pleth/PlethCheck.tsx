@@ -2,6 +2,7 @@ import { useMemo, useState } from 'react';
 import useSWR from 'swr';
 import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { fetchJson, postJson } from '~/lib/client/fetch-json.ts';
+import { useForm } from '~/lib/client/use-form.ts';
 import type { PatientSummary } from '~/lib/charting/api-types.ts';
 import type { StripResult } from '~/lib/pleth-strips/api-types.ts';
 import { uploadFile } from '~/lib/client/upload-xhr.ts';
@@ -163,23 +164,20 @@ function Attach({ loaded, initialPatient, sampleRate }: { loaded: Loaded; initia
   const checks = useSWR<ChecksResponse>(patientId ? `/api/pleth/checks?patientId=${patientId}` : null, fetchJson);
   const [observationId, setObservationId] = useState('');
   const [note, setNote] = useState('');
-  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
+  const { alert, status, setStatus, busy, submit: run } = useForm();
   // The unit's zone (from the API), never the browser's.
   const time = (iso: string) => (checks.data ? formatDayTime(iso, checks.data.timeZone) : '');
 
   async function attach() {
     if (!patientId) return;
-    try {
-      await postJson('/api/pleth/checks', {
-        patientId, observationId: observationId ? Number(observationId) : null, fileName: loaded.name, csv: loaded.text,
-        ...(sampleRate ? { sampleRateHz: Number(sampleRate) } : {}), ...(note.trim() ? { note: note.trim() } : {}),
-      });
-      setMessage({ ok: true, text: `Attached: probe trace checked: ${loaded.result.analysis.verdict}.` });
-      setNote('');
-      await checks.mutate();
-    } catch (err) {
-      setMessage({ ok: false, text: (err as Error).message });
-    }
+    const attached = await run(() => postJson('/api/pleth/checks', {
+      patientId, observationId: observationId ? Number(observationId) : null, fileName: loaded.name, csv: loaded.text,
+      ...(sampleRate ? { sampleRateHz: Number(sampleRate) } : {}), ...(note.trim() ? { note: note.trim() } : {}),
+    }));
+    if (attached === undefined) return;
+    setStatus(`Attached: probe trace checked: ${loaded.result.analysis.verdict}.`);
+    setNote('');
+    await checks.mutate();
   }
 
   return (
@@ -205,10 +203,11 @@ function Attach({ loaded, initialPatient, sampleRate }: { loaded: Loaded; initia
           <label className="block text-sm font-bold">Note (optional)
             <input className="field mt-1" value={note} maxLength={500} onChange={(e) => setNote(e.target.value)} />
           </label>
-          <div><button type="button" className="btn-primary" onClick={attach}>Attach to record</button></div>
+          <div><button type="button" className="btn-primary" onClick={attach} disabled={busy}>Attach to record</button></div>
         </div>
       )}
-      {message && <p role={message.ok ? 'status' : 'alert'} className="mt-2 text-sm">{message.text}</p>}
+      {status && <p role="status" className="mt-2 text-sm">{status}</p>}
+      {alert && <p role="alert" className="mt-2 text-sm">{alert}</p>}
       {checks.error && <p role="alert" className="mt-2 text-sm">{(checks.error as Error).message}</p>}
       {checks.data && checks.data.checks.length > 0 && (
         <ul className="mt-3 space-y-1 text-sm" data-testid="attached-checks">

@@ -13,17 +13,17 @@ function Row({ label, f, testId }: { label: string; f: ReportFiguresView; testId
   const e = f.escalations;
   return (
     <tr className="border-t border-ink-200 dark:border-ink-700" data-testid={testId}>
-      <th scope="row" className="whitespace-nowrap px-2 py-1 text-left font-normal">{label}</th>
-      <td className="px-2 py-1 text-right">{f.patientDays.toFixed(1)}</td>
-      <td className="px-2 py-1 text-right">{n1(f.timeInBandPct)}</td>
-      <td className="px-2 py-1 text-right">{n1(f.belowMinPerPatientDay)}</td>
-      <td className="px-2 py-1 text-right">{e.belowStandard} / {e.belowUrgent}</td>
-      <td className="px-2 py-1 text-right">{e.probeCheck}</td>
-      <td className="px-2 py-1 text-right">{e.weanPrompt}</td>
-      <td className="px-2 py-1 text-right">{n1(f.toClaimMin.median)} / {n1(f.toClaimMin.p90)}</td>
-      <td className="px-2 py-1 text-right">{n1(f.toCloseMin.median)} / {n1(f.toCloseMin.p90)}</td>
-      <td className="px-2 py-1 text-right">{formatCount(f.overdueCount)}</td>
-      <td className="px-2 py-1 text-right">{n1(f.untrustedSharePct)}</td>
+      <th scope="row" data-label="Day" className="whitespace-nowrap px-2 py-1 text-left font-normal">{label}</th>
+      <td data-label="Patient-days" className="px-2 py-1 text-right">{f.patientDays.toFixed(1)}</td>
+      <td data-label="Time in band %" className="px-2 py-1 text-right">{n1(f.timeInBandPct)}</td>
+      <td data-label="Min below band per patient-day" className="px-2 py-1 text-right">{n1(f.belowMinPerPatientDay)}</td>
+      <td data-label="Below-band escalations (standard / urgent)" className="px-2 py-1 text-right">{e.belowStandard} / {e.belowUrgent}</td>
+      <td data-label="Probe checks" className="px-2 py-1 text-right">{e.probeCheck}</td>
+      <td data-label="Wean prompts" className="px-2 py-1 text-right">{e.weanPrompt}</td>
+      <td data-label="Raised → claimed, min (median / 90th)" className="px-2 py-1 text-right">{n1(f.toClaimMin.median)} / {n1(f.toClaimMin.p90)}</td>
+      <td data-label="Claimed → closed, min (median / 90th)" className="px-2 py-1 text-right">{n1(f.toCloseMin.median)} / {n1(f.toCloseMin.p90)}</td>
+      <td data-label="Obs overdue" className="px-2 py-1 text-right">{formatCount(f.overdueCount)}</td>
+      <td data-label="Untrusted readings %" className="px-2 py-1 text-right">{n1(f.untrustedSharePct)}</td>
     </tr>
   );
 }
@@ -111,7 +111,7 @@ export default function ReportView({ initial }: { initial: UnitReportResponse })
         </figure>
       </div>
       <div className="panel mt-4 overflow-x-auto">
-        <table className="w-full text-sm" data-testid="report-table">
+        <table className="stack-table w-full text-sm" data-testid="report-table">
           <caption className="mb-2 text-left font-bold">Per day ({tz})</caption>
           <thead>
             <tr className="text-right align-bottom">

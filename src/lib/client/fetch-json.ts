@@ -18,8 +18,12 @@ export async function fetchJson<T>(url: string): Promise<T> {
   return readResponse<T>(await fetch(url, { headers: { accept: 'application/json' }, credentials: 'same-origin' }));
 }
 
-export async function postJson<T>(url: string, body: unknown, method: 'POST' | 'PUT' = 'POST'): Promise<T> {
+export async function postJson<T>(url: string, body: unknown, method: 'POST' | 'PUT' | 'PATCH' = 'POST'): Promise<T> {
   return readResponse<T>(
     await fetch(url, { method, headers: { 'content-type': 'application/json', accept: 'application/json' }, credentials: 'same-origin', body: JSON.stringify(body) }),
   );
+}
+
+export async function deleteJson<T>(url: string): Promise<T> {
+  return readResponse<T>(await fetch(url, { method: 'DELETE', headers: { accept: 'application/json' }, credentials: 'same-origin' }));
 }

@@ -39,6 +39,8 @@ export function errorText(err: unknown): string {
 export interface SubmitOptions {
   /** Put before the reason in the alert, e.g. "Not saved: ". */
   failurePrefix?: string;
+  /** Keep the API's field paths as sent ("beds.2.label") instead of folding them onto form fields. */
+  rawFieldPaths?: boolean;
   /** Called with the field errors of a refused answer (e.g. to focus the first one). */
   onRefused?: (errors: FieldErrors, err: unknown) => void;
 }
@@ -59,31 +61,48 @@ export function useForm() {
     });
   }, []);
 
-  /**
-   * Runs one submission. Returns what `work` returned, or undefined when it was refused or failed
-   * (the alert and field errors then say why) or when another submission was still running.
-   */
-  const submit = useCallback(async <T>(work: () => Promise<T>, options: SubmitOptions = {}): Promise<T | undefined> => {
-    if (running.current) return undefined;
+  const attempt = useCallback(async <T>(work: () => Promise<T>, options: SubmitOptions): Promise<{ ok: true; value: T } | { ok: false }> => {
+    if (running.current) return { ok: false };
     running.current = true;
     setBusy(true);
     setAlert(null);
     setStatus('');
     try {
-      const result = await work();
+      const value = await work();
       setErrors({});
-      return result;
+      return { ok: true, value };
     } catch (err) {
-      const fieldErrors = err instanceof ApiClientError ? apiFieldErrors(err) : {};
+      const fieldErrors = !(err instanceof ApiClientError) ? {} : options.rawFieldPaths ? { ...err.fields } : apiFieldErrors(err);
       setErrors(fieldErrors);
       setAlert(`${options.failurePrefix ?? ''}${errorText(err)}`);
       options.onRefused?.(fieldErrors, err);
-      return undefined;
+      return { ok: false };
     } finally {
       running.current = false;
       setBusy(false);
     }
   }, []);
 
-  return { errors, setErrors, clearErrors, alert, setAlert, status, setStatus, busy, submit };
+  /**
+   * Runs one submission. Returns what `work` returned, or undefined when it was refused or failed
+   * (the alert and field errors then say why) or when another submission was still running.
+   */
+  const submit = useCallback(async <T>(work: () => Promise<T>, options: SubmitOptions = {}): Promise<T | undefined> => {
+    const outcome = await attempt(work, options);
+    return outcome.ok ? outcome.value : undefined;
+  }, [attempt]);
+
+  /**
+   * One action of a list screen (add, rename, revoke…): on success the status line says `done`
+   * and `after` runs (re-read the list). True when it was done.
+   */
+  const act = useCallback(async (done: string, work: () => Promise<unknown>, options: SubmitOptions & { after?: () => unknown } = {}): Promise<boolean> => {
+    const outcome = await attempt(work, options);
+    if (!outcome.ok) return false;
+    setStatus(done);
+    await options.after?.();
+    return true;
+  }, [attempt]);
+
+  return { errors, setErrors, clearErrors, alert, setAlert, status, setStatus, busy, submit, act };
 }

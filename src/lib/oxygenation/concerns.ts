@@ -1,3 +1,4 @@
+import { placeInBand, type BandStateName } from './band-state.ts';
 import { ComputationInputError, requireFinite } from './errors';
 import { ROOM_AIR_FIO2 } from './constants';
 import {
@@ -290,7 +291,7 @@ export function detectConcerns(
   return { belowBand, cannotVerify, aboveOnOxygen };
 }
 
-export type BandStateName = 'below' | 'in' | 'above' | 'untrusted' | 'no_reading' | 'no_band';
+export type { BandStateName } from './band-state.ts';
 
 export interface BandStateResult {
   state: BandStateName;
@@ -360,7 +361,7 @@ export function bandState(
     untrustedSince = NaN;
     if (band === null) continue;
     const spo2 = r.spo2 as number;
-    const state: BandStateName = spo2 < band.low ? 'below' : spo2 > band.high ? 'above' : 'in';
+    const state: BandStateName = placeInBand(spo2, band);
     if (state !== trustedState) {
       trustedState = state;
       trustedSince = at;

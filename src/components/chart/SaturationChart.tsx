@@ -18,7 +18,8 @@ import { valuesAt, type ValuesAt } from '~/lib/charting/chart-values.ts';
 import { CALIBRATED_FLOOR_PCT, DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { formatClock, formatDayTime } from '~/lib/time/format.ts';
 import { CHART_COLOURS, type ChartColours } from '~/lib/ui/chart-palette.ts';
-import { StateBadge, StateIcon, WINDOW_HOURS, bandStateWord, fmtFio2, type WindowHours } from './chart-shared.tsx';
+import { StateBadge, StateIcon, bandStateWord, fmtFio2 } from './chart-shared.tsx';
+import { CHART_WINDOW_HOURS, type WindowHours } from '~/lib/charting/api-types.ts';
 import { bandStateOf, type BandStateName } from '~/lib/oxygenation/band-state.ts';
 import { errorText } from '~/lib/client/use-form.ts';
 
@@ -297,7 +298,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
           )}
         </div>
         <div role="group" aria-label="Chart window" className="flex gap-1 print:hidden">
-          {WINDOW_HOURS.map((h) => (
+          {CHART_WINDOW_HOURS.map((h) => (
             <button key={h} type="button" className={h === hours ? 'btn-primary' : 'btn-quiet'} aria-pressed={h === hours} onClick={() => onHoursChange(h)}>
               {h} h
             </button>

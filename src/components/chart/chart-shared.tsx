@@ -11,9 +11,6 @@ import { formatClock as fmtClock, formatDayTime as fmtDayTime } from '~/lib/time
 
 export const POLL_MS = 15_000;
 export const OBS_PAGE_SIZE = 20;
-export const WINDOW_HOURS = [6, 12, 24, 72] as const;
-export type WindowHours = (typeof WINDOW_HOURS)[number];
-export const DEFAULT_WINDOW_HOURS: WindowHours = 12;
 
 /** Every GET key of one patient's bed chart, so a write can refresh the whole page. */
 export function chartKeys(patientId: number) {

@@ -14,7 +14,6 @@ import { gasMarks } from '~/lib/server/bloodgas/blood-gases.ts';
 import { toBandOrders, toChartedObs, toReading } from './readings.ts';
 import { news2InputOf } from '~/lib/charting/charted-obs.ts';
 
-export const SERIES_WINDOWS = [6, 12, 24, 72] as const;
 /** Points per line after downsampling: enough for a wide screen, small enough to draw fast. */
 export const MAX_POINTS_PER_LINE = 1500;
 /** Windows longer than this are served from the per-minute rollup; shorter ones from raw readings. */

@@ -2,6 +2,7 @@
  * Device keys: a gateway's credential for one bed. The key is shown once at creation; only its
  * SHA-256 is stored. Creation and revocation are audited in their transaction.
  */
+import { toIso } from '~/lib/time/iso.ts';
 import { createHash, randomBytes } from 'node:crypto';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
@@ -20,13 +21,12 @@ export interface DeviceKeyView {
   revokedAt: string | null; revokedBy: string | null; revokeReason: string | null;
 }
 
-const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 export function keyView(r: DeviceKeyListRow): DeviceKeyView {
   return {
     id: r.id, label: r.label, prefix: r.key_prefix, bed: { id: r.bed_id, label: r.bed_label, unitCode: r.unit_code, unitName: r.unit_name },
-    createdAt: iso(r.created_at)!, createdBy: r.created_by_name, lastUsedAt: iso(r.last_used_at),
-    revokedAt: iso(r.revoked_at), revokedBy: r.revoked_by_name, revokeReason: r.revoke_reason,
+    createdAt: toIso(r.created_at)!, createdBy: r.created_by_name, lastUsedAt: toIso(r.last_used_at),
+    revokedAt: toIso(r.revoked_at), revokedBy: r.revoked_by_name, revokeReason: r.revoke_reason,
   };
 }
 

@@ -2,6 +2,7 @@
  * HL7 gateways: which senders may send ORU^R01 and which of their bed names are which of our beds.
  * Made, mapped, unmapped and revoked by an admin; each change audited in its transaction.
  */
+import { toIso } from '~/lib/time/iso.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import type { z } from 'zod';
 import type { GatewayList, GatewayView } from '~/lib/hl7/api-types.ts';
@@ -15,7 +16,6 @@ import {
   deleteGatewayBed, insertGateway, insertGatewayBed, listGatewayBeds, listGateways, lockGateway, lockGatewayBed, revokeGateway,
 } from '~/lib/server/queries/hl7-gateways.ts';
 
-const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 export function mllpPort(): number | null {
   if (process.env.EBB_MLLP === 'off') return null;
@@ -27,9 +27,9 @@ export async function listAllGateways(): Promise<GatewayList> {
   return {
     gateways: gateways.map((g): GatewayView => ({
       id: g.id, label: g.label, sendingApplication: g.sending_application, sendingFacility: g.sending_facility,
-      createdAt: iso(g.created_at)!, createdBy: g.created_by_name, lastMessageAt: iso(g.last_message_at),
-      revokedAt: iso(g.revoked_at), revokedBy: g.revoked_by_name, revokeReason: g.revoke_reason,
-      beds: maps.filter((m) => m.gateway_id === g.id).map((m) => ({ id: m.id, bedName: m.bed_name, bed: { id: m.bed_id, label: m.bed_label, unitCode: m.unit_code }, createdAt: iso(m.created_at)! })),
+      createdAt: toIso(g.created_at)!, createdBy: g.created_by_name, lastMessageAt: toIso(g.last_message_at),
+      revokedAt: toIso(g.revoked_at), revokedBy: g.revoked_by_name, revokeReason: g.revoke_reason,
+      beds: maps.filter((m) => m.gateway_id === g.id).map((m) => ({ id: m.id, bedName: m.bed_name, bed: { id: m.bed_id, label: m.bed_label, unitCode: m.unit_code }, createdAt: toIso(m.created_at)! })),
     })),
     beds: beds.map((b) => ({ id: b.id, label: b.label, unitCode: b.unit_code, unitName: b.unit_name })),
     mllpPort: mllpPort(),

@@ -10,7 +10,7 @@ import {
 } from './settings';
 import { trustedWith } from './trust';
 import type { Band, OxygenDevice, Reading } from './types';
-import { checkTime, maxGapMsFor, validateBand } from './validate';
+import { maxGapMsFor, sortedUpTo, validateBand } from './validate';
 import { OXYGEN_DEVICES } from './types';
 
 const MS_PER_MIN = 60_000;
@@ -160,15 +160,11 @@ export function detectConcerns(
   let aboveFirst = -1;
   let aboveLast = -1;
 
-  let last = -1;
-  let prevAt = -Infinity;
-  for (let i = 0; i < readings.length; i++) {
+  const count = sortedUpTo(readings, now);
+  const last = count - 1;
+  for (let i = 0; i < count; i++) {
     const r = readings[i]!;
     const at = r.at;
-    checkTime(at, prevAt, i);
-    prevAt = at;
-    if (at > now) break;
-    last = i;
     const trusted = trustedWith(r, minPi, i);
     const source = r.source;
     const stands = maxGapMsFor(source, chartedMs, deviceMs, importMs, i); // also validates the source
@@ -335,15 +331,11 @@ export function bandState(
   let trustedSince = NaN;
   let untrustedSince = NaN;
   let lastTrusted = false;
-  let last = -1;
-  let prevAt = -Infinity;
-  for (let i = 0; i < readings.length; i++) {
+  const count = sortedUpTo(readings, now);
+  const last = count - 1;
+  for (let i = 0; i < count; i++) {
     const r = readings[i]!;
     const at = r.at;
-    checkTime(at, prevAt, i);
-    prevAt = at;
-    if (at > now) break;
-    last = i;
     const trusted = trustedWith(r, cfg.minPerfusionIndexPct, i);
     oxygen.update(r, i);
     const gap = maxGapMsFor(r.source, chartedMs, deviceMs, importMs, i);

@@ -2,7 +2,6 @@
 import { toIso } from '~/lib/time/iso.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { ApiError } from './http.ts';
-import { db } from './queries/db.ts';
 import { writeAudit } from './queries/audit.ts';
 import { insertBed, insertUnit, lockBedsOfUnit, lockUnitByCode, openStayInBedLocked, unitsWithBeds, updateBed, updateUnit, type AdminBedRow } from './queries/admin-units.ts';
 import type { CreateUnitInput } from '~/lib/staff/inputs.ts';

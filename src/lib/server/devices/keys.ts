@@ -5,6 +5,7 @@
 import { toIso } from '~/lib/time/iso.ts';
 import { createHash, randomBytes } from 'node:crypto';
 import { ApiError } from '~/lib/server/http.ts';
+import { revokeCredential } from '~/lib/server/credentials.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import type { IngestSource } from './ingest.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -59,13 +60,7 @@ export async function createDeviceKey(actorId: number | null, input: { bedId: nu
 }
 
 export async function revokeKey(actorId: number | null, id: number, reason: string, now = new Date()): Promise<DeviceKeyView> {
-  await withTransactionRetry(async (trx) => {
-    const key = await lockDeviceKey(trx, id);
-    if (!key) throw new ApiError(404, 'not_found', 'No device key with that id.');
-    if (key.revoked_at) throw new ApiError(409, 'already_revoked', 'This key was already revoked.');
-    await revokeDeviceKey(trx, id, { revoked_at: now, revoked_by: actorId, revoke_reason: reason });
-    await writeAudit(trx, { actorId, action: 'device_key.revoke', entity: 'device_key', entityId: id, before: { revokedAt: null }, after: { revokedAt: now.toISOString(), reason }, at: now });
-  });
+  await revokeCredential({ entity: 'device_key', noun: 'device key', shortNoun: 'key', lock: lockDeviceKey, revoke: revokeDeviceKey }, actorId, id, reason, now);
   return keyView((await findDeviceKeyListRow(id))!);
 }
 

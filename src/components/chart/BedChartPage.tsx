@@ -9,7 +9,7 @@
  * the patient (`chartKeys(patientId).matches`).
  */
 import { useEffect, useMemo, useState } from 'react';
-import type { ObsPage, ObsView, PatientDetail, SeriesResponse } from '~/lib/charting/api-types.ts';
+import { DEFAULT_WINDOW_HOURS, type ObsPage, type ObsView, type PatientDetail, type SeriesResponse, type WindowHours } from '~/lib/charting/api-types.ts';
 import { DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { formatDayTime } from '~/lib/time/format.ts';
 import { ApiClientError, fetchJson } from '~/lib/client/fetch-json.ts';
@@ -20,7 +20,7 @@ import ObsRecordTable from './ObsRecordTable.tsx';
 import SaturationChart, { type ExtraSpo2Mark } from './SaturationChart.tsx';
 import TargetOrderPanel from './TargetOrderPanel.tsx';
 import { GasBias } from './BloodGasPanel.tsx';
-import { DEFAULT_WINDOW_HOURS, POLL_MS, chartKeys, fmtFio2, useRefreshChart, type WindowHours } from './chart-shared.tsx';
+import { POLL_MS, chartKeys, fmtFio2, useRefreshChart } from './chart-shared.tsx';
 import { errorText } from '~/lib/client/use-form.ts';
 
 export interface BedChartPageProps {

@@ -11,7 +11,9 @@ import { usePolled } from '~/lib/client/use-polled.ts';
 import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import EnteredInErrorForm from './EnteredInErrorForm.tsx';
-import { OBS_PAGE_SIZE, POLL_MS, StateBadge, StateIcon, TRACE_WORDS, bandStateOf, chartKeys, fmtFio2, fmtNum, formatDateTime, orderAt, useRefreshChart } from './chart-shared.tsx';
+import { OBS_PAGE_SIZE, POLL_MS, StateBadge, StateIcon, chartKeys, fmtFio2, fmtNum, formatDateTime, orderAt, useRefreshChart } from './chart-shared.tsx';
+import { bandStateOf } from '~/lib/oxygenation/band-state.ts';
+import { TRACE_WORDS } from '~/lib/oxygenation/trust.ts';
 import { errorText } from '~/lib/client/use-form.ts';
 
 export interface ObsRecordTableProps {

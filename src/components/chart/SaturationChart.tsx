@@ -18,7 +18,9 @@ import { valuesAt, type ValuesAt } from '~/lib/charting/chart-values.ts';
 import { CALIBRATED_FLOOR_PCT, DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { formatClock, formatDayTime } from '~/lib/time/format.ts';
 import { CHART_COLOURS, type ChartColours } from '~/lib/ui/chart-palette.ts';
-import { StateBadge, StateIcon, WINDOW_HOURS, bandStateOf, bandStateWord, fmtFio2, type BandState, type WindowHours } from './chart-shared.tsx';
+import { StateBadge, StateIcon, bandStateWord, fmtFio2 } from './chart-shared.tsx';
+import { CHART_WINDOW_HOURS, type WindowHours } from '~/lib/charting/api-types.ts';
+import { bandStateOf, type BandStateName } from '~/lib/oxygenation/band-state.ts';
 import { errorText } from '~/lib/client/use-form.ts';
 
 /** An extra set of marks on the SpO₂ panel (e.g. measured SaO₂ from blood gases). */
@@ -110,7 +112,7 @@ export function readoutText(v: ValuesAt, timeZone: string): string {
   return parts.join(' · ');
 }
 
-interface MarkPoint extends Spo2Point { state: BandState }
+interface MarkPoint extends Spo2Point { state: BandStateName }
 
 /** Night mode is a class on <html>; the chart's SVG colours follow it. */
 function useNight(): boolean {
@@ -296,7 +298,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
           )}
         </div>
         <div role="group" aria-label="Chart window" className="flex gap-1 print:hidden">
-          {WINDOW_HOURS.map((h) => (
+          {CHART_WINDOW_HOURS.map((h) => (
             <button key={h} type="button" className={h === hours ? 'btn-primary' : 'btn-quiet'} aria-pressed={h === hours} onClick={() => onHoursChange(h)}>
               {h} h
             </button>

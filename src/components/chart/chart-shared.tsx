@@ -6,13 +6,11 @@
 import { useCallback, useId } from 'react';
 import { useSWRConfig } from 'swr';
 import type { OrderView } from '~/lib/charting/api-types.ts';
+import { BAND_STATE_WORDS, type BandStateName } from '~/lib/oxygenation/band-state.ts';
 import { formatClock as fmtClock, formatDayTime as fmtDayTime } from '~/lib/time/format.ts';
 
 export const POLL_MS = 15_000;
 export const OBS_PAGE_SIZE = 20;
-export const WINDOW_HOURS = [6, 12, 24, 72] as const;
-export type WindowHours = (typeof WINDOW_HOURS)[number];
-export const DEFAULT_WINDOW_HOURS: WindowHours = 12;
 
 /** Every GET key of one patient's bed chart, so a write can refresh the whole page. */
 export function chartKeys(patientId: number) {
@@ -62,17 +60,6 @@ export const fmtNum = (v: number | null | undefined, digits = 0) =>
   v === null || v === undefined || !Number.isFinite(v) ? '—' : digits === 0 ? String(Math.round(v)) : v.toFixed(digits);
 
 // ── Band state ───────────────────────────────────────────────────────────────────────────────
-export type BandState = 'below' | 'in' | 'above' | 'untrusted' | 'no_band' | 'no_reading';
-
-export function bandStateOf(spo2: number | null, trusted: boolean, band: { low: number; high: number } | null): BandState {
-  if (spo2 === null) return 'no_reading';
-  if (!trusted) return 'untrusted';
-  if (!band) return 'no_band';
-  if (spo2 < band.low) return 'below';
-  if (spo2 > band.high) return 'above';
-  return 'in';
-}
-
 /** The order in force at `at` (orders newest first, as the API sends them). */
 export function orderAt(orders: readonly OrderView[], at: string | number): OrderView | null {
   const t = typeof at === 'number' ? at : Date.parse(at);
@@ -80,17 +67,9 @@ export function orderAt(orders: readonly OrderView[], at: string | number): Orde
   return null;
 }
 
-const STATE_WORDS: Record<BandState, string> = {
-  below: 'below band',
-  in: 'in band',
-  above: 'above band',
-  untrusted: 'untrusted',
-  no_band: 'no band ordered',
-  no_reading: 'no reading',
-};
-export const bandStateWord = (s: BandState) => STATE_WORDS[s];
+export const bandStateWord = (s: BandStateName) => BAND_STATE_WORDS[s];
 
-const STATE_CLASSES: Record<BandState, string> = {
+const STATE_CLASSES: Record<BandStateName, string> = {
   below: 'text-coral-700 dark:text-coral-300',
   in: 'text-glass-700 dark:text-glass-300',
   above: 'text-iris-700 dark:text-iris-300',
@@ -100,7 +79,7 @@ const STATE_CLASSES: Record<BandState, string> = {
 };
 
 /** Our own marks: chevron down (below), chevron up (above), dot (in band), hatched ring (untrusted). */
-export function StateIcon({ state, className = 'h-3.5 w-3.5' }: { state: BandState; className?: string }) {
+export function StateIcon({ state, className = 'h-3.5 w-3.5' }: { state: BandStateName; className?: string }) {
   const hatchId = `hatch${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
   const common = { className, viewBox: '0 0 16 16', 'aria-hidden': true as const, focusable: 'false' as const };
   switch (state) {
@@ -127,7 +106,7 @@ export function StateIcon({ state, className = 'h-3.5 w-3.5' }: { state: BandSta
 }
 
 /** Mark + word, e.g. "⌄ below band". */
-export function StateBadge({ state, className = '' }: { state: BandState; className?: string }) {
+export function StateBadge({ state, className = '' }: { state: BandStateName; className?: string }) {
   return (
     <span className={`inline-flex items-center gap-1 font-bold ${STATE_CLASSES[state]} ${className}`} data-state={state}>
       <StateIcon state={state} />
@@ -136,9 +115,3 @@ export function StateBadge({ state, className = '' }: { state: BandState; classN
   );
 }
 
-export const TRACE_WORDS: Record<string, string> = {
-  clean: 'clean trace',
-  weak: 'weak trace',
-  noisy: 'noisy trace',
-  absent: 'no trace',
-};

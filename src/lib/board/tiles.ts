@@ -2,6 +2,7 @@
  * The ward board's tiles: state, concern and sort order for every bed of a unit, from rows the
  * server has already fetched. Pure — every clinical judgement comes from src/lib/oxygenation.
  */
+import { BAND_STATE_WORDS } from '~/lib/oxygenation/band-state.ts';
 import { bandState, detectConcerns, news2, untrustedReason, type BandStateName, type News2Response, type Reading, type ReadingSource } from '~/lib/oxygenation/index.ts';
 import { escalationSettingsOf } from '~/lib/oxygenation/settings.ts';
 import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
@@ -145,7 +146,6 @@ function latestOxygen(bed: BedInput): BoardTile['oxygen'] {
   return { fio2: null, fio2Estimated: false, device: null };
 }
 
-const STATE_WORDS: Partial<Record<BandStateName, string>> = { below: 'below band', above: 'above band', in: 'in band', untrusted: 'untrusted reading' };
 
 export function stateWords(tile: Pick<BoardTile, 'state' | 'band' | 'latest' | 'timeZone'> & { onOxygen?: boolean }): string {
   const since = tile.state.sinceMin === null ? '' : ` ${formatMinutes(tile.state.sinceMin)}`;
@@ -154,11 +154,11 @@ export function stateWords(tile: Pick<BoardTile, 'state' | 'band' | 'latest' | '
     case 'above':
     case 'in':
     case 'untrusted':
-      return `${STATE_WORDS[tile.state.name]}${since}`;
-    case 'no_band': return 'no band ordered';
+      return `${BAND_STATE_WORDS[tile.state.name]}${since}`;
+    case 'no_band': return BAND_STATE_WORDS.no_band;
     default:
       if (tile.state.was && tile.state.until !== null) {
-        return `was ${STATE_WORDS[tile.state.was]}${tile.state.wasMin ? ` ${formatMinutes(tile.state.wasMin)}` : ''} until ${formatClock(tile.state.until, tile.timeZone)} · no reading since`;
+        return `was ${BAND_STATE_WORDS[tile.state.was]}${tile.state.wasMin ? ` ${formatMinutes(tile.state.wasMin)}` : ''} until ${formatClock(tile.state.until, tile.timeZone)} · no reading since`;
       }
       return 'no reading';
   }

@@ -90,3 +90,8 @@ export interface SeriesResponse {
   bloodGases: GasMark[];
   derived: DerivedFigures;
 }
+
+/** The chart windows the series API serves and the bed chart offers, in hours. */
+export const CHART_WINDOW_HOURS = [6, 12, 24, 72] as const;
+export type WindowHours = (typeof CHART_WINDOW_HOURS)[number];
+export const DEFAULT_WINDOW_HOURS: WindowHours = 12;

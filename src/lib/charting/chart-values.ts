@@ -1,4 +1,5 @@
 /** What the bed chart shows at one moment (hover or keyboard cursor): every line's value then. */
+import { firstIndexAtOrAfter } from '~/lib/sorted.ts';
 import type { BandSegment, Fio2Step, SeriesPoint, SeriesResponse, Spo2Point } from './api-types.ts';
 
 export interface ValuesAt {
@@ -11,13 +12,7 @@ export interface ValuesAt {
 
 /** The point nearest `t` within `maxMs` (points sorted by time), or null. */
 export function nearest<P extends { t: number }>(points: readonly P[], t: number, maxMs: number): P | null {
-  let lo = 0;
-  let hi = points.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (points[mid]!.t < t) lo = mid + 1;
-    else hi = mid;
-  }
+  const lo = firstIndexAtOrAfter(points, t, (p) => p.t);
   let best: P | null = null;
   for (const i of [lo - 1, lo]) {
     const p = points[i];

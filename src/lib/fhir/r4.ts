@@ -4,6 +4,7 @@
  *
  * Codes (LOINC, UCUM) from ../shared/REFERENCES.md (from memory of the FHIR vital-signs profile).
  */
+import { toIso } from '~/lib/time/iso.ts';
 
 export type Resource = { resourceType: string; id: string } & Record<string, unknown>;
 
@@ -26,7 +27,6 @@ export const VITALS = {
 } as const;
 export type VitalKey = keyof typeof VITALS;
 
-const iso = (d: Date | string) => new Date(d).toISOString();
 const dateOnly = (d: Date | string) => (typeof d === 'string' ? d.slice(0, 10) : d.toISOString().slice(0, 10));
 const num = (v: string | number | null | undefined): number | null => (v === null || v === undefined || v === '' ? null : Number(v));
 
@@ -52,7 +52,7 @@ export function encounterResource(s: StayIn, patientId: number): Resource {
     status: s.ended_at ? 'finished' : 'in-progress',
     class: { system: ACT_CODE, code: 'IMP', display: 'inpatient encounter' },
     subject: { reference: `Patient/patient-${patientId}` },
-    period: { start: iso(s.started_at), ...(s.ended_at ? { end: iso(s.ended_at) } : {}) },
+    period: { start: toIso(s.started_at), ...(s.ended_at ? { end: toIso(s.ended_at) } : {}) },
     location: [{ location: { display: `${s.unit_name}, bed ${s.bed_label}` }, status: s.ended_at ? 'completed' : 'active' }],
   };
 }
@@ -108,7 +108,7 @@ export function observationResources(o: ObservationIn, patientId: number): Resou
       category: [{ coding: [{ system: OBS_CATEGORY, code: 'vital-signs', display: 'Vital Signs' }] }],
       code: { coding: def.codes.map(([code, display]) => ({ system: LOINC, code, display })), text: def.text },
       subject: { reference: `Patient/patient-${patientId}` },
-      effectiveDateTime: iso(o.taken_at),
+      effectiveDateTime: toIso(o.taken_at),
       ...(o.recorded_by_name ? { performer: [{ display: o.recorded_by_name }] } : {}),
       valueQuantity: { value: value!, unit: def.unit, system: UCUM, code: def.unit },
       ...(notes.length ? { note: [{ text: notes.join(' ') }] } : {}),
@@ -151,7 +151,7 @@ export function bloodGasResources(g: BloodGasIn, patientId: number): Resource[] 
       category: [{ coding: [{ system: OBS_CATEGORY, code: 'laboratory', display: 'Laboratory' }] }],
       code: { coding: [{ system: LOINC, code: def.code, display: def.display }], text: `${def.display}${g.sample_type === 'arterial' ? '' : ` (${g.sample_type} sample)`}` },
       subject: { reference: `Patient/patient-${patientId}` },
-      effectiveDateTime: iso(g.sampled_at),
+      effectiveDateTime: toIso(g.sampled_at),
       ...(g.recorded_by_name ? { performer: [{ display: g.recorded_by_name }] } : {}),
       valueQuantity: { value: value!, unit: def.unit, system: UCUM, code: def.unit },
       ...(parts.length ? { note: [{ text: parts.join(' ') }] } : {}),
@@ -171,7 +171,7 @@ export function goalResource(order: OrderIn, patientId: number, replacedBy: Orde
     resourceType: 'Goal',
     id: `band-${order.id}`,
     lifecycleStatus: replacedBy ? 'cancelled' : 'active',
-    ...(replacedBy ? { statusDate: dateOnly(replacedBy.ordered_at), statusReason: `Replaced by the band ordered ${iso(replacedBy.ordered_at)}` } : {}),
+    ...(replacedBy ? { statusDate: dateOnly(replacedBy.ordered_at), statusReason: `Replaced by the band ordered ${toIso(replacedBy.ordered_at)}` } : {}),
     description: { text: `SpO₂ target band ${order.low}–${order.high} %` },
     subject: { reference: `Patient/patient-${patientId}` },
     startDate: dateOnly(order.ordered_at),
@@ -180,7 +180,7 @@ export function goalResource(order: OrderIn, patientId: number, replacedBy: Orde
       measure: { coding: [{ system: LOINC, code: '59408-5', display: VITALS.spo2.codes[0][1] }] },
       detailRange: { low: pct(order.low), high: pct(order.high) },
     }],
-    note: [{ authorString: order.ordered_by_name, time: iso(order.ordered_at), text: `${order.reason}${order.news2_scale === 2 ? ` (NEWS2 Scale 2${order.scale_reason ? `: ${order.scale_reason}` : ''})` : ''}` }],
+    note: [{ authorString: order.ordered_by_name, time: toIso(order.ordered_at), text: `${order.reason}${order.news2_scale === 2 ? ` (NEWS2 Scale 2${order.scale_reason ? `: ${order.scale_reason}` : ''})` : ''}` }],
   };
 }
 

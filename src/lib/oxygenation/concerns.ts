@@ -1,3 +1,4 @@
+import { placeInBand, type BandStateName } from './band-state.ts';
 import { ComputationInputError, requireFinite } from './errors';
 import { ROOM_AIR_FIO2 } from './constants';
 import {
@@ -9,7 +10,7 @@ import {
 } from './settings';
 import { trustedWith } from './trust';
 import type { Band, OxygenDevice, Reading } from './types';
-import { checkTime, maxGapMsFor, validateBand } from './validate';
+import { maxGapMsFor, sortedUpTo, validateBand } from './validate';
 import { OXYGEN_DEVICES } from './types';
 
 const MS_PER_MIN = 60_000;
@@ -159,15 +160,11 @@ export function detectConcerns(
   let aboveFirst = -1;
   let aboveLast = -1;
 
-  let last = -1;
-  let prevAt = -Infinity;
-  for (let i = 0; i < readings.length; i++) {
+  const count = sortedUpTo(readings, now);
+  const last = count - 1;
+  for (let i = 0; i < count; i++) {
     const r = readings[i]!;
     const at = r.at;
-    checkTime(at, prevAt, i);
-    prevAt = at;
-    if (at > now) break;
-    last = i;
     const trusted = trustedWith(r, minPi, i);
     const source = r.source;
     const stands = maxGapMsFor(source, chartedMs, deviceMs, importMs, i); // also validates the source
@@ -290,7 +287,7 @@ export function detectConcerns(
   return { belowBand, cannotVerify, aboveOnOxygen };
 }
 
-export type BandStateName = 'below' | 'in' | 'above' | 'untrusted' | 'no_reading' | 'no_band';
+export type { BandStateName } from './band-state.ts';
 
 export interface BandStateResult {
   state: BandStateName;
@@ -334,15 +331,11 @@ export function bandState(
   let trustedSince = NaN;
   let untrustedSince = NaN;
   let lastTrusted = false;
-  let last = -1;
-  let prevAt = -Infinity;
-  for (let i = 0; i < readings.length; i++) {
+  const count = sortedUpTo(readings, now);
+  const last = count - 1;
+  for (let i = 0; i < count; i++) {
     const r = readings[i]!;
     const at = r.at;
-    checkTime(at, prevAt, i);
-    prevAt = at;
-    if (at > now) break;
-    last = i;
     const trusted = trustedWith(r, cfg.minPerfusionIndexPct, i);
     oxygen.update(r, i);
     const gap = maxGapMsFor(r.source, chartedMs, deviceMs, importMs, i);
@@ -360,7 +353,7 @@ export function bandState(
     untrustedSince = NaN;
     if (band === null) continue;
     const spo2 = r.spo2 as number;
-    const state: BandStateName = spo2 < band.low ? 'below' : spo2 > band.high ? 'above' : 'in';
+    const state: BandStateName = placeInBand(spo2, band);
     if (state !== trustedState) {
       trustedState = state;
       trustedSince = at;

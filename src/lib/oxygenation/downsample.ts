@@ -2,7 +2,7 @@ import { ComputationInputError } from './errors';
 import { DEFAULT_TRUST_SETTINGS, resolveSettings, type TrustSettings } from './settings';
 import { trustedWith } from './trust';
 import type { BandOrder, Reading } from './types';
-import { checkTime, orderColumns } from './validate';
+import { orderColumns, sortedUpTo } from './validate';
 
 /**
  * Largest-triangle-three-buckets downsampling (Steinarsson, "Downsampling time series for visual
@@ -130,12 +130,10 @@ export function belowBandRunEdges(
   let nextFrom = cols.from.length > 0 ? cols.from[0]! : Infinity;
   let low = NaN;
   let runLast = -1; // last trusted below-band reading of the open run
-  let prevAt = -Infinity;
+  sortedUpTo(readings);
   for (let i = 0; i < readings.length; i++) {
     const r = readings[i]!;
     const at = r.at;
-    checkTime(at, prevAt, i);
-    prevAt = at;
     while (at >= nextFrom) {
       k++;
       low = cols.low[k]!;

@@ -1,6 +1,6 @@
 import { ComputationInputError } from './errors';
 import { DEFAULT_TRUST_SETTINGS, resolveSettings, type TrustSettings } from './settings';
-import type { Reading } from './types';
+import type { Reading, TraceQuality } from './types';
 
 /**
  * A reading is trusted when its trace is clean or weak, the perfusion index (when given) is not
@@ -35,14 +35,22 @@ export function trustedWith(r: Reading, minPi: number, index: number): boolean {
   return pi === undefined || pi === null || pi >= minPi;
 }
 
+/** The trace quality in the words of the board, the chart and the record. */
+export const TRACE_WORDS: Record<TraceQuality, string> = {
+  clean: 'clean trace',
+  weak: 'weak trace',
+  noisy: 'noisy trace',
+  absent: 'no trace',
+};
+
 /**
  * Why a reading is not trusted, in the words the board and the chart show (null when it is trusted):
  * its trace, no SpO₂, or a perfusion index under the unit's threshold — with the value.
  */
 export function untrustedReason(r: Reading, minPi: number): string | null {
   if (trustedWith(r, minPi, -1)) return null;
-  if (r.trace === 'noisy') return 'noisy trace';
-  if (r.trace === 'absent') return 'no trace (probe off?)';
+  if (r.trace === 'noisy') return TRACE_WORDS.noisy;
+  if (r.trace === 'absent') return `${TRACE_WORDS.absent} (probe off?)`;
   if (r.spo2 === null) return 'no SpO₂ value';
   return `perfusion index ${r.perfusionIndex} % under ${minPi} %`;
 }

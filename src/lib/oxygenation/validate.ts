@@ -57,6 +57,21 @@ export function maxGapMsFor(
 }
 
 /** Throws unless `at` is finite and not before `prevAt`. */
+/**
+ * Checks that readings carry finite times sorted ascending, up to the first one after `now`, and
+ * returns how many stand at or before `now`: every reading loop runs over `0 … count - 1`.
+ */
+export function sortedUpTo(readings: readonly { at: number }[], now = Infinity): number {
+  let prevAt = -Infinity;
+  for (let i = 0; i < readings.length; i++) {
+    const at = readings[i]!.at;
+    checkTime(at, prevAt, i);
+    if (at > now) return i;
+    prevAt = at;
+  }
+  return readings.length;
+}
+
 export function checkTime(at: number, prevAt: number, index: number): void {
   // `at - at === 0` is false for NaN and both infinities, so one comparison pair covers them all.
   if (!(at >= prevAt && at - at === 0)) {

@@ -3,9 +3,12 @@
  * bed chart makes), per patient and day, clipped to the patient's stays in the unit; this module only
  * adds them up. Response times and overdue obs are counted here from event times.
  */
+import { firstIndexAtOrAfter } from '~/lib/sorted.ts';
 import { bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, type BandOrder, type Reading } from '~/lib/oxygenation/index.ts';
 import type { LocalDay } from './shift.ts';
 import { spread, type Spread } from './stats.ts';
+
+const atOf = (r: { at: number }) => r.at;
 
 export interface ReportPatientInput {
   patientId: number;
@@ -64,18 +67,6 @@ function windowsIn(day: { from: number; to: number }, stays: ReportPatientInput[
   return out;
 }
 
-/** First index with `at >= t` (readings sorted by time). */
-function firstAtOrAfter(readings: readonly Reading[], t: number): number {
-  let lo = 0;
-  let hi = readings.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (readings[mid]!.at < t) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
-
 // No reading carries forward further than the longest gap setting, so earlier readings cannot change a window.
 const LOOKBACK_MS = Math.max(DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin, DEFAULT_COMPLIANCE_SETTINGS.deviceMaxGapMin, DEFAULT_COMPLIANCE_SETTINGS.importMaxGapMin) * 60_000;
 
@@ -89,7 +80,7 @@ export function patientDay(p: ReportPatientInput, day: { date: string; from: num
   if (windows.length === 0) return null;
   const f = { stayMin: 0, inBandMin: 0, belowMin: 0, aboveMin: 0, untrustedMin: 0, noReadingMin: 0, burdenPctMin: 0, trustedReadings: 0, untrustedReadings: 0 };
   for (const w of windows) {
-    const slice = p.readings.slice(firstAtOrAfter(p.readings, w.from - LOOKBACK_MS), firstAtOrAfter(p.readings, w.to));
+    const slice = p.readings.slice(firstIndexAtOrAfter(p.readings, w.from - LOOKBACK_MS, atOf), firstIndexAtOrAfter(p.readings, w.to, atOf));
     const c = bandCompliance(slice, p.orders, w);
     f.stayMin += (w.to - w.from) / MIN;
     f.inBandMin += c.inBandMin; f.belowMin += c.belowMin; f.aboveMin += c.aboveMin; f.untrustedMin += c.untrustedMin;

@@ -2,7 +2,7 @@ import type { APIContext, APIRoute } from 'astro';
 import { ZodError, type ZodType, type ZodTypeDef } from 'zod';
 import { hasRole, type Role } from '~/lib/auth/roles.ts';
 import type { SessionUser } from './queries/users.ts';
-import { isDatabaseUnavailable } from './queries/transaction.ts';
+import { isDatabaseUnavailable, isDuplicateKey } from './queries/transaction.ts';
 import { strictJsonSchema, strictTextSchema } from './strict-input.ts';
 import { bodyLimitFor, DEFAULT_BODY_LIMIT } from './body-limits.ts';
 
@@ -139,4 +139,17 @@ export function endpoint(handler: (ctx: APIContext) => Promise<Response>): APIRo
       return errorResponse(err);
     }
   };
+}
+
+/**
+ * Runs `work`; a duplicate key from the database (a unique index settling a race or a repeat)
+ * becomes the given 409 with its own code, words and fields.
+ */
+export async function conflictOnDuplicate<T>(work: () => Promise<T>, code: string, message: string, fields?: Record<string, string>): Promise<T> {
+  try {
+    return await work();
+  } catch (err) {
+    if (isDuplicateKey(err)) throw new ApiError(409, code, message, fields);
+    throw err;
+  }
 }

@@ -10,7 +10,6 @@ import { spansUnits, type Role } from '~/lib/auth/roles.ts';
 import { unitRuleProblem, type CreateUserInput, type UpdateUserInput } from '~/lib/staff/inputs.ts';
 import { LINK_HOURS, setPasswordMail } from '~/lib/staff/link-mail.ts';
 import { ApiError } from './http.ts';
-import { db } from './queries/db.ts';
 import { writeAudit } from './queries/audit.ts';
 import { enqueueMail } from './queries/outbox.ts';
 import { expireOpenLinks, insertLink, insertStaff, lockActiveAdmins, lockStaff, unitIdByCode, unitZoneOf, updateStaff, type StaffRow } from './queries/staff.ts';

@@ -1,16 +1,15 @@
 /** Units and beds run by administrators: create and rename units; add, rename, reorder and retire beds. Audited. */
+import { toIso } from '~/lib/time/iso.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { ApiError } from './http.ts';
-import { db } from './queries/db.ts';
 import { writeAudit } from './queries/audit.ts';
 import { insertBed, insertUnit, lockBedsOfUnit, lockUnitByCode, openStayInBedLocked, unitsWithBeds, updateBed, updateUnit, type AdminBedRow } from './queries/admin-units.ts';
 import type { CreateUnitInput } from '~/lib/staff/inputs.ts';
 
 const isDuplicate = (err: unknown) => (err as { code?: string })?.code === 'ER_DUP_ENTRY';
-const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 function bedView(b: AdminBedRow) {
-  return { id: b.id, label: b.label, position: b.position, active: Boolean(b.active), retiredAt: iso(b.retired_at), occupied: Boolean(b.occupied) };
+  return { id: b.id, label: b.label, position: b.position, active: Boolean(b.active), retiredAt: toIso(b.retired_at), occupied: Boolean(b.occupied) };
 }
 
 export async function listUnitsWithBeds() {

@@ -27,3 +27,10 @@ export function isRealIsoDate(text: string): boolean {
   const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text);
   return m !== null && isRealCalendarDate(Number(m[1]), Number(m[2]), Number(m[3]));
 }
+
+/** A stored instant as the API sends it (ISO 8601, UTC); null stays null. */
+export function toIso(d: Date | number | string): string;
+export function toIso(d: Date | number | string | null | undefined): string | null;
+export function toIso(d: Date | number | string | null | undefined): string | null {
+  return d === null || d === undefined ? null : new Date(d).toISOString();
+}

@@ -3,6 +3,7 @@
  * replaces (marked superseded) and "entered in error" marks the row; every write is audited in its
  * transaction, and an occult-hypoxaemia pair raises the bedside task in that same transaction.
  */
+import { toIso } from '~/lib/time/iso.ts';
 import type { Knex } from 'knex';
 import type { BloodGasCreated, BloodGasList, BloodGasView, GasMark, NearestSpo2 } from '~/lib/bloodgas/api-types.ts';
 import type { BloodGasInput } from '~/lib/bloodgas/bloodgas-input.ts';
@@ -27,7 +28,6 @@ import { clearOccultHypoxaemia, raiseOccultHypoxaemia } from '~/lib/server/escal
 /** The SpO₂ of the pair: the nearest trusted reading within this of the sample time. */
 export const PAIR_WINDOW_MS = 2 * 60_000;
 
-const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null);
 const num = (v: string | number | null | undefined) => (v === null || v === undefined ? null : Number(v));
 
 async function gasSettings(patientId: number, conn: Knex | Knex.Transaction = db()) {
@@ -49,11 +49,11 @@ function forDerivation(r: BloodGasRow) {
 export function gasView(r: BloodGasListRow, barometricMmHg: number): BloodGasView {
   const g = forDerivation(r);
   return {
-    id: Number(r.id), sampledAt: iso(r.sampled_at)!, sampleType: r.sample_type, ph: Number(r.ph), pao2MmHg: g.pao2MmHg, paco2MmHg: g.paco2MmHg,
+    id: Number(r.id), sampledAt: toIso(r.sampled_at)!, sampleType: r.sample_type, ph: Number(r.ph), pao2MmHg: g.pao2MmHg, paco2MmHg: g.paco2MmHg,
     enteredUnit: r.entered_unit, sao2: g.sao2, hco3: num(r.hco3), baseExcess: num(r.base_excess), lactate: num(r.lactate), hbGdl: g.hbGdl, fio2: g.fio2,
     spo2AtSample: r.spo2_at_sample, spo2Source: r.spo2_source, note: r.note, status: r.status,
     replacesId: r.replaces_id === null ? null : Number(r.replaces_id), replacedById: r.replaced_by_id === null ? null : Number(r.replaced_by_id),
-    statusReason: r.status_reason, statusBy: r.status_by_name, statusAt: iso(r.status_at), recordedBy: r.recorded_by_name, recordedAt: iso(r.recorded_at)!,
+    statusReason: r.status_reason, statusBy: r.status_by_name, statusAt: toIso(r.status_at), recordedBy: r.recorded_by_name, recordedAt: toIso(r.recorded_at)!,
     derived: deriveGas(g, barometricMmHg), flags: gasFlags(g),
   };
 }
@@ -69,7 +69,7 @@ async function authoriseGasCharting(user: SessionUser, patientId: number) {
 async function nearestTrustedSpo2(patientId: number, at: Date, conn: Knex | Knex.Transaction = db()): Promise<NearestSpo2 | null> {
   for (const r of await spo2ReadingsNear(patientId, at, PAIR_WINDOW_MS, conn)) {
     const reading = { at: new Date(r.taken_at).getTime(), spo2: Number(r.spo2), trace: r.trace, perfusionIndex: num(r.perfusion_index), source: r.source };
-    if (isTrusted(reading)) return { spo2: Number(r.spo2), at: iso(r.taken_at)!, source: r.source };
+    if (isTrusted(reading)) return { spo2: Number(r.spo2), at: toIso(r.taken_at)!, source: r.source };
   }
   return null;
 }

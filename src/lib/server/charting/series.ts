@@ -1,4 +1,5 @@
 /** The bed chart's data: downsampled lines, band steps and the derived figures for one window. */
+import { firstIndexAtOrAfter } from '~/lib/sorted.ts';
 import type { DerivedFigures, Fio2Step, SeriesResponse, Spo2Point, SeriesPoint } from '~/lib/charting/api-types.ts';
 import {
   bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, imputedPf, keepBelowBandRunEdges, isTrusted, lttb, news2, roxIndex, sfRatio, type BandComplianceResult, type OxygenDevice, type Reading,
@@ -14,7 +15,6 @@ import { gasMarks } from '~/lib/server/bloodgas/blood-gases.ts';
 import { toBandOrders, toChartedObs, toReading } from './readings.ts';
 import { news2InputOf } from '~/lib/charting/charted-obs.ts';
 
-export const SERIES_WINDOWS = [6, 12, 24, 72] as const;
 /** Points per line after downsampling: enough for a wide screen, small enough to draw fast. */
 export const MAX_POINTS_PER_LINE = 1500;
 /** Windows longer than this are served from the per-minute rollup; shorter ones from raw readings. */
@@ -43,7 +43,7 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   if (hours <= RAW_WINDOW_MAX_HOURS) {
     const rows = await currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1));
     const readings = rows.map(toReading);
-    const windowReadings = readings.slice(firstIndexAtOrAfter(readings, from));
+    const windowReadings = readings.slice(firstIndexAtOrAfter(readings, from, (r) => r.at));
     chartedRows = rows.filter((r) => r.source === 'charted');
     compliance = bandCompliance(readings, orders, { from, to });
     latest = latestTrusted(readings);
@@ -131,17 +131,6 @@ function minuteLines(minutes: MinuteRollup[], charted: Reading[], from: number, 
     hrN += m.hrN;
   }
   return { spo2, heartRate, rawCounts: { spo2: spo2N, heartRate: hrN }, bucketMs: env.bucketMs };
-}
-
-function firstIndexAtOrAfter(readings: Reading[], t: number): number {
-  let lo = 0;
-  let hi = readings.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (readings[mid]!.at < t) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
 }
 
 /** FiO₂ as a step line from charted obs: the value in force at the window start, then each change of value, device or flow. */

@@ -7,6 +7,7 @@
  * (gateway + PV1-3 bed) both call `ingestReadings`, so validation, idempotency by bed and time,
  * the transaction and the escalation checks are the same code for both.
  */
+import { stayAt } from '~/lib/patients/stays.ts';
 import { ZodError, type z } from 'zod';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { ingestBatchSchema, toDeviceReading } from '~/lib/imports/reading.ts';
@@ -74,7 +75,7 @@ async function ingestBatch(key: IngestSource, batch: Batch, now: Date): Promise<
     let withoutPatient = 0;
     for (const r of readings) {
       const t = r.at.getTime();
-      const stay = stays.find((s) => new Date(s.started_at).getTime() <= t && (s.ended_at === null || t < new Date(s.ended_at).getTime()));
+      const stay = stayAt(stays, t);
       if (!stay) { withoutPatient++; continue; }
       let rows = byPatient.get(stay.patient_id);
       if (!rows) byPatient.set(stay.patient_id, (rows = []));

@@ -2,9 +2,11 @@
  * Device keys: a gateway's credential for one bed. The key is shown once at creation; only its
  * SHA-256 is stored. Creation and revocation are audited in their transaction.
  */
+import { toIso } from '~/lib/time/iso.ts';
 import { createHash, randomBytes } from 'node:crypto';
 import type { DeviceKeyView } from '~/lib/devices/api-types.ts';
 import { ApiError } from '~/lib/server/http.ts';
+import { revokeCredential } from '~/lib/server/credentials.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import type { IngestSource } from './ingest.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -15,13 +17,11 @@ import {
 
 const KEY_PREFIX = 'ebw_';
 
-const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
-
 export function keyView(r: DeviceKeyListRow): DeviceKeyView {
   return {
     id: r.id, label: r.label, prefix: r.key_prefix, bed: { id: r.bed_id, label: r.bed_label, unitCode: r.unit_code, unitName: r.unit_name },
-    createdAt: iso(r.created_at)!, createdBy: r.created_by_name, lastUsedAt: iso(r.last_used_at),
-    revokedAt: iso(r.revoked_at), revokedBy: r.revoked_by_name, revokeReason: r.revoke_reason,
+    createdAt: toIso(r.created_at)!, createdBy: r.created_by_name, lastUsedAt: toIso(r.last_used_at),
+    revokedAt: toIso(r.revoked_at), revokedBy: r.revoked_by_name, revokeReason: r.revoke_reason,
   };
 }
 
@@ -54,13 +54,7 @@ export async function createDeviceKey(actorId: number | null, input: { bedId: nu
 }
 
 export async function revokeKey(actorId: number | null, id: number, reason: string, now = new Date()): Promise<DeviceKeyView> {
-  await withTransactionRetry(async (trx) => {
-    const key = await lockDeviceKey(trx, id);
-    if (!key) throw new ApiError(404, 'not_found', 'No device key with that id.');
-    if (key.revoked_at) throw new ApiError(409, 'already_revoked', 'This key was already revoked.');
-    await revokeDeviceKey(trx, id, { revoked_at: now, revoked_by: actorId, revoke_reason: reason });
-    await writeAudit(trx, { actorId, action: 'device_key.revoke', entity: 'device_key', entityId: id, before: { revokedAt: null }, after: { revokedAt: now.toISOString(), reason }, at: now });
-  });
+  await revokeCredential({ entity: 'device_key', noun: 'device key', shortNoun: 'key', lock: lockDeviceKey, revoke: revokeDeviceKey }, actorId, id, reason, now);
   return keyView((await findDeviceKeyListRow(id))!);
 }
 

@@ -5,7 +5,7 @@
  */
 import type { Knex } from 'knex';
 import type { Reading } from '~/lib/oxygenation/index.ts';
-import { EMAILED_KINDS, type EscalationAction, type EscalationKind } from '~/lib/escalations/decide.ts';
+import { EMAILED_KINDS, type EscalationAction } from '~/lib/escalations/decide.ts';
 import { judgePatient, lastClosedRunStarts, toOpenEscalation } from '~/lib/escalations/judge.ts';
 import { settingsFromRow, type UnitSettings } from '~/lib/units/settings.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';

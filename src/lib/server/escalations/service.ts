@@ -1,4 +1,5 @@
 /** People's side of escalations: list, read, claim, close; and the per-unit settings. */
+import { toIso } from '~/lib/time/iso.ts';
 import type { Knex } from 'knex';
 import { isTrusted, type Reading } from '~/lib/oxygenation/index.ts';
 import { readingsByPatient } from '~/lib/server/charting/readings.ts';
@@ -19,7 +20,6 @@ import { unitsVisibleTo } from '~/lib/server/units-visible.ts';
 import { escalationPermissions } from './access.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 
-const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 const parse = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
 export function escalationView(e: EscalationListRow, user: SessionUser): EscalationView {
@@ -27,12 +27,12 @@ export function escalationView(e: EscalationListRow, user: SessionUser): Escalat
   return {
     raisedToClaimedMin: minutes(e.raised_at, e.claimed_at), claimedToClosedMin: minutes(e.claimed_at, e.closed_at),
     id: e.id, kind: e.kind, kindLabel: KIND_LABELS[e.kind], severity: e.severity, state: e.state,
-    raisedAt: iso(e.raised_at)!, runStart: iso(e.run_start)!, runEnd: iso(e.run_end)!,
+    raisedAt: toIso(e.raised_at)!, runStart: toIso(e.run_start)!, runEnd: toIso(e.run_end)!,
     unit: { code: e.unit_code, name: e.unit_name, timeZone: e.unit_time_zone }, bedLabel: e.bed_label,
     patient: { id: e.patient_id, label: patientLabel(e.given_name, e.family_name, e.mrn) },
-    claimedBy: e.claimed_by_name, claimedAt: iso(e.claimed_at), closedBy: e.closed_by_name, closedAt: iso(e.closed_at),
+    claimedBy: e.claimed_by_name, claimedAt: toIso(e.claimed_at), closedBy: e.closed_by_name, closedAt: toIso(e.closed_at),
     outcome: e.outcome, outcomeLabel: e.outcome ? OUTCOME_LABELS[e.outcome as Outcome | 'condition_cleared'] : null, closeNote: e.close_note,
-    lastNotifiedAt: iso(e.last_notified_at), notifyCount: e.notify_count, backInBandAt: iso(e.back_in_band_at), evidence: parse(e.evidence) as EscalationEvidence,
+    lastNotifiedAt: toIso(e.last_notified_at), notifyCount: e.notify_count, backInBandAt: toIso(e.back_in_band_at), evidence: parse(e.evidence) as EscalationEvidence,
     can: escalationPermissions(user, e),
   };
 }
@@ -94,7 +94,7 @@ async function visibleEscalation(user: SessionUser, id: number): Promise<Escalat
 export async function escalationDetail(user: SessionUser, id: number): Promise<EscalationDetail> {
   const e = await visibleEscalation(user, id);
   const events = await eventsOf(id);
-  return { ...escalationView(e, user), events: events.map((v) => ({ id: Number(v.id), type: v.type, at: iso(v.at)!, actor: v.actor_name ?? 'Ebbwatch', detail: parse(v.detail) })) };
+  return { ...escalationView(e, user), events: events.map((v) => ({ id: Number(v.id), type: v.type, at: toIso(v.at)!, actor: v.actor_name ?? 'Ebbwatch', detail: parse(v.detail) })) };
 }
 
 export async function claimEscalation(user: SessionUser, id: number, now = new Date()): Promise<EscalationDetail> {
@@ -146,7 +146,7 @@ export async function readUnitSettings(user: SessionUser, code: string) {
       shiftStart: s.shiftStart, shiftEnd: s.shiftEnd,
       gasUnit: s.gasUnit, barometricMmHg: s.barometricMmHg,
       unitPhone: s.unitPhone, monitorSilentMin: s.monitorSilentMin, silentBelowProbeMin: s.silentBelowProbeMin },
-    updatedAt: row ? iso(row.updated_at) : null,
+    updatedAt: row ? toIso(row.updated_at) : null,
   };
 }
 

@@ -5,6 +5,8 @@
  * what the preview showed for that file (the hash ties the two).
  */
 import type { ImportView, TrendPreview } from '~/lib/imports/api-types.ts';
+import { toIso } from '~/lib/time/iso.ts';
+import { stayAt } from '~/lib/patients/stays.ts';
 import type { TrendMapping } from '~/lib/imports/mapping.ts';
 import { TrendFileError, groupRefusals, parseTrendCsv, type TrendRow } from '~/lib/imports/trend-csv.ts';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
@@ -27,22 +29,16 @@ import { formatDateTime } from '~/lib/time/format.ts';
 const LIST_LIMIT = 200;
 const FUTURE_SLACK_MS = 2 * 60_000;
 
-const iso = (d: Date | number | null) => (d === null ? null : new Date(d).toISOString());
-
 export function importView(r: ImportListRow): ImportView {
   return {
     id: Number(r.id), patientId: r.patient_id, fileName: r.file_name, fileHash: r.file_hash, fileBytes: r.file_bytes, rowsInFile: r.rows_in_file,
-    rowsStored: r.rows_stored, rowsSkipped: r.rows_skipped, rowsRefused: r.rows_refused, firstAt: iso(r.first_at), lastAt: iso(r.last_at),
-    committedAt: iso(r.committed_at)!, committedBy: r.committed_by_name, withdrawnAt: iso(r.withdrawn_at), withdrawnBy: r.withdrawn_by_name,
+    rowsStored: r.rows_stored, rowsSkipped: r.rows_skipped, rowsRefused: r.rows_refused, firstAt: toIso(r.first_at), lastAt: toIso(r.last_at),
+    committedAt: toIso(r.committed_at)!, committedBy: r.committed_by_name, withdrawnAt: toIso(r.withdrawn_at), withdrawnBy: r.withdrawn_by_name,
     withdrawReason: r.withdraw_reason,
   };
 }
 
 interface Plan { preview: TrendPreview; store: TrendRow[]; stays: StayRow[] }
-
-function stayAt(stays: StayRow[], t: number, now: number): StayRow | undefined {
-  return stays.find((s) => new Date(s.started_at).getTime() <= t && t < (s.ended_at ? new Date(s.ended_at).getTime() : now + FUTURE_SLACK_MS));
-}
 
 async function plan(user: SessionUser, patientId: number, file: UploadedFile, mapping: TrendMapping, now: Date): Promise<Plan & { stay: StayRow }> {
   const { stay } = await authorisePatient(user, patientId, 'chart');
@@ -65,7 +61,7 @@ async function plan(user: SessionUser, patientId: number, file: UploadedFile, ma
   const overlapping: TrendRow[] = [];
   const store: TrendRow[] = [];
   for (const r of parsed.rows) {
-    if (!stayAt(stays, r.at, now.getTime())) outside.push(r);
+    if (!stayAt(stays, r.at, now.getTime() + FUTURE_SLACK_MS)) outside.push(r);
     else if (existing.has(Math.floor(r.at / 1000))) overlapping.push(r);
     else store.push(r);
   }
@@ -83,7 +79,7 @@ async function plan(user: SessionUser, patientId: number, file: UploadedFile, ma
       notes: parsed.notes.slice(0, LIST_LIMIT),
       unfitColumns: parsed.unfitColumns,
       alreadyImported: earlier
-        ? { importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }
+        ? { importId: Number(earlier.id), committedAt: toIso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }
         : null,
     },
   };
@@ -121,7 +117,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
         mapping: JSON.stringify(mapping), committed_by: user.id, committed_at: now,
       });
       await insertImportReadings(trx, store.map((r) => ({
-        patient_id: patientId, bed_id: stayAt(stays, r.at, now.getTime())?.bed_id ?? null, taken_at: new Date(r.at), source: 'import' as const,
+        patient_id: patientId, bed_id: stayAt(stays, r.at, now.getTime() + FUTURE_SLACK_MS)?.bed_id ?? null, taken_at: new Date(r.at), source: 'import' as const,
         spo2: r.spo2, heart_rate: r.heartRate, perfusion_index: r.perfusionIndex, trace: r.trace, import_id: importId, recorded_by: user.id, recorded_at: now,
       })));
       await saveUnitMapping(trx, stay.unit_id, mapping, user.id, now);
@@ -138,7 +134,7 @@ export async function commitTrend(user: SessionUser, patientId: number, file: Up
     // Two commits of one file at once: the unique index on the standing file hash settles it.
     if ((err as { code?: string }).code === 'ER_DUP_ENTRY') {
       const earlier = await activeImportOfFile(file.hash);
-      if (earlier) throw duplicateFile({ importId: Number(earlier.id), committedAt: iso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }, stay.time_zone);
+      if (earlier) throw duplicateFile({ importId: Number(earlier.id), committedAt: toIso(earlier.committed_at)!, committedBy: earlier.committed_by_name, samePatient: earlier.patient_id === patientId }, stay.time_zone);
     }
     throw err;
   }

@@ -1,0 +1,13 @@
+/** Searching arrays kept in time order (readings, chart points). Pure. */
+
+/** The first index whose time is at or after `t` (items sorted by `timeOf`); `items.length` when none. */
+export function firstIndexAtOrAfter<T>(items: readonly T[], t: number, timeOf: (item: T) => number): number {
+  let lo = 0;
+  let hi = items.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (timeOf(items[mid]!) < t) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}

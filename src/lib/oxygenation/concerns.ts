@@ -114,12 +114,7 @@ class OxygenTracker {
  *   forward, or a non-room-air device when FiO₂ is unknown), spanning `aboveOnOxygenMin`; ended
  *   by a trusted reading that is not above band or is on room air.
  */
-export function detectConcerns(
-  readings: readonly Reading[],
-  band: Band | null,
-  now: number,
-  s?: Partial<EscalationSettings>,
-): Concerns {
+export function detectConcerns(readings: readonly Reading[], band: Band | null, now: number, s?: Partial<EscalationSettings>): Concerns {
   const cfg = resolveSettings(DEFAULT_ESCALATION_SETTINGS, s, 'escalationSettings');
   if (!Number.isInteger(cfg.consecutiveCharted) || cfg.consecutiveCharted < 1) {
     throw new ComputationInputError('escalationSettings.consecutiveCharted', 'must be a whole number of at least 1', cfg.consecutiveCharted);
@@ -311,12 +306,7 @@ export interface BandStateResult {
  *   a trusted reading in another state or a gap with no reading does.
  * All readings are judged against `band`; readings after `now` are ignored.
  */
-export function bandState(
-  readings: readonly Reading[],
-  band: Band | null,
-  now: number,
-  s?: Partial<ComplianceSettings>,
-): BandStateResult {
+export function bandState(readings: readonly Reading[], band: Band | null, now: number, s?: Partial<ComplianceSettings>): BandStateResult {
   const cfg = resolveSettings(DEFAULT_COMPLIANCE_SETTINGS, s, 'complianceSettings');
   validateMoment(band, now);
   const chartedMs = cfg.chartedMaxGapMin * MS_PER_MIN;

@@ -11,3 +11,15 @@ export function firstIndexAtOrAfter<T>(items: readonly T[], t: number, timeOf: (
   }
   return lo;
 }
+
+/** The earliest and latest time among `items` (any order); Infinity / -Infinity when empty. */
+export function timeSpan<T>(items: readonly T[], timeOf: (item: T) => number): { first: number; last: number } {
+  let first = Infinity;
+  let last = -Infinity;
+  for (const item of items) {
+    const t = timeOf(item);
+    if (t < first) first = t;
+    if (t > last) last = t;
+  }
+  return { first, last };
+}

@@ -6,6 +6,7 @@ import { useId, useState, type FormEvent } from 'react';
 import { enteredInErrorSchema } from '~/lib/charting/obs-input.ts';
 import { postJson } from '~/lib/client/fetch-json.ts';
 import { useForm } from '~/lib/client/use-form.ts';
+import FormButtons from '~/components/FormButtons.tsx';
 
 interface Props {
   /** The endpoint that marks it, e.g. `/api/observations/12/entered-in-error`. */
@@ -53,10 +54,7 @@ export default function EnteredInErrorForm({ url, label, what, onDone, onCancel 
       />
       {fieldError && <p id={`${uid}-reason-error`} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300">{fieldError}</p>}
       {alert && <p role="alert" className="mt-1 text-sm text-coral-800 dark:text-coral-200">{alert}</p>}
-      <div className="mt-2 flex gap-2">
-        <button type="submit" className="btn-primary" disabled={busy}>Mark entered in error</button>
-        <button type="button" className="btn-quiet" onClick={onCancel}>Cancel</button>
-      </div>
+      <FormButtons action="Mark entered in error" onCancel={onCancel} busy={busy} className="mt-2 flex gap-2" />
     </form>
   );
 }

@@ -260,29 +260,29 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
     </ComposedChart>
   );
 
-  const hrPanel = model && series && (
-    <ComposedChart {...(w ? { width: w, height: 110 } : {})} margin={MARGIN} data={model.hr} accessibilityLayer={false}>
+  // The heart-rate and oxygen panels share the SpO₂ panel's time axis, escalation marks and cursor.
+  const lowerPanel = (height: number, data: unknown[], showTicks: boolean, yAxis: ReactNode, lines: ReactNode[]) => (
+    <ComposedChart {...(w ? { width: w, height } : {})} margin={MARGIN} data={data} accessibilityLayer={false}>
       <CartesianGrid stroke={colours.grid} vertical={false} yAxisId="y" />
-      {xAxis(false)}
-      <YAxis yAxisId="y" domain={model.hrDomain} tick={{ fill: colours.axis, fontSize: 12 }} stroke={colours.axis} width={Y_AXIS_W} tickCount={4} />
-      {model.hrEnvelope.length > 0 && <Area yAxisId="y" dataKey="range" data={model.hrEnvelope} type="linear" stroke="none" fill={colours.hr} fillOpacity={0.2} isAnimationActive={false} />}
-      <Line yAxisId="y" dataKey="v" data={model.hr} type="linear" stroke={colours.hr} strokeWidth={1.5} dot={false} isAnimationActive={false} name="Heart rate" connectNulls={false} />
+      {xAxis(showTicks)}
+      {yAxis}
+      {lines}
       {escalationLines(false)}
       {cursorLine}
     </ComposedChart>
   );
 
-  const o2Panel = model && series && (
-    <ComposedChart {...(w ? { width: w, height: 120 } : {})} margin={MARGIN} data={model.fio2} accessibilityLayer={false}>
-      <CartesianGrid stroke={colours.grid} vertical={false} yAxisId="y" />
-      {xAxis(true)}
-      <YAxis yAxisId="y" domain={[0.2, 1]} ticks={[0.21, 0.4, 0.6, 0.8, 1]} tickFormatter={(v: number) => v.toFixed(2)} tick={{ fill: colours.axis, fontSize: 12 }} stroke={colours.axis} width={Y_AXIS_W} />
-      <Line yAxisId="y" dataKey="v" data={model.fio2} type="stepAfter" stroke={colours.fio2} strokeWidth={2} dot={false} isAnimationActive={false} name="FiO₂" />
-      <Scatter yAxisId="y" dataKey="v" data={model.fio2Labels} shape={(p: unknown) => <Fio2Label {...(p as object)} colour={colours.fio2} />} isAnimationActive={false} name="FiO₂ changes" />
-      {escalationLines(false)}
-      {cursorLine}
-    </ComposedChart>
-  );
+  const hrPanel = model && series && lowerPanel(110, model.hr, false,
+    <YAxis yAxisId="y" domain={model.hrDomain} tick={{ fill: colours.axis, fontSize: 12 }} stroke={colours.axis} width={Y_AXIS_W} tickCount={4} />, [
+      model.hrEnvelope.length > 0 && <Area key="envelope" yAxisId="y" dataKey="range" data={model.hrEnvelope} type="linear" stroke="none" fill={colours.hr} fillOpacity={0.2} isAnimationActive={false} />,
+      <Line key="hr" yAxisId="y" dataKey="v" data={model.hr} type="linear" stroke={colours.hr} strokeWidth={1.5} dot={false} isAnimationActive={false} name="Heart rate" connectNulls={false} />,
+    ]);
+
+  const o2Panel = model && series && lowerPanel(120, model.fio2, true,
+    <YAxis yAxisId="y" domain={[0.2, 1]} ticks={[0.21, 0.4, 0.6, 0.8, 1]} tickFormatter={(v: number) => v.toFixed(2)} tick={{ fill: colours.axis, fontSize: 12 }} stroke={colours.axis} width={Y_AXIS_W} />, [
+      <Line key="fio2" yAxisId="y" dataKey="v" data={model.fio2} type="stepAfter" stroke={colours.fio2} strokeWidth={2} dot={false} isAnimationActive={false} name="FiO₂" />,
+      <Scatter key="labels" yAxisId="y" dataKey="v" data={model.fio2Labels} shape={(p: unknown) => <Fio2Label {...(p as object)} colour={colours.fio2} />} isAnimationActive={false} name="FiO₂ changes" />,
+    ]);
 
   return (
     <section aria-labelledby="sat-chart-title" data-testid="saturation-chart">

@@ -3,6 +3,7 @@ import type { EscalationList as Answer, QueueEscalation as QueueItem } from '~/l
 import { KIND_LABELS, OUTCOME_LABELS, OUTCOMES, type Outcome } from '~/lib/escalations/decide.ts';
 import { postJson } from '~/lib/client/fetch-json.ts';
 import { useForm } from '~/lib/client/use-form.ts';
+import FormButtons from '~/components/FormButtons.tsx';
 import { usePolled } from '~/lib/client/use-polled.ts';
 import { formatAge, formatDayTime, formatMinutes, formatWhen } from '~/lib/time/format.ts';
 
@@ -138,10 +139,7 @@ function Row({ e, now, onChange }: { e: QueueItem; now: number; onChange: (notic
             <span className="mb-1 block font-bold">Note (optional)</span>
             <textarea className="field" rows={2} value={note} onChange={(ev) => setNote(ev.target.value)} maxLength={1000} />
           </label>
-          <div className="flex gap-2">
-            <button className="btn-primary" type="submit">Close escalation</button>
-            <button className="btn-quiet" type="button" onClick={() => setClosing(false)}>Cancel</button>
-          </div>
+          <FormButtons action="Close escalation" onCancel={() => setClosing(false)} />
         </form>
       )}
       {error && <p role="alert" className="mt-2 text-coral-700 dark:text-coral-300">{error}</p>}

@@ -2,6 +2,7 @@ import { useEffect, useMemo, useState } from 'react';
 import useSWR from 'swr';
 import { ApiClientError, fetchJson, postJson } from '~/lib/client/fetch-json.ts';
 import { useForm } from '~/lib/client/use-form.ts';
+import FormButtons from '~/components/FormButtons.tsx';
 import { useRefreshChart } from '~/components/chart/chart-shared.tsx';
 import { MAX_TREND_FILE_BYTES, guessMapping, headerNames, mappingFits, trendMappingSchema, type TimeMode, type TrendMapping } from '~/lib/imports/mapping.ts';
 import type { ImportView, TrendPreview } from '~/lib/imports/api-types.ts';
@@ -214,10 +215,7 @@ export default function TrendUpload({ patientId, canChart }: Props) {
                       <label className="text-xs">Reason
                         <input className="field" value={reason} onChange={(e) => setReason(e.target.value)} required minLength={3} maxLength={400} />
                       </label>
-                      <span className="flex gap-1">
-                        <button type="submit" className="btn-primary">Withdraw import</button>
-                        <button type="button" className="btn-quiet" onClick={() => setWithdrawing(null)}>Keep</button>
-                      </span>
+                      <FormButtons action="Withdraw import" cancel="Keep" onCancel={() => setWithdrawing(null)} className="flex gap-1" />
                     </form>
                   )}
                 </td>

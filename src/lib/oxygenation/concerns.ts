@@ -1,5 +1,5 @@
 import { placeInBand, type BandStateName } from './band-state.ts';
-import { ComputationInputError, requireFinite } from './errors';
+import { ComputationInputError } from './errors';
 import { ROOM_AIR_FIO2 } from './constants';
 import {
   DEFAULT_COMPLIANCE_SETTINGS,
@@ -10,7 +10,7 @@ import {
 } from './settings';
 import { trustedWith } from './trust';
 import type { Band, OxygenDevice, Reading } from './types';
-import { maxGapMsFor, sortedUpTo, validateBand } from './validate';
+import { maxGapMsFor, sortedUpTo, validateMoment } from './validate';
 import { OXYGEN_DEVICES } from './types';
 
 const MS_PER_MIN = 60_000;
@@ -114,18 +114,12 @@ class OxygenTracker {
  *   forward, or a non-room-air device when FiO₂ is unknown), spanning `aboveOnOxygenMin`; ended
  *   by a trusted reading that is not above band or is on room air.
  */
-export function detectConcerns(
-  readings: readonly Reading[],
-  band: Band | null,
-  now: number,
-  s?: Partial<EscalationSettings>,
-): Concerns {
+export function detectConcerns(readings: readonly Reading[], band: Band | null, now: number, s?: Partial<EscalationSettings>): Concerns {
   const cfg = resolveSettings(DEFAULT_ESCALATION_SETTINGS, s, 'escalationSettings');
   if (!Number.isInteger(cfg.consecutiveCharted) || cfg.consecutiveCharted < 1) {
     throw new ComputationInputError('escalationSettings.consecutiveCharted', 'must be a whole number of at least 1', cfg.consecutiveCharted);
   }
-  requireFinite('now', now);
-  if (band !== null) validateBand(band);
+  validateMoment(band, now);
   const low = band === null ? NaN : band.low;
   const high = band === null ? NaN : band.high;
   const dwellMs = cfg.deviceDwellMin * MS_PER_MIN;
@@ -312,15 +306,9 @@ export interface BandStateResult {
  *   a trusted reading in another state or a gap with no reading does.
  * All readings are judged against `band`; readings after `now` are ignored.
  */
-export function bandState(
-  readings: readonly Reading[],
-  band: Band | null,
-  now: number,
-  s?: Partial<ComplianceSettings>,
-): BandStateResult {
+export function bandState(readings: readonly Reading[], band: Band | null, now: number, s?: Partial<ComplianceSettings>): BandStateResult {
   const cfg = resolveSettings(DEFAULT_COMPLIANCE_SETTINGS, s, 'complianceSettings');
-  requireFinite('now', now);
-  if (band !== null) validateBand(band);
+  validateMoment(band, now);
   const chartedMs = cfg.chartedMaxGapMin * MS_PER_MIN;
   const deviceMs = cfg.deviceMaxGapMin * MS_PER_MIN;
   const importMs = cfg.importMaxGapMin * MS_PER_MIN;

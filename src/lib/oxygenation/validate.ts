@@ -1,4 +1,4 @@
-import { ComputationInputError } from './errors';
+import { ComputationInputError, requireFinite } from './errors';
 import type { Band, BandOrder, ReadingSource, TimeWindow } from './types';
 
 /** Band orders flattened into typed arrays so the hot loops read numbers, not objects. */
@@ -6,6 +6,12 @@ export interface OrderColumns {
   from: Float64Array;
   low: Float64Array;
   high: Float64Array;
+}
+
+/** What every judgement at a moment checks first: a finite `now`, and a sound band when there is one. */
+export function validateMoment(band: Band | null, now: number): void {
+  requireFinite('now', now);
+  if (band !== null) validateBand(band);
 }
 
 export function validateBand(band: Band, fieldName = 'band'): Band {

@@ -8,6 +8,7 @@
  * the transaction and the escalation checks are the same code for both.
  */
 import { stayAt } from '~/lib/patients/stays.ts';
+import { timeSpan } from '~/lib/sorted.ts';
 import { ZodError, type z } from 'zod';
 import { runObservationHooks } from '~/lib/server/charting/observations.ts';
 import { ingestBatchSchema, toDeviceReading } from '~/lib/imports/reading.ts';
@@ -62,15 +63,9 @@ export async function ingestReadings(source: IngestSource, body: unknown, now = 
 
 async function ingestBatch(key: IngestSource, batch: Batch, now: Date): Promise<IngestResult> {
   const readings = batch.readings.map(toDeviceReading);
-  let min = Infinity;
-  let max = -Infinity;
-  for (const r of readings) {
-    const t = r.at.getTime();
-    if (t < min) min = t;
-    if (t > max) max = t;
-  }
+  const span = timeSpan(readings, (r) => r.at.getTime());
   return withTransactionRetry(async (trx) => {
-    const stays = await staysInBedBetween(trx, key.bed_id, new Date(min), new Date(max));
+    const stays = await staysInBedBetween(trx, key.bed_id, new Date(span.first), new Date(span.last));
     const byPatient = new Map<number, DeviceObservationRow[]>();
     let withoutPatient = 0;
     for (const r of readings) {
@@ -93,13 +88,7 @@ async function ingestBatch(key: IngestSource, batch: Batch, now: Date): Promise<
       stored += n;
       if (n > 0) {
         // The per-minute rollup and the escalation checks, once per patient per batch, in the readings' transaction.
-        let first = Infinity;
-        let last = -Infinity;
-        for (const r of rows) {
-          const t = r.taken_at.getTime();
-          if (t < first) first = t;
-          if (t > last) last = t;
-        }
+        const { first, last } = timeSpan(rows, (r) => r.taken_at.getTime());
         await refreshMinuteRollup(trx, patientId, first, last);
         await runObservationHooks(trx, patientId, now);
       }

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Knex } from 'knex';
 import { APP_URL, HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { countRows, createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };

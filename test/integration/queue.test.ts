@@ -112,4 +112,14 @@ describe('what the signed-in person may do with each escalation (can, decided on
     expect((await closed.json()).can).toEqual({ claim: false, close: false });
     for (const who of ['nurse', 'charge', 'outreach', 'intensivist']) expect(await canIn(who, 'closed', p), who).toEqual({ claim: false, close: false });
   });
+
+  it('the board as a whole: charge nurses assign nurses; nurses and charge nurses may keep to their own beds', async () => {
+    const boardCan = async (who: string) => (await (await s[who].get(`/api/board?unit=${unit.code}`)).json()).can;
+    expect(await boardCan('charge')).toEqual({ assignNurses: true, filterMine: true });
+    expect(await boardCan('nurse')).toEqual({ assignNurses: false, filterMine: true });
+    expect(await boardCan('outreach')).toEqual({ assignNurses: false, filterMine: false });
+    expect(await boardCan('intensivist')).toEqual({ assignNurses: false, filterMine: false });
+    // What the board offers, the server allows, and no more.
+    expect((await s.nurse.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId })).status).toBe(403);
+  });
 });

@@ -20,7 +20,7 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
   const { data, error, mutate } = usePolled<BoardResponse>(key, pollMs, { fallbackData: initial, revalidateOnFocus: true });
   const board = data ?? initial;
   const [mine, setMine] = useState(false);
-  const nurses = useSWR<{ nurses: { id: number; name: string }[] }>(me.role === 'charge' ? '/api/nurses' : null, fetchJson);
+  const nurses = useSWR<{ nurses: { id: number; name: string }[] }>(board.can.assignNurses ? '/api/nurses' : null, fetchJson);
   const filtered = useMemo(() => (mine ? board.tiles.filter((t) => t.nurse?.id === me.id) : board.tiles), [board, mine, me.id]);
   const zone = board.unit.timeZone;
   // While keyboard focus is inside the board, tiles keep their places (new data, old order): nothing
@@ -64,7 +64,7 @@ export default function BoardView({ initial, me, pollMs = 12_000 }: Props) {
         <p className="text-sm text-ink-600 dark:text-ink-300" data-testid="board-as-of">
           as of <time dateTime={board.generatedAt}>{timeIn(board.generatedAt, zone)}</time> · refreshes every {Math.round(pollMs / 1000)} s
         </p>
-        {(me.role === 'nurse' || me.role === 'charge') && (
+        {board.can.filterMine && (
           <label className="flex items-center gap-2 text-sm">
             <input type="checkbox" checked={mine} onChange={(e) => setMine(e.target.checked)} data-testid="my-beds" /> my beds only
           </label>

@@ -10,4 +10,6 @@ export interface BoardResponse {
   generatedAt: string;
   settings: { overdueMin: number };
   tiles: BoardTileView[];
+  /** What the signed-in person may do on the board as a whole: assign nurses to beds, and keep to their own beds. */
+  can: { assignNurses: boolean; filterMine: boolean };
 }

@@ -1,7 +1,7 @@
 /** GET /api/board: a unit's tiles in a fixed number of queries, whatever the bed count. */
 import type { BoardResponse, BoardTileView } from '~/lib/board/api-types.ts';
 import { buildTile, sortTiles, type BedInput, type BoardTile } from '~/lib/board/tiles.ts';
-import { BED_MANAGING_ROLES, hasRole } from '~/lib/auth/roles.ts';
+import { BED_MANAGING_ROLES, CHARTING_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { patientLabel } from '~/lib/patients/label.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { boardBeds } from '~/lib/server/queries/board.ts';
@@ -60,5 +60,6 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
     generatedAt: now.toISOString(),
     settings: { overdueMin: settings.overdueMin },
     tiles: sortTiles(tiles).map((t): BoardTileView => ({ ...t, can: { claim: claimableFromTile(user, t) } })),
+    can: { assignNurses: hasRole(user.role, BED_MANAGING_ROLES), filterMine: hasRole(user.role, CHARTING_ROLES) },
   };
 }

@@ -1,25 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, testDb, unique } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { describe, expect, it } from 'vitest';
+import { countRows, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let other: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 6);
-  other = await createUnit(db, 1);
-  const people = await signInPeople(db, {
-    charge: ['charge', unit.unitId], nurse: ['nurse', unit.unitId], nurse2: ['nurse', unit.unitId], otherNurse: ['nurse', other.unitId],
+const { db, unit, s } = useWard({
+  beds: 6, otherBeds: 1,
+  people: {
+    charge: ['charge', 'unit'], nurse: ['nurse', 'unit'], nurse2: ['nurse', 'unit'], otherNurse: ['nurse', 'other'],
     intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
-  });
-  Object.assign(s, people.sessions);
+  },
 });
-afterAll(async () => { await db.destroy(); });
 
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
 

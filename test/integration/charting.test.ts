@@ -1,27 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import type { HttpSession } from '../support/app.ts';
-import { countRows, createAdmittedPatient, createUnit, rebuildPatientRollup, testDb, unique } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { countRows, createAdmittedPatient, rebuildPatientRollup, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let other: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-const ids: Record<string, number> = {};
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 4);
-  other = await createUnit(db, 2);
-  const people = await signInPeople(db, {
-    charge: ['charge', unit.unitId], nurse: ['nurse', unit.unitId], nurse2: ['nurse', unit.unitId], otherNurse: ['nurse', other.unitId],
-    otherCharge: ['charge', other.unitId], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
-  });
-  Object.assign(s, people.sessions);
-  Object.assign(ids, people.ids);
+const { db, unit, other, s, ids } = useWard({
+  beds: 4, otherBeds: 2,
+  people: {
+    charge: ['charge', 'unit'], nurse: ['nurse', 'unit'], nurse2: ['nurse', 'unit'], otherNurse: ['nurse', 'other'],
+    otherCharge: ['charge', 'other'], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
+  },
 });
-afterAll(async () => { await db.destroy(); });
 
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
 

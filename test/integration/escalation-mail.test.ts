@@ -5,44 +5,32 @@
  */
 import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { HttpSession } from '../support/app.ts';
+import { createAdmittedPatient, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 import { waitForMail } from '../support/mailbox.ts';
 import { renotifyUnclaimed } from '../../src/lib/server/escalations/sweep.ts';
 import { deliverDueMail } from '../../src/lib/server/mail/outbox-worker.ts';
 import { issueClaimLink } from '../../src/lib/server/escalations/claim-links.ts';
 import { closeDb, db as appDb } from '../../src/lib/server/queries/db.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
+const { db, unit, s, ids } = useWard({
+  beds: 6, people: { nurse: ['nurse', 'unit'], outreach: ['outreach', null], admin: ['admin', null], intensivist: ['intensivist', null], charge: ['charge', 'unit'] },
+});
 const outreachAddress = `${unique('mailout')}@fixture.example`;
-let intensivistId: number;
-let nurseName: string;
+const nurseName = `Nia ${unique('Bedside')}`;
 let bedCursor = 0;
 
 beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 6);
   await db('unit_settings').insert({ unit_id: unit.unitId, outreach_emails: outreachAddress, unit_phone: '+44 20 7946 0123' });
-  const nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
-  nurseName = `Nia ${unique('Bedside')}`;
-  await db('users').where({ id: nurse.id }).update({ name: nurseName });
-  s.nurse = await signedIn(nurse.email, nurse.password);
-  const outreach = await createUser(db, { role: 'outreach' });
-  s.outreach = await signedIn(outreach.email, outreach.password);
-  const admin = await createUser(db, { role: 'admin' });
-  s.admin = await signedIn(admin.email, admin.password);
-  intensivistId = (await createUser(db, { role: 'intensivist' })).id;
-  const charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
-  for (const bedId of unit.bedIds) await db('bed_assignments').insert({ bed_id: bedId, nurse_id: nurse.id, assigned_by: charge.id, assigned_at: new Date() });
+  await db('users').where({ id: ids.nurse }).update({ name: nurseName });
+  for (const bedId of unit.bedIds) await db('bed_assignments').insert({ bed_id: bedId, nurse_id: ids.nurse, assigned_by: ids.charge, assigned_at: new Date() });
 });
-afterAll(async () => { await db.destroy(); await closeDb(); });
+afterAll(async () => { await closeDb(); });
 
 async function admit() {
   const bedId = unit.bedIds[bedCursor++]!;
-  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
+  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
 }
 async function chart(patientId: number, spo2: number, minsAgo: number, extra: Record<string, unknown> = {}) {
   const res = await s.nurse.post(`/api/patients/${patientId}/observations`, {

@@ -2,25 +2,16 @@
  * Issue 12: each door the probe found, shut and kept shut. Every test here failed before its fix.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
 import { APP_URL, HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { countRows, createAdmittedPatient, createUser, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 import { signOut } from '../support/signout.ts';
 import { ADDRESS_FAILURES, ACCOUNT_FAILURES } from '../../src/lib/auth/throttle.ts';
 import { revokeSessionsOf } from '../../src/lib/server/queries/sessions.ts';
 import { closeDb } from '../../src/lib/server/queries/db.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 10);
-  const people = await signInPeople(db, { charge: ['charge', unit.unitId], charge2: ['charge', unit.unitId], nurse: ['nurse', unit.unitId] });
-  Object.assign(s, people.sessions);
-});
-afterAll(async () => { await db.destroy(); await closeDb(); });
+const { db, unit, s } = useWard({ beds: 10, people: { charge: ['charge', 'unit'], charge2: ['charge', 'unit'], nurse: ['nurse', 'unit'] } });
+afterAll(async () => { await closeDb(); });
 
 /** A caller at its own address (the test app trusts X-Forwarded-For, as behind a load balancer). */
 function from(address: string, session = new HttpSession()) {

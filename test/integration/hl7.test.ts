@@ -4,38 +4,19 @@
  */
 import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
 import { Hl7Message } from '@medplum/core';
 import { Hl7Client } from '@medplum/hl7';
 import { buildOru, hl7Timestamp } from '~/lib/hl7/oru.ts';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { createAdmittedPatient, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
 const MLLP_PORT = Number(process.env.EBB_MLLP_PORT ?? 5599);
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-let adminId: number;
+const { db, unit, s, ids } = useWard({ beds: 6, people: { admin: ['admin', null], charge: ['charge', 'unit'], intensivist: ['intensivist', null] } });
 let client: Hl7Client;
 let seq = 0;
 
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 6);
-  const admin = await createUser(db, { role: 'admin' });
-  adminId = admin.id;
-  s.admin = await signedIn(admin.email, admin.password);
-  const charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
-  s.charge = await signedIn(charge.email, charge.password);
-  const intensivist = await createUser(db, { role: 'intensivist' });
-  s.intensivist = await signedIn(intensivist.email, intensivist.password);
-  s.anon = new HttpSession();
-  client = new Hl7Client({ host: '127.0.0.1', port: MLLP_PORT });
-});
-afterAll(async () => {
-  await client.close();
-  await db.destroy();
-});
+beforeAll(() => { client = new Hl7Client({ host: '127.0.0.1', port: MLLP_PORT }); });
+afterAll(async () => { await client.close(); });
 
 async function patientInBed(bedId: number, from = new Date(Date.now() - 3_600_000)) {
   return (await createAdmittedPatient(db, { bedId, since: from })).patientId;
@@ -105,7 +86,7 @@ describe('HL7 gateways (admin)', () => {
     expect((await s.admin.post('/api/admin/hl7-gateways', body)).status).toBe(201); // the sender name is free again
     const audit = await db('audit_log').where({ entity: 'hl7_gateway', entity_id: String(g.id) }).orderBy('id');
     expect(audit.map((a) => [a.action, a.actor_id])).toEqual([
-      ['hl7_gateway.create', adminId], ['hl7_gateway.map_bed', adminId], ['hl7_gateway.unmap_bed', adminId], ['hl7_gateway.revoke', adminId],
+      ['hl7_gateway.create', ids.admin], ['hl7_gateway.map_bed', ids.admin], ['hl7_gateway.unmap_bed', ids.admin], ['hl7_gateway.revoke', ids.admin],
     ]);
   });
 });

@@ -1,26 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
+import { beforeAll, describe, expect, it } from 'vitest';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createAdmittedPatient, createUnit, testDb, unique } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { countRows, createAdmittedPatient, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let other: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-const ids: Record<string, number> = {};
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 6);
-  other = await createUnit(db, 1);
-  const people = await signInPeople(db, {
-    nurse: ['nurse', unit.unitId], charge: ['charge', unit.unitId], otherNurse: ['nurse', other.unitId], intensivist: ['intensivist', null],
-  });
-  Object.assign(s, people.sessions);
-  Object.assign(ids, people.ids);
+const { db, unit, s, ids } = useWard({
+  beds: 6, otherBeds: 1,
+  people: { nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], otherNurse: ['nurse', 'other'], intensivist: ['intensivist', null] },
 });
-afterAll(async () => { await db.destroy(); });
 
 async function patientInBed(bedIndex: number, from: Date) {
   return (await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: from })).patientId;

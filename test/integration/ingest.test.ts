@@ -1,25 +1,10 @@
 import { createHash } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { APP_URL, HttpSession, signedIn } from '../support/app.ts';
-import { countRows, createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { APP_URL } from '../support/app.ts';
+import { countRows, createAdmittedPatient } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-let adminId: number;
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 6);
-  const admin = await createUser(db, { role: 'admin' });
-  adminId = admin.id;
-  s.admin = await signedIn(admin.email, admin.password);
-  const charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
-  s.charge = await signedIn(charge.email, charge.password);
-  s.anon = new HttpSession();
-});
-afterAll(async () => { await db.destroy(); });
+const { db, unit, s, ids } = useWard({ beds: 6, people: { admin: ['admin', null], charge: ['charge', 'unit'] } });
 
 /** A patient in a bed from `from` (and until `to`), written straight to the fixtures. */
 async function patientInBed(bedId: number, from: Date, to: Date | null = null) {
@@ -70,7 +55,7 @@ describe('device keys (admin)', () => {
     expect((await s.admin.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'gateway replaced' })).status).toBe(200);
     expect((await s.admin.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'again' })).status).toBe(409);
     const audit = await db('audit_log').where({ entity: 'device_key', entity_id: String(deviceKey.id) }).orderBy('id');
-    expect(audit.map((a) => [a.action, a.actor_id])).toEqual([['device_key.create', adminId], ['device_key.revoke', adminId]]);
+    expect(audit.map((a) => [a.action, a.actor_id])).toEqual([['device_key.create', ids.admin], ['device_key.revoke', ids.admin]]);
     expect(JSON.stringify(audit)).not.toContain(key.slice(10));
   });
 });

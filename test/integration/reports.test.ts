@@ -1,35 +1,25 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import type { HttpSession } from '../support/app.ts';
-import { countRows, createAdmittedPatient, createUnit, rebuildPatientRollup, testDb } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { countRows, createAdmittedPatient, rebuildPatientRollup } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 import { lastWholeDays } from '../../src/lib/reports/shift.ts';
 import { formatClock } from '../../src/lib/time/format.ts';
 import { computeUnitReport } from '../../src/lib/server/reports/unit-report.ts';
 import { patientSeries } from '../../src/lib/server/charting/series.ts';
 import { closeDb } from '../../src/lib/server/queries/db.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let other: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-const ids: Record<string, number> = {};
+const { db, unit, s, ids } = useWard({
+  beds: 3, otherBeds: 1,
+  people: {
+    charge: ['charge', 'unit'], nurse: ['nurse', 'unit'], otherCharge: ['charge', 'other'], otherNurse: ['nurse', 'other'],
+    intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
+  },
+});
 let patientId: number;
 let yesterday: { date: string; from: number; to: number };
 const MIN = 60_000;
 const at = (h: number, m = 0) => new Date(yesterday.from + (h * 60 + m) * MIN);
 
 beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 3);
-  other = await createUnit(db, 1);
-  const people = await signInPeople(db, {
-    charge: ['charge', unit.unitId], nurse: ['nurse', unit.unitId], otherCharge: ['charge', other.unitId], otherNurse: ['nurse', other.unitId],
-    intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
-  });
-  Object.assign(s, people.sessions);
-  Object.assign(ids, people.ids);
-
   // The hand-computed case of src/lib/reports/unit-report.test.ts, on yesterday (unit zone), through the database and the API.
   yesterday = lastWholeDays(Date.now(), 'Europe/London', 1)[0]!;
   ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: yesterday.from - 60 * MIN, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: yesterday.from - 60 * MIN } }));
@@ -45,7 +35,7 @@ beforeAll(async () => {
   await db('escalations').insert([esc(at(1, 10), at(1, 20), at(1, 50)), esc(at(5), at(5, 30), at(7), 'below_band', 'urgent')]);
   await db('escalations').insert(esc(at(2, 5), null, null, 'probe_check', null));
 });
-afterAll(async () => { await db.destroy(); await closeDb(); });
+afterAll(async () => { await closeDb(); });
 
 describe('GET /api/reports/units/:code', () => {
   it('answers charge nurses for their own unit, intensivists and admins for any; refuses the rest on the server', async () => {

@@ -3,35 +3,22 @@
  * tests): one rule for runs across gaps, silence after below-band readings, and tiles that say how
  * old their values are.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
+import { describe, expect, it } from 'vitest';
+import { createAdmittedPatient } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let s: HttpSession;
-let intensivistId: number;
+const { db, unit, s, ids } = useWard({ beds: 3, people: { charge: ['charge', 'unit'], intensivist: ['intensivist', null] } });
 const min = 60_000;
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 3);
-  const charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
-  s = await signedIn(charge.email, charge.password);
-  intensivistId = (await createUser(db, { role: 'intensivist' })).id;
-});
-afterAll(async () => { await db.destroy(); });
 
 async function patientWithDeviceReadings(bedIndex: number, secondsAgo: number[], spo2 = 88) {
   const now = Date.now();
   const bedId = unit.bedIds[bedIndex]!;
-  const { patientId: id } = await createAdmittedPatient(db, { bedId, since: now - 6 * 60 * min, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: now - 5 * 60 * min } });
+  const { patientId: id } = await createAdmittedPatient(db, { bedId, since: now - 6 * 60 * min, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: now - 5 * 60 * min } });
   await db('observations').insert(secondsAgo.map((sec) => ({ patient_id: id, bed_id: bedId, taken_at: new Date(now - sec * 1000), source: 'device', spo2, heart_rate: 96, trace: 'clean' })));
   return id;
 }
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const tileOf = async (label: string) => ((await (await s.get(`/api/board?unit=${unit.code}`)).json()).tiles as { bedLabel: string; state: Record<string, unknown>; monitor: Record<string, unknown> | null; concern: { reason: string }; latest: Record<string, unknown> }[]).find((t) => t.bedLabel === label)!;
+const tileOf = async (label: string) => ((await (await s.charge.get(`/api/board?unit=${unit.code}`)).json()).tiles as { bedLabel: string; state: Record<string, unknown>; monitor: Record<string, unknown> | null; concern: { reason: string }; latest: Record<string, unknown> }[]).find((t) => t.bedLabel === label)!;
 
 describe('time on the board and in the escalations (real database, the app\'s sweep)', () => {
   it('two trusted below-band device readings 5 min apart with nothing between: no escalation, and the board agrees', async () => {
@@ -42,7 +29,7 @@ describe('time on the board and in the escalations (real database, the app\'s sw
     expect(tile.state).toMatchObject({ name: 'below', sinceMin: 1 }); // restarted at the gap, not 6 min
     expect(tile.latest).toMatchObject({ source: 'device', trusted: true });
     // Band compliance counts each device reading for 2 min at most: about 3 min below band (2 + the last minute), not 6.
-    const series = await (await s.get(`/api/patients/${p}/series?hours=6`)).json();
+    const series = await (await s.charge.get(`/api/patients/${p}/series?hours=6`)).json();
     expect(series.derived.compliance.belowMin).toBeGreaterThanOrEqual(2.8);
     expect(series.derived.compliance.belowMin).toBeLessThanOrEqual(3.4);
   });

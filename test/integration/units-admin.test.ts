@@ -1,20 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
+import { describe, expect, it } from 'vitest';
 import type { HttpSession } from '../support/app.ts';
-import { countRows, createUnit, testDb, unique } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { countRows, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 3);
-  const people = await signInPeople(db, { admin: ['admin', null], charge: ['charge', unit.unitId], nurse: ['nurse', unit.unitId], intensivist: ['intensivist', null] });
-  Object.assign(s, people.sessions);
+const { db, unit, s } = useWard({
+  beds: 3, people: { admin: ['admin', null], charge: ['charge', 'unit'], nurse: ['nurse', 'unit'], intensivist: ['intensivist', null] },
 });
-afterAll(async () => { await db.destroy(); });
 
 const patch = (who: HttpSession, path: string, json: unknown) => who.request(path, { method: 'PATCH', json });
 const code = () => unique('W').slice(0, 12).toUpperCase();

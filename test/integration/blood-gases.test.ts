@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { countRows, unique } from '../support/db.ts';
+import { unique } from '../support/db.ts';
+import { expectEachRefused, type RefusalCase } from '../support/refusals.ts';
 import { useWard } from '../support/ward.ts';
 
 const { db, unit, s } = useWard({
@@ -90,8 +91,7 @@ describe('blood gases: charting, pairs and occult hypoxaemia', () => {
 
   it('refuses bad input with the field named and stores nothing', async () => {
     const id = await admit(2);
-    const before = await countRows(db, 'blood_gases');
-    const cases: [Record<string, unknown>, string, RegExp][] = [
+    const cases: RefusalCase[] = [
       [{ ph: 6.4 }, 'ph', /pH under 6.5/],
       [{ ph: 8.2 }, 'ph', /pH over 8/],
       [{ pao2: 150 }, 'pao2', /over 106.7 kPa/],
@@ -100,13 +100,7 @@ describe('blood gases: charting, pairs and occult hypoxaemia', () => {
       [{ sampledAt: new Date(Date.now() + 30 * 60_000).toISOString() }, 'sampledAt', /future/],
       [{ sampledAt: minutesAgo(5 * 60) }, 'sampledAt', /before admission/],
     ];
-    for (const [extra, field, words] of cases) {
-      const res = await s.nurse.post(`/api/patients/${id}/blood-gases`, gas(extra));
-      expect(res.status, JSON.stringify(extra)).toBe(400);
-      const { error } = await res.json();
-      expect(error.fields[field], JSON.stringify(error)).toMatch(words);
-    }
-    expect(await countRows(db, 'blood_gases')).toBe(before);
+    await expectEachRefused(db, 'blood_gases', cases, (extra) => s.nurse.post(`/api/patients/${id}/blood-gases`, gas(extra)));
   });
 
   it('checks the role and the unit on the server', async () => {

@@ -4,6 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { APP_URL, HttpSession, signedIn } from '../support/app.ts';
 import { countRows, createAdmittedPatient, createUser, unique } from '../support/db.ts';
+import { expectEachRefused, type RefusalCase } from '../support/refusals.ts';
 import { useWard } from '../support/ward.ts';
 import { signOut } from '../support/signout.ts';
 import { ADDRESS_FAILURES, ACCOUNT_FAILURES } from '../../src/lib/auth/throttle.ts';
@@ -159,8 +160,7 @@ describe('4. refused instead of stored', () => {
   });
 
   it('unknown fields, numbers as strings, arrays or hex, booleans: refused with the field named', async () => {
-    const before = await countRows(db, 'observations');
-    const cases: [Record<string, unknown>, string, RegExp][] = [
+    const cases: RefusalCase[] = [
       [{ heartRate: undefined, heartrate: 80 }, 'heartrate', /not a field/],
       [{ spo2: '0x5F' }, 'spo2', /SpO₂ must be a number/],
       [{ spo2: [95] }, 'spo2', /SpO₂ must be a number/],
@@ -169,13 +169,7 @@ describe('4. refused instead of stored', () => {
       [{ fio2: 1.01, device: 'simple_mask' }, 'fio2', /cannot be over 100 % \(1\.0\)/],
       [{ takenAt: '2026-11-31T12:00:00Z' }, 'takenAt', /real calendar day/],
     ];
-    for (const [patch, field, reason] of cases) {
-      const res = await s.nurse.post(`/api/patients/${patientId}/observations`, obs(patch));
-      expect(res.status, JSON.stringify(patch)).toBe(400);
-      const { error } = await res.json();
-      expect(error.fields[field], JSON.stringify(patch)).toMatch(reason);
-    }
-    expect(await countRows(db, 'observations')).toBe(before);
+    await expectEachRefused(db, 'observations', cases, (patch) => s.nurse.post(`/api/patients/${patientId}/observations`, obs(patch)));
   });
 
   it('/api/patients/0x10 is not patient 16', async () => {

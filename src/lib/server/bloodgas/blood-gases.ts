@@ -10,7 +10,6 @@ import type { BloodGasInput } from '~/lib/bloodgas/bloodgas-input.ts';
 import { deriveGas, gasFlags, runningBias, toMmHg, type GasUnit } from '~/lib/bloodgas/compute.ts';
 import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import { DEFAULT_UNIT_SETTINGS } from '~/lib/units/settings.ts';
-import { CORRECTING_OTHERS_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
@@ -22,7 +21,7 @@ import {
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { authorisePatient } from '~/lib/server/charting/patients.ts';
-import { assertPatientAction, patientPermissions } from '~/lib/server/charting/access.ts';
+import { assertChangeable, assertPatientAction, patientPermissions } from '~/lib/server/charting/access.ts';
 import { clearOccultHypoxaemia, raiseOccultHypoxaemia } from '~/lib/server/escalations/occult.ts';
 
 /** The SpO₂ of the pair: the nearest trusted reading within this of the sample time. */
@@ -124,12 +123,7 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, gasId: nu
   await authoriseGasCharting(user, unlocked.patient_id);
   await lockPatient(trx, unlocked.patient_id);
   const original = (await lockBloodGas(trx, gasId))!;
-  if (original.status !== 'current') {
-    throw new ApiError(409, 'not_current', original.status === 'superseded' ? 'This blood gas was already corrected; correct the newer version.' : 'This blood gas is already marked entered in error.');
-  }
-  if (!hasRole(user.role, CORRECTING_OTHERS_ROLES) && original.recorded_by !== user.id) {
-    throw new ApiError(403, 'forbidden', 'You correct your own entries; ask the charge nurse to correct this one.');
-  }
+  assertChangeable(user, original, { what: 'blood gas', notOwn: 'You correct your own entries; ask the charge nurse to correct this one.' });
   return original;
 }
 

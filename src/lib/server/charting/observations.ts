@@ -7,7 +7,6 @@ import type { ObsPage, ObsView } from '~/lib/charting/api-types.ts';
 import { BEFORE_STAY_SLACK_MS, type ObsInput } from '~/lib/charting/obs-input.ts';
 import { estimateFio2 } from '~/lib/oxygenation/index.ts';
 import { ROOM_AIR_FIO2 } from '~/lib/oxygenation/constants.ts';
-import { CORRECTING_OTHERS_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
@@ -17,6 +16,7 @@ import { authorisePatient } from './patients.ts';
 import { lockPatient, openStayOfPatient } from '~/lib/server/queries/patients.ts';
 import { checkPatientEscalations } from '~/lib/server/escalations/engine.ts';
 import { obsView } from './views.ts';
+import { assertChangeable } from './access.ts';
 import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 
 
@@ -80,12 +80,7 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, obsId: nu
   const original = await lockObservation(trx, obsId);
   if (!original) throw new ApiError(404, 'not_found', 'No obs with that id.');
   await authorisePatient(user, original.patient_id, 'chart');
-  if (original.status !== 'current') {
-    throw new ApiError(409, 'not_current', original.status === 'superseded' ? 'This obs was already corrected; correct the newer version.' : 'This obs is already marked entered in error.');
-  }
-  if (!hasRole(user.role, CORRECTING_OTHERS_ROLES) && original.recorded_by !== user.id) {
-    throw new ApiError(403, 'forbidden', 'A nurse corrects their own entries; ask the charge nurse to correct this one.');
-  }
+  assertChangeable(user, original, { what: 'obs', notOwn: 'A nurse corrects their own entries; ask the charge nurse to correct this one.' });
   return original;
 }
 

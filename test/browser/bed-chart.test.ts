@@ -9,8 +9,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { APP_URL, signedIn } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { signedIn } from '../support/app.ts';
+import { launchBrowser, openSignedIn } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 import { formatDayTime } from '../../src/lib/time/format.ts';
 
@@ -31,11 +31,7 @@ afterAll(async () => { await browser?.close(); });
 
 describe('bed chart: keyboard', () => {
   it('reaches SpO₂ in at most 3 Tab presses from page load (skip link), and Enter saves', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}`);
-    await waitForIsland(page, 'obs-entry-form');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'obs-entry-form', context: { viewport: { width: 1440, height: 900 } } });
     let presses = 0;
     for (; presses < 3; presses++) {
       if (await page.evaluate(() => document.activeElement?.getAttribute('name') === 'spo2')) break;
@@ -61,21 +57,13 @@ describe('bed chart: keyboard', () => {
   }, 60_000);
 
   it('focuses SpO₂ when the chart is opened to chart obs', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}#chart-obs`);
-    await waitForIsland(page, 'obs-entry-form');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}#chart-obs`, island: 'obs-entry-form', context: { viewport: { width: 1440, height: 900 } } });
     await page.waitForFunction(() => document.activeElement?.getAttribute('name') === 'spo2', null, { timeout: 10_000 });
     await context.close();
   }, 60_000);
 
   it('puts the patient, the chart, the figures and the band in force on the first screen at 1440×900', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}`);
-    await waitForIsland(page, 'chart-summary');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'chart-summary', context: { viewport: { width: 1440, height: 900 } } });
     for (const id of ['chart-heading', 'chart-area', 'derived-figures', 'target-panel', 'obs-entry-form']) {
       const box = await page.getByTestId(id).first().boundingBox();
       expect(box, id).not.toBeNull();
@@ -96,11 +84,7 @@ describe('bed chart: print', () => {
       const res = await nurse.post(`/api/patients/${patientId}/observations`, { takenAt: new Date(t).toISOString(), spo2: 90 + (i % 6), heartRate: 80 + i, device: 'nasal_cannula', flowLpm: 2, trace: 'clean' });
       expect(res.status, await res.clone().text()).toBe(201);
     }
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}`);
-    await waitForIsland(page, 'chart-summary');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'chart-summary', context: { viewport: { width: 1440, height: 900 } } });
     await page.waitForFunction(() => (document.querySelectorAll('[data-testid="print-record"] tbody tr').length >= 24), null, { timeout: 20_000 });
     const pdf = await page.pdf({ format: 'A4', printBackground: true });
     await context.close();

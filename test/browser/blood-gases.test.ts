@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -17,11 +17,7 @@ afterAll(async () => { await browser?.close(); });
 
 describe('blood gases in a real browser', () => {
   it('a nurse charts a gas whose SaO₂ is 85 % while SpO₂ read 94 %: occult hypoxaemia shows on the bed chart and the board', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}`);
-    await waitForIsland(page, 'bed-chart');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'bed-chart' });
     await waitForIsland(page, 'gas-form');
     const form = page.getByTestId('gas-form');
     await form.getByLabel('SpO₂ on the monitor (%)').fill('94');

@@ -4,8 +4,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { APP_URL, signedIn } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { signedIn } from '../support/app.ts';
+import { launchBrowser, openSignedIn } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -23,11 +23,7 @@ const order = (page: import('playwright-core').Page) => page.getByTestId('board-
 
 describe('ward board: key, claim, assignment, steady order', () => {
   it('a charge nurse reads the key, assigns with a confirmation, claims from the tile; tiles hold still while focus is inside', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'charge@harbourside.example');
-    await page.goto(`${APP_URL}/board`);
-    await waitForIsland(page, 'board-tiles');
+    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: '/board', island: 'board-tiles' });
 
     // The key: on demand on screen, always in print.
     await page.getByText('Key to colours and shapes').click();

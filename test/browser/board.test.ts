@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { APP_URL, signedIn } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { signedIn } from '../support/app.ts';
+import { launchBrowser, openSignedIn } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -10,10 +10,7 @@ afterAll(async () => { await browser?.close(); });
 
 describe('ward board in a real browser', () => {
   it('shows the charge nurse the below-band bed first with its duration, follows new readings and says when data is stale', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'charge@harbourside.example');
-    await page.goto(`${APP_URL}/board`);
+    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: '/board' });
 
     // Server-rendered first paint: tiles are there before any polling.
     const first = page.getByTestId('board-tiles').locator('li').first();
@@ -49,11 +46,7 @@ describe('ward board in a real browser', () => {
   });
 
   it('lets a nurse filter to their own beds', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/board`);
-    await waitForIsland(page, 'my-beds');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: '/board', island: 'my-beds' });
     await page.getByTestId('my-beds').check();
     const labels = await page.getByTestId('board-tiles').locator('li').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
     expect(labels.sort()).toEqual(['tile-4-01', 'tile-4-02', 'tile-4-03']);

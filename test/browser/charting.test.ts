@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { launchBrowser, openSignedIn } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -17,11 +16,7 @@ afterAll(async () => { await browser?.close(); });
 
 describe('bed chart in a real browser', () => {
   it('a nurse charts an obs and sees it in the obs record and on the chart', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}`);
-    await waitForIsland(page, 'obs-entry-form');
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'obs-entry-form' });
     const form = page.getByTestId('obs-entry-form');
     await form.getByLabel('SpO₂ (%)').fill('83');
     await form.getByLabel('Heart rate (/min)').fill('112');
@@ -41,11 +36,7 @@ describe('bed chart in a real browser', () => {
   });
 
   it('an intensivist orders a new band and the chart\'s band steps', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'intensivist@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${patientId}`);
-    await waitForIsland(page, 'order-form');
+    const { context, page } = await openSignedIn(browser, { as: 'intensivist@harbourside.example', path: `/patients/${patientId}`, island: 'order-form' });
     // Count the band areas once the chart has drawn its series (before that the count is 0 and any draw would pass).
     await page.getByTestId('chart-summary').waitFor({ state: 'attached', timeout: 20_000 });
     const areasBefore = await page.getByTestId('chart-area').locator('.recharts-reference-area').count();

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -21,10 +21,7 @@ describe('outreach queue in a real browser', () => {
     await db.destroy();
     expect(esc).toBeDefined();
 
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'outreach@harbourside.example');
-    await page.goto(`${APP_URL}/escalations`);
+    const { context, page } = await openSignedIn(browser, { as: 'outreach@harbourside.example', path: '/escalations' });
     const row = page.getByTestId(`escalation-${esc!.id}`);
     await waitForIsland(page, `escalation-${esc!.id}`);
     expect(await row.textContent()).toContain('bed 4-01');

@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 import { printedPages, printedPageSize } from '../support/pdf.ts';
 
@@ -15,11 +14,7 @@ const SCREEN_ONLY = ['Save note', 'Write the note', 'Print (A4', 'Sign out', 'Ni
 
 describe('handover sheet on paper', () => {
   it('prints the 12 demo ICU beds on at most 3 A4 landscape pages, stamped on every page, with no form text', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'charge@harbourside.example');
-    await page.goto(`${APP_URL}/handover?unit=L4ICU`);
-    await waitForIsland(page, 'handover-note-4-01');
+    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: '/handover?unit=L4ICU', island: 'handover-note-4-01' });
     expect(await page.getByTestId('handover-bed').count()).toBe(12);
 
     const size = await printedPageSize(page);
@@ -41,10 +36,7 @@ describe('handover sheet on paper', () => {
   });
 
   it('saves a handover note from the sheet and shows it on the next sheet', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'nurse@harbourside.example');
-    await page.goto(`${APP_URL}/handover`);
+    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: '/handover' });
     // The demo nurse looks after 4-01 to 4-03: their sheet holds those beds only.
     expect(await page.getByTestId('handover-bed').evaluateAll((els) => els.map((e) => e.getAttribute('data-bed')))).toEqual(['4-01', '4-02', '4-03']);
     await waitForIsland(page, 'handover-note-4-03');
@@ -63,10 +55,7 @@ describe('bed chart on paper', () => {
     const db = testDb();
     const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-01').whereNull('s.ended_at').first('s.patient_id');
     await db.destroy();
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'charge@harbourside.example');
-    await page.goto(`${APP_URL}/patients/${stay.patient_id}`);
+    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: `/patients/${stay.patient_id}` });
     await page.getByTestId('chart-heading').waitFor();
     await page.locator('.recharts-surface').first().waitFor({ timeout: 20_000 });
     const pages = await printedPages(page);
@@ -83,11 +72,7 @@ describe('bed chart on paper', () => {
 
 describe('unit report in a browser', () => {
   it('shows charts and a table, switches period, and offers the CSV', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'charge@harbourside.example');
-    await page.goto(`${APP_URL}/reports`);
-    await waitForIsland(page, 'report-view');
+    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: '/reports', island: 'report-view' });
     expect(await page.getByTestId('report-heading').textContent()).toBe('Unit report · Level 4 ICU');
     // recharts draws once its container has a measured size (after hydration and layout).
     await page.waitForFunction(() => document.querySelectorAll('figure .recharts-wrapper').length >= 3, null, { timeout: 15_000 }).catch(() => {});

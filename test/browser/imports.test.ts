@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { followNav, launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let browser: Browser;
@@ -36,10 +36,7 @@ function trendFile(): Buffer {
 
 describe('monitor trend file upload on the bed chart', () => {
   it('a nurse uploads a trend file, previews, commits, and the chart shows the readings', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, nurse.email, nurse.password);
-    await page.goto(`${APP_URL}/patients/${patientId}`);
+    const { context, page } = await openSignedIn(browser, { as: nurse, path: `/patients/${patientId}` });
     await page.getByTestId('reading-counts').waitFor({ timeout: 20_000 });
     expect(await page.getByTestId('reading-counts').textContent()).toMatch(/shown of 0\b/);
 
@@ -89,10 +86,7 @@ describe('trend upload: a column that does not fit (issue 10 point 10)', () => {
     const end = Date.now() - 6 * 3_600_000;
     const lines = ['Time,SpO2,HR,Signal'];
     for (let i = 0; i < 30; i++) lines.push(`${new Date(end - (29 - i) * 60_000).toISOString()},${i < 3 ? 140 : 95},80,ok`);
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, nurse.email, nurse.password);
-    await page.goto(`${APP_URL}/patients/${patientId}`);
+    const { context, page } = await openSignedIn(browser, { as: nurse, path: `/patients/${patientId}` });
     const section = page.getByTestId('trend-upload');
     await section.scrollIntoViewIfNeeded();
     await waitForIsland(page, 'trend-upload');
@@ -117,11 +111,8 @@ describe('trend upload: a column that does not fit (issue 10 point 10)', () => {
 
 describe('device keys page', () => {
   it('an admin makes a key for a bed, sees it once, and revokes it', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'admin@harbourside.example');
-    await page.getByTestId('main-nav').getByRole('link', { name: 'Device keys' }).click();
-    await page.waitForURL(`${APP_URL}/admin/devices`);
+    const { context, page } = await openSignedIn(browser, { as: 'admin@harbourside.example' });
+    await followNav(page, 'Device keys', '/admin/devices');
     await page.locator('astro-island:not([ssr])').first().waitFor();
     const label = unique('east wall gateway ');
     await page.getByLabel('Bed').selectOption({ label: '4-12' });

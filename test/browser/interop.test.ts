@@ -3,8 +3,7 @@ import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { Hl7Client } from '@medplum/hl7';
 import { buildOru } from '~/lib/hl7/oru.ts';
-import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm } from '../support/browser.ts';
+import { followNav, launchBrowser, openSignedIn } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 let browser: Browser;
@@ -24,11 +23,8 @@ afterAll(async () => { await browser?.close(); await db?.destroy(); });
 
 describe('HL7 gateways page and the FHIR download', () => {
   it('an admin registers a gateway and maps a bed name; its message is then stored; the bed chart offers the FHIR export', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
-    const page = await context.newPage();
-    await signInThroughForm(page, 'admin@harbourside.example');
-    await page.getByTestId('main-nav').getByRole('link', { name: 'HL7 gateways' }).click();
-    await page.waitForURL(`${APP_URL}/admin/gateways`);
+    const { context, page } = await openSignedIn(browser, { as: 'admin@harbourside.example', context: { viewport: { width: 1440, height: 900 } } });
+    await followNav(page, 'HL7 gateways', '/admin/gateways');
     await page.locator('astro-island:not([ssr])').first().waitFor();
     const app = unique('PW').slice(0, 16);
     const label = unique('bay gateway ');
@@ -52,10 +48,7 @@ describe('HL7 gateways page and the FHIR download', () => {
     expect(ack.getSegment('MSA')!.getField(1).toString()).toBe('AA');
     expect(ack.getSegment('MSA')!.getField(3).toString()).toMatch(/^1 stored/);
 
-    const chartContext = await browser.newContext({ viewport: { width: 390, height: 844 }, acceptDownloads: true });
-    const chart = await chartContext.newPage();
-    await signInThroughForm(chart, charge.email, charge.password);
-    await chart.goto(`${APP_URL}/patients/${patientId}`);
+    const { context: chartContext, page: chart } = await openSignedIn(browser, { as: charge, path: `/patients/${patientId}`, context: { viewport: { width: 390, height: 844 }, acceptDownloads: true } });
     const section = chart.getByTestId('fhir-export');
     await section.getByRole('link', { name: 'Last 12 h' }).waitFor();
     const [download] = await Promise.all([chart.waitForEvent('download'), section.getByRole('link', { name: 'Last 12 h' }).click()]);

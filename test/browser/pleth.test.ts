@@ -1,8 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import type { Knex } from 'knex';
-import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { followNav, launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -20,11 +19,8 @@ async function verdictOf(page: Page, button: string, file: string, expected: str
 
 describe('pleth strip check page', () => {
   it('shows the verdict for each example strip, with waveforms and figures', async () => {
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, 'intensivist@harbourside.example');
-    await page.getByTestId('main-nav').getByRole('link', { name: 'Strip check' }).click();
-    await page.waitForURL(`${APP_URL}/pleth`);
+    const { context, page } = await openSignedIn(browser, { as: 'intensivist@harbourside.example' });
+    await followNav(page, 'Strip check', '/pleth');
     await waitForIsland(page, 'strip-file'); // the header's search is an island too: wait for this page's own
 
     expect(await verdictOf(page, 'Clean trace', 'clean.csv', 'trustworthy')).toContain('Trustworthy');
@@ -48,10 +44,7 @@ describe('pleth strip check page', () => {
     const { patientId: pid } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 });
     const [obsId] = await db('observations').insert({ patient_id: pid, bed_id: unit.bedIds[0], taken_at: new Date(Date.now() - 5 * 60_000), source: 'device', spo2: 86, trace: 'weak' });
 
-    const context = await browser.newContext();
-    const page = await context.newPage();
-    await signInThroughForm(page, nurse.email, nurse.password);
-    await page.goto(`${APP_URL}/pleth?patient=${pid}`);
+    const { context, page } = await openSignedIn(browser, { as: nurse, path: `/pleth?patient=${pid}` });
     await waitForIsland(page, 'strip-file'); // the header's search is an island too: wait for this page's own
 
     await page.getByTestId('strip-file').setInputFiles({ name: 'broken.csv', mimeType: 'text/csv', buffer: Buffer.from('time,red,infrared,dark\n0,1,1,0\n0.01,x,1,0\n') });

@@ -2,8 +2,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
-import { APP_URL, signedIn } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { signedIn } from '../support/app.ts';
+import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
 let browser: Browser;
@@ -29,10 +29,7 @@ afterAll(async () => { await browser?.close(); await db?.destroy(); });
 
 describe('outreach queue in a browser', () => {
   it('shows time and age, SpO₂ now with a trend line, confirms a close in words and keeps it under Closed', async () => {
-    const context = await browser.newContext({ locale: 'en-US', timezoneId: 'America/New_York' });
-    const page = await context.newPage();
-    await signInThroughForm(page, outreach.email, outreach.password);
-    await page.goto(`${APP_URL}/escalations`);
+    const { context, page } = await openSignedIn(browser, { as: outreach, path: '/escalations', context: { locale: 'en-US', timezoneId: 'America/New_York' } });
     const row = page.getByTestId(`escalation-${escalationId}`);
     await waitForIsland(page, `escalation-${escalationId}`);
     expect(await row.getByTestId('escalation-raised').textContent()).toMatch(/^raised \d\d:\d\d · (just now|\d+ s ago|\d+ min ago)$/);

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
 import { waitForMail } from '../support/mailbox.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { launchBrowser, openSignedIn, signInThroughForm, waitForIsland } from '../support/browser.ts';
 import { createUnit, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
@@ -100,10 +100,7 @@ describe('running staff without a developer', () => {
   });
 
   it('a clinician finds a patient from the header: / focuses, arrows and Enter open the chart', async () => {
-    const ctx = await browser.newContext();
-    const page = await ctx.newPage();
-    await signInThroughForm(page, 'intensivist@harbourside.example');
-    await waitForIsland(page, 'patient-search');
+    const { context: ctx, page } = await openSignedIn(browser, { as: 'intensivist@harbourside.example', island: 'patient-search' });
     await page.locator('body').press('/');
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('patient-search-input');
     await page.keyboard.type('Perpetua');

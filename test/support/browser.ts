@@ -1,5 +1,5 @@
 /** Debian's Chromium driven by playwright-core: never a downloaded browser. */
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
 import { APP_URL, DEMO_PASSWORD } from './app.ts';
 
 export async function launchBrowser(): Promise<Browser> {
@@ -29,4 +29,31 @@ export async function waitForIsland(page: Page, testId: string, timeout = 20_000
     const island = document.querySelector(`[data-testid="${id}"]`)?.closest('astro-island');
     return island !== null && island !== undefined && !island.hasAttribute('ssr');
   }, testId, { timeout });
+}
+
+export interface OpenOptions {
+  /** A demo address (the demo password), or a fixture user with its own password. */
+  as: string | { email: string; password: string };
+  /** The page to open once signed in (after APP_URL); left out, the page stays where sign-in led. */
+  path?: string;
+  /** A test id whose island must have hydrated before the test acts. */
+  island?: string;
+  context?: BrowserContextOptions;
+}
+
+/** A fresh context (its own cookies) signed in through the form, optionally on a page with its island ready. The test closes the context. */
+export async function openSignedIn(browser: Browser, o: OpenOptions): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext(o.context);
+  const page = await context.newPage();
+  const who = typeof o.as === 'string' ? { email: o.as, password: DEMO_PASSWORD } : o.as;
+  await signInThroughForm(page, who.email, who.password);
+  if (o.path !== undefined) await page.goto(`${APP_URL}${o.path}`);
+  if (o.island !== undefined) await waitForIsland(page, o.island);
+  return { context, page };
+}
+
+/** Opens a page through the main navigation, as a person would, and waits until the address is the page's. */
+export async function followNav(page: Page, link: string, path: string): Promise<void> {
+  await page.getByTestId('main-nav').getByRole('link', { name: link }).click();
+  await page.waitForURL(`${APP_URL}${path}`);
 }

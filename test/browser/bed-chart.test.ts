@@ -7,18 +7,16 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { signedIn } from '../support/app.ts';
-import { launchBrowser, openSignedIn } from '../support/browser.ts';
+import { openSignedIn, useBrowser } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 import { formatDayTime } from '../../src/lib/time/format.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let patientId: number;
 let timeZone: string;
 beforeAll(async () => {
-  browser = await launchBrowser();
   const db = testDb();
   // The demo patient in bed 4-03 (a bed of the demo nurse).
   const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').join('units as u', 'u.id', 'b.unit_id')
@@ -27,7 +25,6 @@ beforeAll(async () => {
   patientId = Number(stay.patient_id);
   timeZone = stay.time_zone;
 }, 60_000);
-afterAll(async () => { await browser?.close(); });
 
 describe('bed chart: keyboard', () => {
   it('reaches SpO₂ in at most 3 Tab presses from page load (skip link), and Enter saves', async () => {

@@ -1,31 +1,18 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
-import { testDb } from '../support/db.ts';
+import { fillByLabel, openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
+import { demoPatientId } from '../support/pages.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let patientId: number;
-beforeAll(async () => {
-  browser = await launchBrowser();
-  const db = testDb();
-  const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-11').whereNull('s.ended_at').first('s.patient_id');
-  patientId = stay.patient_id;
-  await db.destroy();
-});
-afterAll(async () => { await browser?.close(); });
+beforeAll(async () => { patientId = await demoPatientId('4-11'); });
 
 describe('blood gases in a real browser', () => {
   it('a nurse charts a gas whose SaO₂ is 85 % while SpO₂ read 94 %: occult hypoxaemia shows on the bed chart and the board', async () => {
     const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'bed-chart' });
     await waitForIsland(page, 'gas-form');
     const form = page.getByTestId('gas-form');
-    await form.getByLabel('SpO₂ on the monitor (%)').fill('94');
-    await form.getByLabel('pH').fill('7.34');
-    await form.getByLabel('SaO₂ (%) co-oximetry').fill('85');
-    await form.getByLabel('PaO₂ (kPa)').fill('7.0');
-    await form.getByLabel('PaCO₂ (kPa)').fill('6.2');
-    await form.getByLabel('FiO₂ at sampling').fill('28');
+    await fillByLabel(form, { 'SpO₂ on the monitor (%)': '94', pH: '7.34', 'SaO₂ (%) co-oximetry': '85', 'PaO₂ (kPa)': '7.0', 'PaCO₂ (kPa)': '6.2', 'FiO₂ at sampling': '28' });
     await form.getByRole('button', { name: 'Save blood gas' }).click();
     await page.waitForFunction(() => document.querySelector('[data-testid="gas-status"]')?.textContent?.includes('occult hypoxaemia'), null, { timeout: 20_000 });
 

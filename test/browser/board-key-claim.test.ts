@@ -2,22 +2,14 @@
  * Issue 10 point 5: the board's key, claim from the tile, assignment confirmed in words, tiles that
  * do not jump while keyboard focus is inside the board, and polite announcements.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { signedIn } from '../support/app.ts';
-import { launchBrowser, openSignedIn } from '../support/browser.ts';
-import { testDb } from '../support/db.ts';
+import { openSignedIn, useBrowser } from '../support/browser.ts';
+import { demoPatientId } from '../support/pages.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let patientId: number;
-beforeAll(async () => {
-  browser = await launchBrowser();
-  const db = testDb();
-  const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-11').whereNull('s.ended_at').first('s.patient_id');
-  patientId = stay.patient_id;
-  await db.destroy();
-});
-afterAll(async () => { await browser?.close(); });
+beforeAll(async () => { patientId = await demoPatientId('4-11'); });
 
 const order = (page: import('playwright-core').Page) => page.getByTestId('board-tiles').locator('li').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
 

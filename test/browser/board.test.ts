@@ -1,12 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { signedIn } from '../support/app.ts';
-import { launchBrowser, openSignedIn } from '../support/browser.ts';
-import { testDb } from '../support/db.ts';
+import { openSignedIn, useBrowser } from '../support/browser.ts';
+import { demoPatientId } from '../support/pages.ts';
 
-let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); });
+const browser = useBrowser();
 
 describe('ward board in a real browser', () => {
   it('shows the charge nurse the below-band bed first with its duration, follows new readings and says when data is stale', async () => {
@@ -24,11 +21,9 @@ describe('ward board in a real browser', () => {
     expect(await first.getByTestId('tile-sentence').textContent()).toContain('Bed 4-01');
 
     // A reading posted through the API shows up without a reload.
-    const db = testDb();
-    const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-06').whereNull('s.ended_at').first('s.patient_id');
-    await db.destroy();
+    const patientId = await demoPatientId('4-06');
     const nurse = await signedIn('nurse@harbourside.example');
-    const res = await nurse.post(`/api/patients/${stay.patient_id}/observations`, {
+    const res = await nurse.post(`/api/patients/${patientId}/observations`, {
       takenAt: new Date().toISOString(), spo2: 91, heartRate: 84, respRate: 16, device: 'room_air', trace: 'clean', systolic: 122, temperature: 36.9, consciousness: 'alert',
     });
     expect(res.status).toBe(201);

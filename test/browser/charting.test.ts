@@ -1,29 +1,16 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, openSignedIn } from '../support/browser.ts';
-import { testDb } from '../support/db.ts';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { fillByLabel, openSignedIn, useBrowser } from '../support/browser.ts';
+import { demoPatientId } from '../support/pages.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let patientId: number;
-beforeAll(async () => {
-  browser = await launchBrowser();
-  const db = testDb();
-  const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-08').whereNull('s.ended_at').first('s.patient_id');
-  patientId = stay.patient_id;
-  await db.destroy();
-});
-afterAll(async () => { await browser?.close(); });
+beforeAll(async () => { patientId = await demoPatientId('4-08'); });
 
 describe('bed chart in a real browser', () => {
   it('a nurse charts an obs and sees it in the obs record and on the chart', async () => {
     const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'obs-entry-form' });
     const form = page.getByTestId('obs-entry-form');
-    await form.getByLabel('SpO₂ (%)').fill('83');
-    await form.getByLabel('Heart rate (/min)').fill('112');
-    await form.getByLabel('Respiratory rate (/min)').fill('26');
-    await form.getByLabel('FiO₂').fill('45');
-    await form.getByLabel('Systolic BP (mmHg)').fill('104');
-    await form.getByLabel('Temperature (°C)').fill('38.3');
+    await fillByLabel(form, { 'SpO₂ (%)': '83', 'Heart rate (/min)': '112', 'Respiratory rate (/min)': '26', 'FiO₂': '45', 'Systolic BP (mmHg)': '104', 'Temperature (°C)': '38.3' });
     await form.getByLabel('Heart rate (/min)').press('Enter'); // Enter saves
     await page.getByText('Saved', { exact: false }).first().waitFor({ timeout: 15_000 });
 

@@ -1,12 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
+import { openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
 import { testDb } from '../support/db.ts';
 
-let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); });
+const browser = useBrowser();
 
 describe('outreach queue in a real browser', () => {
   it('outreach claims and closes the demo desaturation with an outcome, and the board tile follows', async () => {

@@ -1,12 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
-import { testDb } from '../support/db.ts';
+import { describe, expect, it } from 'vitest';
+import { openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
+import { demoPatientId } from '../support/pages.ts';
 import { printedPages, printedPageSize } from '../support/pdf.ts';
 
-let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); });
+const browser = useBrowser();
 
 const ICU_BEDS = Array.from({ length: 12 }, (_, i) => `4-${String(i + 1).padStart(2, '0')}`);
 // Words that only belong to forms, buttons and navigation: none may reach paper.
@@ -52,10 +49,8 @@ describe('handover sheet on paper', () => {
 
 describe('bed chart on paper', () => {
   it('prints the chart page with the patient and the caution, and without the navigation', async () => {
-    const db = testDb();
-    const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-01').whereNull('s.ended_at').first('s.patient_id');
-    await db.destroy();
-    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: `/patients/${stay.patient_id}` });
+    const patientId = await demoPatientId(); // bed 4-01
+    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: `/patients/${patientId}` });
     await page.getByTestId('chart-heading').waitFor();
     await page.locator('.recharts-surface').first().waitFor({ timeout: 20_000 });
     const pages = await printedPages(page);

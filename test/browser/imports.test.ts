@@ -1,17 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { APP_URL } from '../support/app.ts';
-import { followNav, launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
+import { followNav, openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let db: Knex;
 let nurse: { email: string; password: string };
 let patientId: number;
 
 beforeAll(async () => {
-  browser = await launchBrowser();
   db = testDb();
   const unit = await createUnit(db, 2);
   nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
@@ -21,7 +19,7 @@ beforeAll(async () => {
     band: { low: 92, high: 96, news2Scale: 1, reason: 'Fixture band', orderedBy: intensivist.id, orderedAt: Date.now() - 8 * 3_600_000 },
   }));
 });
-afterAll(async () => { await browser?.close(); await db?.destroy(); });
+afterAll(async () => { await db?.destroy(); });
 
 /** 240 readings a minute apart ending 10 minutes ago, ISO times; line 6 is refused (SpO₂ 140). */
 function trendFile(): Buffer {

@@ -1,25 +1,23 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { Hl7Client } from '@medplum/hl7';
 import { buildOru } from '~/lib/hl7/oru.ts';
-import { followNav, launchBrowser, openSignedIn } from '../support/browser.ts';
+import { followNav, openSignedIn, useBrowser } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let db: Knex;
 let unit: { unitId: number; code: string; bedIds: number[] };
 let patientId: number;
 let charge: { email: string; password: string };
 
 beforeAll(async () => {
-  browser = await launchBrowser();
   db = testDb();
   unit = await createUnit(db, 2);
   charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
   ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 }));
 });
-afterAll(async () => { await browser?.close(); await db?.destroy(); });
+afterAll(async () => { await db?.destroy(); });
 
 describe('HL7 gateways page and the FHIR download', () => {
   it('an admin registers a gateway and maps a bed name; its message is then stored; the bed chart offers the FHIR export', async () => {

@@ -1,13 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import type { Knex } from 'knex';
-import { followNav, launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
+import { followNav, openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let db: Knex;
-beforeAll(async () => { browser = await launchBrowser(); db = testDb(); });
-afterAll(async () => { await browser?.close(); await db?.destroy(); });
+beforeAll(() => { db = testDb(); });
+afterAll(async () => { await db?.destroy(); });
 
 async function verdictOf(page: Page, button: string, file: string, expected: string) {
   await page.getByRole('button', { name: button }).click();

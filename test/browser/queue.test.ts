@@ -1,18 +1,16 @@
 /** Issue 10 point 6: the outreach queue in a browser — time and age, SpO₂ now and its trend, close confirmed, the Closed tab. */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
 import type { Knex } from 'knex';
 import { signedIn } from '../support/app.ts';
-import { launchBrowser, openSignedIn, waitForIsland } from '../support/browser.ts';
+import { openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
 import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let db: Knex;
 let escalationId: number;
 let outreach: { email: string; password: string };
 
 beforeAll(async () => {
-  browser = await launchBrowser();
   db = testDb();
   const unit = await createUnit(db, 1);
   const nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
@@ -25,7 +23,7 @@ beforeAll(async () => {
   }
   escalationId = (await db('escalations').where({ patient_id: id, kind: 'below_band' }).first()).id;
 });
-afterAll(async () => { await browser?.close(); await db?.destroy(); });
+afterAll(async () => { await db?.destroy(); });
 
 describe('outreach queue in a browser', () => {
   it('shows time and age, SpO₂ now with a trend line, confirms a close in words and keeps it under Closed', async () => {

@@ -1,17 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { APP_URL } from '../support/app.ts';
 import { waitForMail } from '../support/mailbox.ts';
-import { launchBrowser, openSignedIn, signInThroughForm, waitForIsland } from '../support/browser.ts';
+import { fillByLabel, openSignedIn, signInThroughForm, useBrowser, waitForIsland } from '../support/browser.ts';
 import { createUnit, testDb, unique } from '../support/db.ts';
 import { signInPeople } from '../support/people.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let unitCode: string;
 let patientId: number;
 
 beforeAll(async () => {
-  browser = await launchBrowser();
   const db = testDb();
   const unit = await createUnit(db, 2);
   unitCode = unit.code;
@@ -22,7 +20,6 @@ beforeAll(async () => {
   expect(obs.status).toBe(201);
   await db.destroy();
 });
-afterAll(async () => { await browser?.close(); });
 
 describe('running staff without a developer', () => {
   it('admin adds a nurse; she sets a password from the e-mailed link, signs in and charts; deactivation stops her open page', async () => {
@@ -72,9 +69,7 @@ describe('running staff without a developer', () => {
     await nurse.goto(`${APP_URL}/patients/${patientId}`);
     await waitForIsland(nurse, 'obs-entry-form');
     const obs = nurse.getByTestId('obs-entry-form');
-    await obs.getByLabel('SpO₂ (%)').fill('93');
-    await obs.getByLabel('Heart rate (/min)').fill('91');
-    await obs.getByLabel('Respiratory rate (/min)').fill('19');
+    await fillByLabel(obs, { 'SpO₂ (%)': '93', 'Heart rate (/min)': '91', 'Respiratory rate (/min)': '19' });
     await obs.getByLabel('Heart rate (/min)').press('Enter');
     await nurse.getByText('Saved', { exact: false }).first().waitFor({ timeout: 15_000 });
     await nurse.waitForFunction(() => document.querySelector('[data-testid="obs-record"] tbody tr')?.textContent?.includes('91'), null, { timeout: 20_000 });
@@ -88,9 +83,7 @@ describe('running staff without a developer', () => {
     await row.getByText('deactivated').waitFor({ timeout: 10_000 });
 
     // Her open page stops working at its next request: saving is refused, and a reload lands on sign-in.
-    await obs.getByLabel('SpO₂ (%)').fill('92');
-    await obs.getByLabel('Heart rate (/min)').fill('90');
-    await obs.getByLabel('Respiratory rate (/min)').fill('18');
+    await fillByLabel(obs, { 'SpO₂ (%)': '92', 'Heart rate (/min)': '90', 'Respiratory rate (/min)': '18' });
     await obs.getByLabel('Heart rate (/min)').press('Enter');
     await obs.getByRole('alert').filter({ hasText: /sign in/i }).waitFor({ timeout: 15_000 });
     await nurse.reload();

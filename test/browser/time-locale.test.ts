@@ -3,22 +3,15 @@
  * New York and from one set to British English in London read the same text: unit time zone,
  * 24-hour clock, day first with the month as a word — never the browser's locale or zone.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, BrowserContext } from 'playwright-core';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
-import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
-import { testDb } from '../support/db.ts';
+import { signInThroughForm, useBrowser, waitForIsland } from '../support/browser.ts';
+import { demoPatientId } from '../support/pages.ts';
 
-let browser: Browser;
+const browser = useBrowser();
 let patientId: number;
-beforeAll(async () => {
-  browser = await launchBrowser();
-  const db = testDb();
-  const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-03').whereNull('s.ended_at').first('s.patient_id');
-  patientId = stay.patient_id;
-  await db.destroy();
-});
-afterAll(async () => { await browser?.close(); });
+beforeAll(async () => { patientId = await demoPatientId('4-03'); });
 
 const US = { locale: 'en-US', timezoneId: 'America/New_York' };
 const GB = { locale: 'en-GB', timezoneId: 'Europe/London' };

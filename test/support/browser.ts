@@ -1,5 +1,6 @@
 /** Debian's Chromium driven by playwright-core: never a downloaded browser. */
-import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Locator, type Page } from 'playwright-core';
 import { APP_URL, DEMO_PASSWORD } from './app.ts';
 
 export async function launchBrowser(): Promise<Browser> {
@@ -10,6 +11,20 @@ export async function launchBrowser(): Promise<Browser> {
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--disable-background-networking', '--disable-component-update',
       '--disable-sync', '--no-first-run'],
   });
+}
+
+/** What a test file uses of its browser: fresh contexts, each with its own cookies. */
+export type TestBrowser = Pick<Browser, 'newContext'>;
+
+/**
+ * One Chromium for a test file, launched before its tests and closed after them. Call at the top of
+ * the file; the value returned may be used at once in tests and later hooks.
+ */
+export function useBrowser(): TestBrowser {
+  let browser: Browser | undefined;
+  beforeAll(async () => { browser = await launchBrowser(); });
+  afterAll(async () => { await browser?.close(); });
+  return { newContext: (options) => browser!.newContext(options) };
 }
 
 export async function signInThroughForm(page: Page, email: string, password = DEMO_PASSWORD, base = APP_URL): Promise<void> {
@@ -42,7 +57,7 @@ export interface OpenOptions {
 }
 
 /** A fresh context (its own cookies) signed in through the form, optionally on a page with its island ready. The test closes the context. */
-export async function openSignedIn(browser: Browser, o: OpenOptions): Promise<{ context: BrowserContext; page: Page }> {
+export async function openSignedIn(browser: TestBrowser, o: OpenOptions): Promise<{ context: BrowserContext; page: Page }> {
   const context = await browser.newContext(o.context);
   const page = await context.newPage();
   const who = typeof o.as === 'string' ? { email: o.as, password: DEMO_PASSWORD } : o.as;
@@ -56,4 +71,9 @@ export async function openSignedIn(browser: Browser, o: OpenOptions): Promise<{ 
 export async function followNav(page: Page, link: string, path: string): Promise<void> {
   await page.getByTestId('main-nav').getByRole('link', { name: link }).click();
   await page.waitForURL(`${APP_URL}${path}`);
+}
+
+/** Types each value into the field with that label, in order, inside `scope` (a form, or the page). */
+export async function fillByLabel(scope: Page | Locator, values: Record<string, string>): Promise<void> {
+  for (const [label, value] of Object.entries(values)) await scope.getByLabel(label).fill(value);
 }

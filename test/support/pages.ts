@@ -43,11 +43,11 @@ export const APP_PAGES: AppPage[] = [
 
 export const demoEmail = (role: DemoRole) => `${role}@harbourside.example`;
 
-/** The demo patient in bed 4-01 now. */
-export async function demoPatientId(): Promise<number> {
+/** The demo patient in a demo bed now (4-01, the one with the desaturation, unless named). */
+export async function demoPatientId(bedLabel = '4-01'): Promise<number> {
   const db = testDb();
   try {
-    const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', '4-01').whereNull('s.ended_at').first('s.patient_id');
+    const stay = await db('bed_stays as s').join('beds as b', 'b.id', 's.bed_id').where('b.label', bedLabel).whereNull('s.ended_at').first('s.patient_id');
     return Number(stay.patient_id);
   } finally {
     await db.destroy();

@@ -1,15 +1,12 @@
-import { beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { APP_URL } from '../support/app.ts';
-import { fillByLabel, openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
-import { demoPatientId } from '../support/pages.ts';
+import { fillByLabel, openBedChart, useBrowser, waitForIsland } from '../support/browser.ts';
 
 const browser = useBrowser();
-let patientId: number;
-beforeAll(async () => { patientId = await demoPatientId('4-11'); });
 
 describe('blood gases in a real browser', () => {
   it('a nurse charts a gas whose SaO₂ is 85 % while SpO₂ read 94 %: occult hypoxaemia shows on the bed chart and the board', async () => {
-    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'bed-chart' });
+    const { context, page, patientId } = await openBedChart(browser, { as: 'nurse@harbourside.example', bed: '4-11', island: 'bed-chart' });
     await waitForIsland(page, 'gas-form');
     const form = page.getByTestId('gas-form');
     await fillByLabel(form, { 'SpO₂ on the monitor (%)': '94', pH: '7.34', 'SaO₂ (%) co-oximetry': '85', 'PaO₂ (kPa)': '7.0', 'PaCO₂ (kPa)': '6.2', 'FiO₂ at sampling': '28' });

@@ -1,14 +1,11 @@
-import { beforeAll, describe, expect, it } from 'vitest';
-import { fillByLabel, openSignedIn, useBrowser } from '../support/browser.ts';
-import { demoPatientId } from '../support/pages.ts';
+import { describe, expect, it } from 'vitest';
+import { fillByLabel, openBedChart, useBrowser } from '../support/browser.ts';
 
 const browser = useBrowser();
-let patientId: number;
-beforeAll(async () => { patientId = await demoPatientId('4-08'); });
 
 describe('bed chart in a real browser', () => {
   it('a nurse charts an obs and sees it in the obs record and on the chart', async () => {
-    const { context, page } = await openSignedIn(browser, { as: 'nurse@harbourside.example', path: `/patients/${patientId}`, island: 'obs-entry-form' });
+    const { context, page } = await openBedChart(browser, { as: 'nurse@harbourside.example', bed: '4-08', island: 'obs-entry-form' });
     const form = page.getByTestId('obs-entry-form');
     await fillByLabel(form, { 'SpO₂ (%)': '83', 'Heart rate (/min)': '112', 'Respiratory rate (/min)': '26', 'FiO₂': '45', 'Systolic BP (mmHg)': '104', 'Temperature (°C)': '38.3' });
     await form.getByLabel('Heart rate (/min)').press('Enter'); // Enter saves
@@ -23,7 +20,7 @@ describe('bed chart in a real browser', () => {
   });
 
   it('an intensivist orders a new band and the chart\'s band steps', async () => {
-    const { context, page } = await openSignedIn(browser, { as: 'intensivist@harbourside.example', path: `/patients/${patientId}`, island: 'order-form' });
+    const { context, page } = await openBedChart(browser, { as: 'intensivist@harbourside.example', bed: '4-08', island: 'order-form' });
     // Count the band areas once the chart has drawn its series (before that the count is 0 and any draw would pass).
     await page.getByTestId('chart-summary').waitFor({ state: 'attached', timeout: 20_000 });
     const areasBefore = await page.getByTestId('chart-area').locator('.recharts-reference-area').count();

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
-import { demoPatientId } from '../support/pages.ts';
+import { openBedChart, openSignedIn, useBrowser, waitForIsland } from '../support/browser.ts';
 import { printedPages, printedPageSize } from '../support/pdf.ts';
 
 const browser = useBrowser();
@@ -49,8 +48,7 @@ describe('handover sheet on paper', () => {
 
 describe('bed chart on paper', () => {
   it('prints the chart page with the patient and the caution, and without the navigation', async () => {
-    const patientId = await demoPatientId(); // bed 4-01
-    const { context, page } = await openSignedIn(browser, { as: 'charge@harbourside.example', path: `/patients/${patientId}` });
+    const { context, page } = await openBedChart(browser, { as: 'charge@harbourside.example', bed: '4-01' });
     await page.getByTestId('chart-heading').waitFor();
     await page.locator('.recharts-surface').first().waitFor({ timeout: 20_000 });
     const pages = await printedPages(page);

@@ -2,6 +2,7 @@
 import { afterAll, beforeAll } from 'vitest';
 import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Locator, type Page } from 'playwright-core';
 import { APP_URL, DEMO_PASSWORD } from './app.ts';
+import { demoPatientId } from './pages.ts';
 
 export async function launchBrowser(): Promise<Browser> {
   // launch() gives every run a fresh temporary profile; no background networking: there is no network to reach.
@@ -65,6 +66,12 @@ export async function openSignedIn(browser: TestBrowser, o: OpenOptions): Promis
   if (o.path !== undefined) await page.goto(`${APP_URL}${o.path}`);
   if (o.island !== undefined) await waitForIsland(page, o.island);
   return { context, page };
+}
+
+/** The bed chart of the demo patient in demo bed `bed`, opened as `openSignedIn` opens a page; with that patient's id. */
+export async function openBedChart(browser: TestBrowser, o: Omit<OpenOptions, 'path'> & { bed: string }) {
+  const patientId = await demoPatientId(o.bed);
+  return { ...(await openSignedIn(browser, { ...o, path: `/patients/${patientId}` })), patientId };
 }
 
 /** Opens a page through the main navigation, as a person would, and waits until the address is the page's. */

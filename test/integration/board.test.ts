@@ -1,21 +1,20 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
+import { HttpSession } from '../support/app.ts';
+import { createAdmittedPatient, createUnit } from '../support/db.ts';
+import { useWard, type FixtureUnit } from '../support/ward.ts';
 import { unitBoard } from '../../src/lib/server/board/board.ts';
 import { db as appDb, closeDb } from '../../src/lib/server/queries/db.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let otherUnit: { unitId: number; code: string; bedIds: number[] };
-let smallUnit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-const users: Record<string, { id: number; email: string; password: string }> = {};
+const { db, unit, other: otherUnit, s, ids } = useWard({
+  beds: 8, otherBeds: 1,
+  people: { nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], otherNurse: ['nurse', 'other'], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null] },
+});
+let smallUnit: FixtureUnit;
 const now = Date.now();
 const min = 60_000;
 
 async function patientIn(bedId: number, band: [number, number] | null) {
-  const order = band ? { low: band[0], high: band[1], orderedBy: users.intensivist.id, orderedAt: now - 9 * 60 * min } : undefined;
+  const order = band ? { low: band[0], high: band[1], orderedBy: ids.intensivist, orderedAt: now - 9 * 60 * min } : undefined;
   return (await createAdmittedPatient(db, { bedId, since: now - 10 * 60 * min, band: order })).patientId;
 }
 
@@ -30,13 +29,6 @@ const span = (from: number, to: number, f: (m: number) => Partial<{ spo2: number
   Array.from({ length: from - to + 1 }, (_, i) => ({ minsAgo: from - i, spo2: 94, ...f(from - i) }));
 
 beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 8);
-  otherUnit = await createUnit(db, 1);
-  for (const [key, role, unitId] of [['nurse', 'nurse', unit.unitId], ['charge', 'charge', unit.unitId], ['otherNurse', 'nurse', otherUnit.unitId], ['intensivist', 'intensivist', null], ['outreach', 'outreach', null], ['admin', 'admin', null]] as const) {
-    users[key] = await createUser(db, { role, unitId });
-    s[key] = await signedIn(users[key].email, users[key].password);
-  }
   smallUnit = await createUnit(db, 1);
   const lone = await patientIn(smallUnit.bedIds[0], [92, 96]);
   await readings(lone, smallUnit.bedIds[0], [{ minsAgo: 5, spo2: 95, source: 'charted' }]);
@@ -63,7 +55,7 @@ beforeAll(async () => {
   const inBand2 = await patientIn(b7, [92, 96]);
   await readings(inBand2, b7, [{ minsAgo: 10, spo2: 93, source: 'charted', fio2: 0.21, device: 'room_air' }, ...span(10, 0, () => ({ spo2: 93 }))]);
 });
-afterAll(async () => { await db.destroy(); await closeDb(); });
+afterAll(async () => { await closeDb(); });
 
 describe('GET /api/board', () => {
   it('gives each bed its state, duration and sort position by concern', async () => {
@@ -100,14 +92,14 @@ describe('GET /api/board', () => {
   });
 
   it('lets the charge nurse assign a nurse to a bed, and shows it on the tile', async () => {
-    expect((await s.nurse.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: users.nurse.id })).status).toBe(403);
-    expect((await s.charge.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: users.otherNurse.id })).status).toBe(400);
-    expect((await s.charge.put(`/api/beds/${otherUnit.bedIds[0]}/assignment`, { nurseId: users.nurse.id })).status).toBe(403);
-    const res = await s.charge.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: users.nurse.id });
+    expect((await s.nurse.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: ids.nurse })).status).toBe(403);
+    expect((await s.charge.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: ids.otherNurse })).status).toBe(400);
+    expect((await s.charge.put(`/api/beds/${otherUnit.bedIds[0]}/assignment`, { nurseId: ids.nurse })).status).toBe(403);
+    const res = await s.charge.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: ids.nurse });
     expect(res.status).toBe(200);
     const board = await (await s.nurse.get(`/api/board?unit=${unit.code}`)).json();
     const tile = board.tiles.find((t: { bedLabel: string }) => t.bedLabel === 'F-1');
-    expect(tile.nurse).toEqual({ id: users.nurse.id, name: 'Fixture nurse' });
+    expect(tile.nurse).toEqual({ id: ids.nurse, name: 'Fixture nurse' });
     expect(await db('audit_log').where({ entity: 'bed', entity_id: String(unit.bedIds[0]), action: 'bed.assign' }).first()).toBeTruthy();
   });
 
@@ -116,7 +108,7 @@ describe('GET /api/board', () => {
       let n = 0;
       const onQuery = () => { n += 1; };
       appDb().on('query', onQuery);
-      await unitBoard({ id: users.intensivist.id, email: '', name: '', role: 'intensivist', unitId: null, unitCode: null, unitName: null }, code);
+      await unitBoard({ id: ids.intensivist, email: '', name: '', role: 'intensivist', unitId: null, unitCode: null, unitName: null }, code);
       appDb().off('query', onQuery);
       return n;
     };

@@ -1,24 +1,23 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { HttpSession } from '../support/app.ts';
+import { createAdmittedPatient, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 import { received, smtp, waitForMail } from '../support/mailbox.ts';
 import { startInstance } from '../support/instance.ts';
 import { renotifyUnclaimed } from '../../src/lib/server/escalations/sweep.ts';
 import { deliverDueMail } from '../../src/lib/server/mail/outbox-worker.ts';
 import { closeDb } from '../../src/lib/server/queries/db.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
+const { db, unit, s, ids } = useWard({
+  beds: 8, people: { nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null] },
+});
 const outreachAddress = `${unique('outreach')}@fixture.example`;
 let bedCursor = 0;
-let intensivistId: number;
 
 async function admitWithBand(low = 92, high = 96) {
   const bedId = unit.bedIds[bedCursor++]!;
   // Ordered hours ago: readings are judged only against the band in force when they were taken.
-  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low, high, orderedBy: intensivistId, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
+  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low, high, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
 }
 
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
@@ -31,16 +30,9 @@ async function chart(patientId: number, spo2: number, minsAgo = 0, trace = 'clea
 const escalationsOf = (patientId: number) => db('escalations').where({ patient_id: patientId }).orderBy('id');
 
 beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 8);
   await db('unit_settings').insert({ unit_id: unit.unitId, outreach_emails: outreachAddress });
-  for (const [key, role, unitId] of [['nurse', 'nurse', unit.unitId], ['charge', 'charge', unit.unitId], ['intensivist', 'intensivist', null], ['outreach', 'outreach', null], ['admin', 'admin', null]] as const) {
-    const u = await createUser(db, { role, unitId });
-    if (role === 'intensivist') intensivistId = u.id;
-    s[key] = await signedIn(u.email, u.password);
-  }
 });
-afterAll(async () => { await smtp('start'); await db.destroy(); await closeDb(); });
+afterAll(async () => { await smtp('start'); await closeDb(); });
 
 describe('escalations raised from obs, e-mailed through the outbox', () => {
   it('two trusted charted obs below band raise one escalation and one mail; a third raises nothing new', async () => {

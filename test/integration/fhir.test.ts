@@ -3,39 +3,28 @@
  * validated against the R4 structure definitions (@medplum/core validateResource) and its codes
  * against the R4 code systems (../shared/REFERENCES.md for LOINC and UCUM, from memory).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { codeIssues, ensureIndexed, r4Codes, structureIssues } from '~/lib/fhir/validate.ts';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb } from '../support/db.ts';
+import { HttpSession } from '../support/app.ts';
+import { createAdmittedPatient } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-let otherUnit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
+const { db, unit, s, ids } = useWard({
+  beds: 3, otherBeds: 2,
+  people: { charge: ['charge', 'unit'], nurse: ['nurse', 'unit'], otherNurse: ['nurse', 'other'], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null] },
+});
 let patientId: number;
-let intensivistId: number;
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
 const obs = (extra: Record<string, unknown> = {}) => ({ takenAt: minutesAgo(30), spo2: 91, heartRate: 104, respRate: 24, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean', systolic: 112, temperature: 37.9, consciousness: 'alert', ...extra });
 
 beforeAll(async () => {
   ensureIndexed();
   r4Codes('http://hl7.org/fhir/bundle-type');
-  db = testDb();
-  unit = await createUnit(db, 3);
-  otherUnit = await createUnit(db, 2);
-  for (const [name, role, unitId] of [['charge', 'charge', unit.unitId], ['nurse', 'nurse', unit.unitId], ['otherNurse', 'nurse', otherUnit.unitId], ['intensivist', 'intensivist', null], ['outreach', 'outreach', null], ['admin', 'admin', null]] as const) {
-    const u = await createUser(db, { role, unitId });
-    if (name === 'intensivist') intensivistId = u.id;
-    s[name] = await signedIn(u.email, u.password);
-  }
-  s.anon = new HttpSession();
   ({ patientId } = await createAdmittedPatient(db, {
     bedId: unit.bedIds[0], since: Date.now() - 5 * 3_600_000, givenName: 'Fenna', dateOfBirth: '1958-07-21',
-    band: { low: 88, high: 92, reason: 'Known CO₂ retainer', orderedBy: intensivistId, orderedAt: Date.now() - 4 * 3_600_000 },
+    band: { low: 88, high: 92, reason: 'Known CO₂ retainer', orderedBy: ids.intensivist, orderedAt: Date.now() - 4 * 3_600_000 },
   }));
 }, 180_000);
-afterAll(async () => { await db.destroy(); });
 
 async function exportBundle(session: HttpSession, query = '') {
   const res = await session.get(`/api/patients/${patientId}/fhir${query}`);

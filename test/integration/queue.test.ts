@@ -1,34 +1,15 @@
 /** Issue 10 point 6: the outreach queue's data — SpO₂ now with its time, a 30-minute trend, filters, and closed ones of 7 days. */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { HttpSession, signedIn } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, createUser, testDb, unique } from '../support/db.ts';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { createAdmittedPatient, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-let intensivistId: number;
-let nurseId: number;
-
+const { db, unit, s, ids } = useWard({ beds: 3, people: { nurse: ['nurse', 'unit'], outreach: ['outreach', null], intensivist: ['intensivist', null], charge: ['charge', 'unit'] } });
 beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 3);
   await db('unit_settings').insert({ unit_id: unit.unitId, outreach_emails: `${unique('q')}@fixture.example` });
-  const nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
-  s.nurse = await signedIn(nurse.email, nurse.password);
-  const outreach = await createUser(db, { role: 'outreach' });
-  s.outreach = await signedIn(outreach.email, outreach.password);
-  const intensivist = await createUser(db, { role: 'intensivist' });
-  intensivistId = intensivist.id;
-  s.intensivist = await signedIn(intensivist.email, intensivist.password);
-  const charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
-  s.charge = await signedIn(charge.email, charge.password);
-  nurseId = nurse.id;
 });
-afterAll(async () => { await db.destroy(); });
 
 async function belowBandPatient(bedIndex: number) {
-  const { patientId: id } = await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 5 * 3_600_000 } });
+  const { patientId: id } = await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 } });
   for (const [spo2, minsAgo] of [[90, 25], [89, 12], [88, 2]] as const) {
     const res = await s.nurse.post(`/api/patients/${id}/observations`, {
       takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(), spo2, heartRate: 100, respRate: 22, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean',
@@ -90,7 +71,7 @@ describe('what the signed-in person may do with each escalation (can, decided on
     expect(await tileCan('nurse', bedId)).toEqual({ claim: false });
     expect(await tileCan('outreach', bedId)).toEqual({ claim: false });
     expect(await tileCan('intensivist', bedId)).toEqual({ claim: false });
-    expect((await s.charge.put(`/api/beds/${bedId}/assignment`, { nurseId })).status).toBe(200);
+    expect((await s.charge.put(`/api/beds/${bedId}/assignment`, { nurseId: ids.nurse })).status).toBe(200);
     expect(await tileCan('nurse', bedId)).toEqual({ claim: true });
 
     // Claimed: nobody may claim it again (the server refuses too); closing stays with charge nurses and outreach.
@@ -120,6 +101,6 @@ describe('what the signed-in person may do with each escalation (can, decided on
     expect(await boardCan('outreach')).toEqual({ assignNurses: false, filterMine: false });
     expect(await boardCan('intensivist')).toEqual({ assignNurses: false, filterMine: false });
     // What the board offers, the server allows, and no more.
-    expect((await s.nurse.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId })).status).toBe(403);
+    expect((await s.nurse.put(`/api/beds/${unit.bedIds[0]}/assignment`, { nurseId: ids.nurse })).status).toBe(403);
   });
 });

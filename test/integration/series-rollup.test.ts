@@ -3,31 +3,18 @@
  * corrects, marks or withdraws readings; long windows are served from it within the point budget;
  * its band-compliance figures agree with the raw computation within 1 min.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
-import { APP_URL, type HttpSession } from '../support/app.ts';
-import { createAdmittedPatient, createUnit, rebuildPatientRollup, testDb } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { APP_URL } from '../support/app.ts';
+import { createAdmittedPatient, rebuildPatientRollup } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 import { bandCompliance } from '../../src/lib/oxygenation/compliance.ts';
 import { floorMinute, minuteRollup } from '../../src/lib/oxygenation/rollup.ts';
 import { toBandOrders, toReading } from '../../src/lib/server/charting/readings.ts';
 import { minutesBetween } from '../../src/lib/server/queries/rollup.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-const ids: Record<string, number> = {};
+const { db, unit, s, ids } = useWard({ beds: 6, people: { nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], admin: ['admin', null], intensivist: ['intensivist', null] } });
 const HOUR = 3_600_000;
 const READING_COLUMNS = ['taken_at', 'source', 'spo2', 'heart_rate', 'resp_rate', 'fio2', 'fio2_estimated', 'device', 'flow_lpm', 'trace', 'perfusion_index'];
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 6);
-  const people = await signInPeople(db, { nurse: ['nurse', unit.unitId], charge: ['charge', unit.unitId], admin: ['admin', null], intensivist: ['intensivist', null] });
-  Object.assign(s, people.sessions);
-  Object.assign(ids, people.ids);
-});
-afterAll(async () => { await db.destroy(); });
 
 async function patientInBed(bedIndex: number, from: number, band: [number, number] | null = [92, 96]) {
   const order = band ? { low: band[0], high: band[1], orderedBy: ids.intensivist, orderedAt: from + 7_500 } : undefined;

@@ -1,24 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Knex } from 'knex';
+import { describe, expect, it } from 'vitest';
 import { HttpSession, signedIn } from '../support/app.ts';
 import { waitForMail } from '../support/mailbox.ts';
-import { countRows, createUnit, createUser, testDb, unique } from '../support/db.ts';
-import { signInPeople } from '../support/people.ts';
+import { countRows, createUser, unique } from '../support/db.ts';
+import { useWard } from '../support/ward.ts';
 
-let db: Knex;
-let unit: { unitId: number; code: string; bedIds: number[] };
-const s: Record<string, HttpSession> = {};
-const ids: Record<string, number> = {};
-const GOOD = 'tidal harbour lantern quietly';
-
-beforeAll(async () => {
-  db = testDb();
-  unit = await createUnit(db, 2);
-  const people = await signInPeople(db, { admin: ['admin', null], admin2: ['admin', null], nurse: ['nurse', unit.unitId], charge: ['charge', unit.unitId], intensivist: ['intensivist', null] });
-  Object.assign(s, people.sessions);
-  Object.assign(ids, people.ids);
+const { db, unit, s, ids } = useWard({
+  beds: 2, people: { admin: ['admin', null], admin2: ['admin', null], nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], intensivist: ['intensivist', null] },
 });
-afterAll(async () => { await db.destroy(); });
+const GOOD = 'tidal harbour lantern quietly';
 
 // mysql2 hands JSON columns back parsed.
 const asJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);

@@ -1,15 +1,14 @@
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Knex } from 'knex';
 import type { HttpSession } from '../support/app.ts';
-import { unique } from '../support/db.ts';
-import { useWard } from '../support/ward.ts';
+import { createUnit, testDb, unique } from '../support/db.ts';
+import { signInPeople } from '../support/people.ts';
 
-const { db, unit, other, s, ids } = useWard({
-  beds: 3, otherBeds: 2,
-  people: {
-    nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], otherCharge: ['charge', 'other'],
-    intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
-  },
-});
+let db: Knex;
+let unit: { unitId: number; code: string; bedIds: number[] };
+let other: { unitId: number; code: string; bedIds: number[] };
+const s: Record<string, HttpSession> = {};
+const ids: Record<string, number> = {};
 const family = unique('Quenby');
 const otherFamily = unique('Quenby');
 let here: { id: number; mrn: string };
@@ -23,11 +22,21 @@ async function admit(who: HttpSession, bedId: number, familyName: string, givenN
 }
 
 beforeAll(async () => {
+  db = testDb();
+  unit = await createUnit(db, 3);
+  other = await createUnit(db, 2);
+  const people = await signInPeople(db, {
+    nurse: ['nurse', unit.unitId], charge: ['charge', unit.unitId], otherCharge: ['charge', other.unitId],
+    intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
+  });
+  Object.assign(s, people.sessions);
+  Object.assign(ids, people.ids);
   here = await admit(s.charge, unit.bedIds[0], family);
   gone = await admit(s.charge, unit.bedIds[1], family, 'Odile');
   expect((await s.charge.post(`/api/patients/${gone.id}/discharge`, {})).status).toBe(200);
   there = await admit(s.otherCharge, other.bedIds[0], otherFamily);
 });
+afterAll(async () => { await db.destroy(); });
 
 const find = async (who: HttpSession, q: string, extra = '') => {
   const res = await who.get(`/api/patients/search?q=${encodeURIComponent(q)}${extra}`);

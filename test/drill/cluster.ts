@@ -88,6 +88,14 @@ async function feed(bed: DrillBed, offsetMs: number, stopAt: number) {
   }
 }
 
+/** Poller errors by kind ("HTTP 503", "no answer in 10 s", …), so overload and faults can be told apart. */
+const pollErrorKinds = new Map<string, number>();
+function pollFailed(kind: string) {
+  pollErrors++;
+  pollErrorSeconds.add(Math.floor(elapsed()));
+  pollErrorKinds.set(kind, (pollErrorKinds.get(kind) ?? 0) + 1);
+}
+
 async function poll(session: HttpSession, unit: string, stopAt: number) {
   while (Date.now() < stopAt) {
     const started = performance.now();
@@ -95,9 +103,9 @@ async function poll(session: HttpSession, unit: string, stopAt: number) {
       const res = await session.request(`/api/board?unit=${unit}`, { signal: AbortSignal.timeout(10_000) });
       await res.arrayBuffer();
       if (res.ok) boardLatencies.push(performance.now() - started);
-      else { pollErrors++; pollErrorSeconds.add(Math.floor(elapsed())); }
-    } catch {
-      pollErrors++; pollErrorSeconds.add(Math.floor(elapsed()));
+      else pollFailed(`HTTP ${res.status}`);
+    } catch (err) {
+      pollFailed((err as Error).name === 'TimeoutError' ? 'no answer in 10 s' : 'connection failed');
     }
     await sleep(2000);
   }
@@ -211,6 +219,9 @@ async function main() {
   const received = messages.filter((m) => m.key && outboxKeys.has(m.key));
   const receivedKeys = new Set(received.map((m) => m.key));
   const duplicateMails = received.length - receivedKeys.size;
+  // Under load alone (before the first fault), for comparison with the windows after each fault.
+  const firstFaultAt = faults[0]?.at ?? SECONDS;
+  const errorSecondsBeforeFaults = [...pollErrorSeconds].filter((s) => s < Math.floor(firstFaultAt) - 1).length;
   const errorSecondsAround = faults.map((f, i) => {
     const end = faults[i + 1]?.at ?? SECONDS;
     let n = 0;
@@ -225,7 +236,8 @@ async function main() {
     escalationsExpected: desaturating.size, escalationsRaised: raisedFor.size, escalationsOfExpected: expectedRaised, unexpectedEscalations: unexpected, duplicateEscalations,
     mailsExpected: outboxKeys.size, mailsReceived: receivedKeys.size, duplicateMails, mailPending,
     boardRequests: boardLatencies.length, boardErrors: pollErrors, boardP50Ms: pct(boardLatencies, 50), boardP95Ms: pct(boardLatencies, 95),
-    obsCharted: chartedOk, obsChartFailures: chartFailures, errorSecondsAround,
+    obsCharted: chartedOk, obsChartFailures: chartFailures, errorSecondsAround, errorSecondsBeforeFaults,
+    pollErrorKinds: Object.fromEntries(pollErrorKinds),
   };
   const p = (label: string, value: unknown) => console.log(`${PHASE}: ${label}: ${value}`);
   p('readings sent', readingsSent);
@@ -239,6 +251,8 @@ async function main() {
   p('duplicate mails', duplicateMails);
   p('board p50 / p95', `${figures.boardP50Ms.toFixed(1)} ms / ${figures.boardP95Ms.toFixed(1)} ms over ${boardLatencies.length} requests (${pollErrors} errors)`);
   p('obs charted', `${chartedOk} (${chartFailures} failed and were not retried)`);
+  p('poller errors by kind', [...pollErrorKinds].map(([k, n]) => `${k}: ${n}`).join(', ') || 'none');
+  if (faults.length) p(`seconds with poller errors before the first fault (0–${Math.round(firstFaultAt)} s, load alone)`, errorSecondsBeforeFaults);
   for (const f of errorSecondsAround) p(`seconds with poller errors after "${f.fault}" (at ${f.at} s)`, f.errorSeconds);
   if (process.env.DRILL_RESULT) writeFileSync(process.env.DRILL_RESULT, JSON.stringify(figures, null, 2));
   await knex.destroy();

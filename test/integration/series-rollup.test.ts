@@ -140,6 +140,10 @@ describe('long windows from the rollup', () => {
       expect(c.trustedReadings).toBe(raw.trustedReadings);
       expect(body.rawCounts.spo2).toBe(readings.filter((r) => r.at >= body.from && r.at < body.to && r.spo2 !== null).length);
       expect(body.fio2[0]).toMatchObject({ v: 0.4, device: 'simple_mask', flowLpm: 6 });
+      // The headline reading is the newest reading itself, with its source — never a minute's mean.
+      const newestRow = await db('observations').where({ patient_id: p, status: 'current' }).whereNotNull('spo2').orderBy('taken_at', 'desc').orderBy('id', 'desc').first();
+      expect(body.newestReading).toMatchObject({ t: new Date(newestRow.taken_at).getTime(), v: newestRow.spo2, source: newestRow.source });
+      expect(Number.isInteger(body.newestReading.v)).toBe(true);
     }
   });
 

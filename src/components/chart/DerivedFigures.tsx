@@ -35,7 +35,7 @@ const minutes = (m: number) => `${Math.round(m)} min`;
 function Figure({ label, value, detail, testId, icon }: { label: string; value: ReactNode; detail?: ReactNode; testId: string; icon?: ReactNode }) {
   return (
     <div className="rounded-md border border-ink-100 p-2 dark:border-ink-800" data-testid={testId}>
-      <dt className="flex items-center gap-1 text-xs font-bold uppercase tracking-wide text-ink-500 dark:text-ink-400">{icon}{label}</dt>
+      <dt className="flex min-w-0 items-center gap-1 hyphens-auto break-words text-xs font-bold uppercase tracking-wide text-ink-500 [overflow-wrap:anywhere] dark:text-ink-400">{icon}{label}</dt>
       <dd className="text-xl font-bold">{value}</dd>
       {detail && <dd className="text-xs text-ink-600 dark:text-ink-300">{detail}</dd>}
     </div>

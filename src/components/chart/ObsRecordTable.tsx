@@ -11,7 +11,7 @@ import { usePolled } from '~/lib/client/use-polled.ts';
 import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import ObsEntryForm from './ObsEntryForm.tsx';
 import EnteredInErrorForm from './EnteredInErrorForm.tsx';
-import { OBS_PAGE_SIZE, POLL_MS, StateBadge, StateIcon, chartKeys, fmtFio2, fmtNum, formatDateTime, orderAt, useRefreshChart } from './chart-shared.tsx';
+import { OBS_PAGE_SIZE, POLL_MS, StateBadge, StateIcon, chartKeys, fmtFio2, fmtNum, formatDateTime, orderAt, useRefreshChart, SOURCE_WORDS } from './chart-shared.tsx';
 import { bandStateOf } from '~/lib/oxygenation/band-state.ts';
 import { TRACE_WORDS } from '~/lib/oxygenation/trust.ts';
 import { errorText } from '~/lib/client/use-form.ts';
@@ -27,7 +27,6 @@ export interface ObsRecordTableProps {
   pageSize?: number;
 }
 
-const SOURCE_WORDS: Record<string, string> = { charted: 'charted', device: 'monitor', import: 'imported' };
 
 export function obsTrusted(o: ObsView): boolean {
   try {

@@ -38,6 +38,16 @@ describe('SaturationChart', () => {
     expect(latest.querySelector('[data-state="below"]')!.textContent).toBe('below band');
   });
 
+  it('heads the chart with the newest reading itself and its source, not the last drawn point (a minute\'s mean on long windows)', () => {
+    const s = series({ newestReading: { t: T0 - 30_000, v: 86, trusted: true, source: 'device' } });
+    s.spo2[s.spo2.length - 1] = { t: T0 - 60_000, v: 86.8, trusted: true, source: 'device' };
+    render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    const latest = screen.getByTestId('latest-spo2');
+    expect(latest.textContent).toContain('86 %');
+    expect(latest.textContent).not.toContain('86.8');
+    expect(latest.textContent).toContain('monitor at');
+  });
+
   it('draws blood gases as SaO₂ diamonds, ringed and named when the pair shows occult hypoxaemia', () => {
     const gases = [
       { id: 1, t: T0 - 3 * 3_600_000, sao2: 91, spo2AtSample: 95, sampleType: 'arterial' as const, occult: false },

@@ -18,7 +18,7 @@ import { valuesAt, type ValuesAt } from '~/lib/charting/chart-values.ts';
 import { CALIBRATED_FLOOR_PCT, DEVICE_LABELS } from '~/lib/charting/obs-input.ts';
 import { formatClock, formatDayTime } from '~/lib/time/format.ts';
 import { CHART_COLOURS, type ChartColours } from '~/lib/ui/chart-palette.ts';
-import { StateBadge, StateIcon, bandStateWord, fmtFio2 } from './chart-shared.tsx';
+import { SOURCE_WORDS, StateBadge, StateIcon, bandStateWord, fmtFio2 } from './chart-shared.tsx';
 import { CHART_WINDOW_HOURS, type WindowHours } from '~/lib/charting/api-types.ts';
 import { bandStateOf, type BandStateName } from '~/lib/oxygenation/band-state.ts';
 import { errorText } from '~/lib/client/use-form.ts';
@@ -178,7 +178,8 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
   const [cursor, setCursor] = useState<number | null>(null);
   const plotRef = useRef<HTMLDivElement>(null);
   const loadingOther = series !== undefined && series.hours !== hours;
-  const latest = series?.spo2[series.spo2.length - 1];
+  // The headline is the newest reading itself, never a per-minute mean or a thinned point.
+  const latest = series ? series.newestReading ?? series.spo2[series.spo2.length - 1] : undefined;
   const latestState = latest && series ? bandStateOf(latest.v, latest.trusted, bandAt(series.bands, latest.t)) : null;
   const tickFmt = (t: number) => (hours > 24 ? formatDayTime(t, timeZone) : formatClock(t, timeZone));
   const cursorAt = cursor !== null && series && cursor >= series.from && cursor <= series.to ? cursor : null;
@@ -293,7 +294,7 @@ export default function SaturationChart({ series, timeZone, hours, onHoursChange
             <p className="flex items-baseline gap-2" data-testid="latest-spo2">
               <span className="text-3xl font-bold">{latest.v} %</span>
               <StateBadge state={latestState} />
-              <span className="text-sm text-ink-600 dark:text-ink-300">at {formatClock(latest.t, timeZone)}</span>
+              <span className="text-sm text-ink-600 dark:text-ink-300">{SOURCE_WORDS[latest.source] ?? latest.source} at {formatClock(latest.t, timeZone)}</span>
             </p>
           )}
         </div>

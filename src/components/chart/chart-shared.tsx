@@ -54,6 +54,9 @@ export const formatDayClock = (t: string | number | Date, timeZone: string) => f
 /** "2 Dec 14:05" in the unit's zone. */
 export const formatDateTime = (t: string | number | Date, timeZone: string) => fmtDayTime(t, safeZone(timeZone));
 
+/** Where a reading came from, in the chart's words. */
+export const SOURCE_WORDS: Record<string, string> = { charted: 'charted', device: 'monitor', import: 'imported' };
+
 // ── Numbers ──────────────────────────────────────────────────────────────────────────────────
 export const fmtFio2 = (f: number) => (Math.round(f * 100) / 100).toFixed(2);
 export const fmtNum = (v: number | null | undefined, digits = 0) =>

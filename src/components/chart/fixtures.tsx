@@ -41,7 +41,7 @@ export function series(over: Partial<SeriesResponse> = {}): SeriesResponse {
   const from = T0 - 12 * 3_600_000;
   const to = T0;
   return {
-    patientId: 3, hours: 12, from, to, generatedAt: iso(T0), bloodGases: [],
+    patientId: 3, hours: 12, from, to, generatedAt: iso(T0), bloodGases: [], newestReading: null,
     spo2: [
       { t: from + 3_600_000, v: 95, trusted: true, source: 'charted' },
       { t: from + 2 * 3_600_000, v: 83, trusted: false, source: 'device' },

@@ -84,6 +84,11 @@ export interface SeriesResponse {
   bands: BandSegment[];
   /** Filled once escalations exist: raised/closed marks on the chart. */
   escalations: { id: number; raisedAt: number; closedAt: number | null; kind: string; severity: string | null }[];
+  /**
+   * The newest SpO₂ reading itself (not a per-minute mean or a thinned point): what the chart's
+   * headline shows, with its time and source. Null when the window holds none.
+   */
+  newestReading: Spo2Point | null;
   /** Readings in the window before downsampling, per line. */
   rawCounts: { spo2: number; heartRate: number };
   /** Current blood gases sampled in the window: SaO₂ marks at the sample time. */

@@ -39,6 +39,7 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   let lines: Pick<SeriesResponse, 'spo2' | 'heartRate' | 'rawCounts' | 'bucketMs'>;
   let compliance: BandComplianceResult;
   let latest: Reading | undefined;
+  let newest: Reading | undefined;
   let chartedRows: ReadingRow[];
   if (hours <= RAW_WINDOW_MAX_HOURS) {
     const rows = await currentReadingsBetween(patientId, new Date(from - lookBackMs), new Date(to + 1));
@@ -47,12 +48,13 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
     chartedRows = rows.filter((r) => r.source === 'charted');
     compliance = bandCompliance(readings, orders, { from, to });
     latest = latestTrusted(readings);
+    newest = newestWithSpo2(readings);
     lines = rawLines(readings, windowReadings, orders, from, to);
   } else {
     // Long windows: whole minutes from the rollup; the part-minutes at either end from raw rows.
     const headEnd = Math.min(floorMinute(from) + (from % MINUTE_MS === 0 ? 0 : MINUTE_MS), to);
     const tailStart = Math.max(floorMinute(to), headEnd);
-    const [minutes, head, tail, charted, newest] = await Promise.all([
+    const [minutes, head, tail, charted, latestRows] = await Promise.all([
       minutesBetween(patientId, new Date(floorMinute(from)), new Date(to + 1)),
       readingsWithCarryIn(patientId, from, headEnd),
       readingsWithCarryIn(patientId, tailStart, to + 1),
@@ -64,7 +66,9 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
       addCompliance(bandCompliance(head.map(toReading), orders, { from, to: headEnd }), complianceFromMinutes(minutes, orders, { from: headEnd, to: tailStart })),
       bandCompliance(tail.map(toReading), orders, { from: tailStart, to }),
     );
-    latest = latestTrusted(newest.map(toReading).reverse());
+    const latestReadings = latestRows.map(toReading).reverse();
+    latest = latestTrusted(latestReadings);
+    newest = newestWithSpo2(latestReadings);
     lines = minuteLines(minutes, charted.map(toReading).filter((r) => r.at >= from), from, to);
     // Readings counted once: the head's raw rows, then whole minutes from the rollup.
     const headIn = head.filter((r) => new Date(r.taken_at).getTime() >= from);
@@ -82,8 +86,14 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
       id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
     })),
     bloodGases,
+    newestReading: newest && newest.at >= from ? { t: newest.at, v: newest.spo2!, trusted: isTrusted(newest), source: newest.source } : null,
     derived: derivedFigures(compliance, latest, chartedRows, chartedInWindow, orderRows, from, to, hours),
   };
+}
+
+function newestWithSpo2(readings: Reading[]): Reading | undefined {
+  for (let i = readings.length - 1; i >= 0; i--) if (readings[i]!.spo2 !== null) return readings[i];
+  return undefined;
 }
 
 function latestTrusted(readings: Reading[]): Reading | undefined {

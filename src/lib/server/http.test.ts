@@ -19,6 +19,13 @@ describe('one error shape', () => {
     expect(await res.json()).toEqual({ error: { code: 'stale', message: 'Someone changed it first' } });
   });
 
+  it('answers 503 with Retry-After, not 500, when a transaction lost to other writers on every re-run', async () => {
+    const res = errorResponse(Object.assign(new Error('Deadlock found when trying to get lock'), { errno: 1213, code: 'ER_LOCK_DEADLOCK' }));
+    expect(res.status).toBe(503);
+    expect(res.headers.get('retry-after')).toBe('1');
+    expect((await res.json()).error.code).toBe('database_busy');
+  });
+
   it('says 401 signed out and 403 for the wrong role', () => {
     expect(() => requireRole({ night: false }, ['nurse'])).toThrow(expect.objectContaining({ status: 401 }));
     const locals = { night: false, user: { id: 1, email: 'a', name: 'a', role: 'outreach' as const, unitId: null, unitCode: null, unitName: null } };

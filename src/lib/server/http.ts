@@ -2,7 +2,7 @@ import type { APIContext, APIRoute } from 'astro';
 import { ZodError, type ZodType, type ZodTypeDef } from 'zod';
 import { hasRole, type Role } from '~/lib/auth/roles.ts';
 import type { SessionUser } from './queries/users.ts';
-import { isDatabaseUnavailable, isDuplicateKey } from './queries/transaction.ts';
+import { isDatabaseUnavailable, isDuplicateKey, isRetryableTransactionError } from './queries/transaction.ts';
 import { strictJsonSchema, strictTextSchema } from './strict-input.ts';
 import { bodyLimitFor, DEFAULT_BODY_LIMIT } from './body-limits.ts';
 
@@ -61,6 +61,12 @@ export function errorResponse(err: unknown): Response {
     return errorJson(400, 'invalid_input', `Some fields need attention — ${summary}`, fields);
   }
   if (isDatabaseUnavailable(err)) return errorJson(503, 'database_unavailable', DATABASE_UNAVAILABLE_MESSAGE);
+  if (isRetryableTransactionError(err)) {
+    // Lost to other writers on every re-run: busy, not broken. Nothing was saved; send again.
+    const res = errorJson(503, 'database_busy', 'The database was too busy to save this; nothing was saved. Send it again.');
+    res.headers.set('retry-after', '1');
+    return res;
+  }
   console.error('[api] unexpected error', err);
   return errorJson(500, 'internal_error', 'Something went wrong on the server; nothing was saved.');
 }

@@ -37,6 +37,12 @@ describe('other database error tests', () => {
     expect(isDatabaseUnavailable(new AggregateError([Object.assign(new Error('x'), { code: 'ECONNREFUSED' })]))).toBe(true);
     expect(isDatabaseUnavailable(sqlError(1062, 'ER_DUP_ENTRY'))).toBe(false);
   });
+
+  it('database unavailable: a connection the failover closed under a transaction (seen in the full drill)', () => {
+    expect(isDatabaseUnavailable(Object.assign(new Error("ROLLBACK - Can't add new command when connection is in closed state"), { fatal: true }))).toBe(true);
+    expect(isDatabaseUnavailable(new Error("Can't add new command when connection is in closed state"))).toBe(true);
+    expect(isDatabaseUnavailable(Object.assign(new Error('Deadlock found'), { errno: 1213, code: 'ER_LOCK_DEADLOCK', fatal: false }))).toBe(false);
+  });
 });
 
 describe('every writer goes through withTransactionRetry', () => {

@@ -42,6 +42,10 @@ export function isDatabaseUnavailable(err: unknown): boolean {
   const e = err as (SqlError & { name?: string; errors?: unknown[]; cause?: unknown }) | null;
   if (!e || typeof e !== 'object') return false;
   if (e.name === 'KnexTimeoutError') return true;
+  // mysql2 marks errors that end the connection `fatal`; a ROLLBACK on a connection a failover closed
+  // says "Can't add new command when connection is in closed state" (seen in the full drill).
+  if ((e as { fatal?: boolean }).fatal === true) return true;
+  if (/connection is in closed state/i.test(e.message ?? '')) return true;
   if (e.code !== undefined && UNAVAILABLE_CODES.has(e.code)) return true;
   if (e.errno === 1053 /* server shutdown in progress */ || e.errno === 2002 || e.errno === 2003 || e.errno === 2006 || e.errno === 2013) return true;
   if (Array.isArray(e.errors) && e.errors.some(isDatabaseUnavailable)) return true; // AggregateError from a dual-stack connect

@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { db } from './db.ts';
+import { correctedRecords } from './corrected-records.ts';
 import type { Conn } from './patients.ts';
 
 export interface BloodGasRow {
@@ -13,26 +14,12 @@ export interface BloodGasRow {
 export interface BloodGasListRow extends BloodGasRow { recorded_by_name: string | null; status_by_name: string | null; replaced_by_id: number | null }
 export type NewBloodGas = Omit<BloodGasRow, 'id' | 'status' | 'status_reason' | 'status_by' | 'status_at' | 'recorded_at'> & { recorded_at: Date };
 
-export async function insertBloodGas(trx: Knex.Transaction, row: NewBloodGas): Promise<number> {
-  const [id] = await trx('blood_gases').insert(row);
-  return Number(id);
-}
+const gases = correctedRecords<BloodGasRow>('blood_gases', 'g');
+const listQuery = gases.listQuery;
 
-export async function lockBloodGas(trx: Knex.Transaction, id: number): Promise<BloodGasRow | undefined> {
-  return trx<BloodGasRow>('blood_gases').where({ id }).forUpdate().first();
-}
-
-export async function markBloodGas(trx: Knex.Transaction, id: number, fields: { status: 'superseded' | 'entered_in_error'; status_reason: string; status_by: number; status_at: Date }): Promise<void> {
-  await trx('blood_gases').where({ id, status: 'current' }).update(fields);
-}
-
-function listQuery(conn: Conn) {
-  return conn('blood_gases as g')
-    .leftJoin('users as rb', 'rb.id', 'g.recorded_by')
-    .leftJoin('users as sb', 'sb.id', 'g.status_by')
-    .leftJoin('blood_gases as r', 'r.replaces_id', 'g.id')
-    .select('g.*', 'rb.name as recorded_by_name', 'sb.name as status_by_name', 'r.id as replaced_by_id');
-}
+export const insertBloodGas: (trx: Knex.Transaction, row: NewBloodGas) => Promise<number> = gases.insert;
+export const lockBloodGas = gases.lock;
+export const markBloodGas = gases.mark;
 
 export async function findBloodGas(id: number, conn: Conn = db()): Promise<BloodGasListRow | undefined> {
   return listQuery(conn).where('g.id', id).first();

@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { db } from './db.ts';
+import { correctedRecords } from './corrected-records.ts';
 import type { Conn } from './patients.ts';
 
 export interface ObservationRow {
@@ -15,26 +16,12 @@ export interface ObservationListRow extends ObservationRow { recorded_by_name: s
 
 export type NewObservation = Omit<ObservationRow, 'id' | 'status' | 'status_reason' | 'status_by' | 'status_at' | 'recorded_at'> & { recorded_at?: Date };
 
-export async function insertObservation(trx: Knex.Transaction, row: NewObservation): Promise<number> {
-  const [id] = await trx('observations').insert(row);
-  return id;
-}
+const obsRecords = correctedRecords<ObservationRow>('observations', 'o');
+const listQuery = obsRecords.listQuery;
 
-export async function lockObservation(trx: Knex.Transaction, id: number): Promise<ObservationRow | undefined> {
-  return trx<ObservationRow>('observations').where({ id }).forUpdate().first();
-}
-
-export async function markObservation(trx: Knex.Transaction, id: number, fields: { status: 'superseded' | 'entered_in_error'; status_reason: string; status_by: number; status_at: Date }): Promise<void> {
-  await trx('observations').where({ id, status: 'current' }).update(fields);
-}
-
-function listQuery(conn: Conn) {
-  return conn('observations as o')
-    .leftJoin('users as rb', 'rb.id', 'o.recorded_by')
-    .leftJoin('users as sb', 'sb.id', 'o.status_by')
-    .leftJoin('observations as r', 'r.replaces_id', 'o.id')
-    .select('o.*', 'rb.name as recorded_by_name', 'sb.name as status_by_name', 'r.id as replaced_by_id');
-}
+export const insertObservation: (trx: Knex.Transaction, row: NewObservation) => Promise<number> = obsRecords.insert;
+export const lockObservation = obsRecords.lock;
+export const markObservation = obsRecords.mark;
 
 export async function findObservation(id: number, conn: Conn = db()): Promise<ObservationListRow | undefined> {
   return listQuery(conn).where('o.id', id).first();

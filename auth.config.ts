@@ -32,7 +32,12 @@ export default defineConfig({
         const outcome = await verifyCredentials(parsed.data.email, parsed.data.password, new Date(), requestAddress());
         if (outcome.kind === 'locked') throw new AccountLocked();
         if (outcome.kind !== 'ok') return null;
-        return { id: String(outcome.user.id), email: outcome.user.email, name: outcome.user.name, role: outcome.user.role };
+        return {
+          id: String(outcome.user.id),
+          email: outcome.user.email,
+          name: outcome.user.name,
+          role: outcome.user.role,
+        };
       },
     }),
   ],

@@ -57,6 +57,7 @@ pidfile="$EBB_ROOT/var/drill-single/mysqld.pid"
 [ -f "$pidfile" ] && kill "$(cat "$pidfile")" 2>/dev/null && sleep 1
 rm -rf "$CLUSTER_DIR" "$EBB_ROOT/var/drill-single"
 mkdir -p "$CLUSTER_DIR"
+log "drill files (data, logs, figures) in $CLUSTER_DIR"
 
 # npm test has built the app already and says so (DRILL_REUSE_BUILD=1 with its EBB_OUT_DIR).
 if [ "${DRILL_REUSE_BUILD:-}" = 1 ] && [ -f "$EBB_OUT_DIR/server/entry.mjs" ]; then

@@ -37,7 +37,9 @@ const CYCLE_MS = Number(process.env.EBB_FEEDER_CYCLE_MS ?? 15_000);
 const UNITS = (process.env.EBB_FEEDER_UNITS ?? 'L4ICU,L5HDU').split(',');
 const VIA = (process.env.EBB_FEEDER_VIA ?? '').trim() || 'http';
 if (VIA !== 'http' && VIA !== 'mllp') {
-  console.error(`[feeder] EBB_FEEDER_VIA must be "http" (POST /api/ingest, the default) or "mllp" (HL7 v2 to the MLLP listener), not "${VIA}"`);
+  console.error(
+    `[feeder] EBB_FEEDER_VIA must be "http" (POST /api/ingest, the default) or "mllp" (HL7 v2 to the MLLP listener), not "${VIA}"`,
+  );
   process.exit(1);
 }
 const MLLP_HOST = process.env.EBB_MLLP_HOST ?? '127.0.0.1';
@@ -51,19 +53,38 @@ interface BedFeed {
   bedLabel: string;
   /** How the bed is addressed: its device key (http) or its PV1-3 bed name (mllp). */
   route: string;
-  level: number; spo2: number; hr: number; pi: number; lastAt: number; motionUntil: number;
+  level: number;
+  spo2: number;
+  hr: number;
+  pi: number;
+  lastAt: number;
+  motionUntil: number;
 }
-interface Reading { at: string; spo2: number; heartRate: number; perfusionIndex: number; trace: 'clean' | 'noisy' }
+interface Reading {
+  at: string;
+  spo2: number;
+  heartRate: number;
+  perfusionIndex: number;
+  trace: 'clean' | 'noisy';
+}
 /**
  * What sending one bed's readings came to: how many were stored, and if not all went, why
  * (`refused`: our key or gateway is no longer accepted). A failed span is played again next cycle.
  */
-interface Sent { stored: number; failure?: string; refused?: boolean }
+interface Sent {
+  stored: number;
+  failure?: string;
+  refused?: boolean;
+}
 
 const log = (msg: string) => console.log(`[feeder] ${msg}`);
 let rand = 0x2f6b1d;
 const random = () => {
-  rand ^= rand << 13; rand >>>= 0; rand ^= rand >>> 17; rand ^= rand << 5; rand >>>= 0;
+  rand ^= rand << 13;
+  rand >>>= 0;
+  rand ^= rand >>> 17;
+  rand ^= rand << 5;
+  rand >>>= 0;
   return rand / 4294967296;
 };
 
@@ -77,13 +98,20 @@ async function setUp(): Promise<BedFeed[]> {
     const spo2s = recent.map((r) => r.spo2).filter((v): v is number => v !== null);
     const level = spo2s.length ? spo2s.reduce((a, b) => a + b, 0) / spo2s.length : 95;
     const hrs = recent.map((r) => r.heart_rate).filter((v): v is number => v !== null);
-    const route = gatewayId === null
-      ? (await createDeviceKey(null, { bedId: bed.bed_id, label: LABEL })).key
-      : await demoBedName(gatewayId, bed);
+    const route =
+      gatewayId === null
+        ? (await createDeviceKey(null, { bedId: bed.bed_id, label: LABEL })).key
+        : await demoBedName(gatewayId, bed);
     const last = recent[0] ? new Date(recent[0].taken_at).getTime() : Date.now() - 60_000;
     feeds.push({
-      bedLabel: bed.bed_label, route, level, spo2: level, hr: hrs.length ? hrs[0]! : 80, pi: Number(recent[0]?.perfusion_index ?? 2) || 2,
-      lastAt: Math.max(last, Date.now() - 10 * 60_000), motionUntil: 0,
+      bedLabel: bed.bed_label,
+      route,
+      level,
+      spo2: level,
+      hr: hrs.length ? hrs[0]! : 80,
+      pi: Number(recent[0]?.perfusion_index ?? 2) || 2,
+      lastAt: Math.max(last, Date.now() - 10 * 60_000),
+      motionUntil: 0,
     });
   }
   return feeds;
@@ -94,20 +122,30 @@ async function demoGateway(): Promise<number> {
   const live = await liveGatewayBySender(GATEWAY.application, GATEWAY.facility);
   if (live) return live.id;
   try {
-    const input = gatewayCreateSchema.parse({ label: LABEL, sendingApplication: GATEWAY.application, sendingFacility: GATEWAY.facility });
+    const input = gatewayCreateSchema.parse({
+      label: LABEL,
+      sendingApplication: GATEWAY.application,
+      sendingFacility: GATEWAY.facility,
+    });
     const made = await createGateway(null, input);
     log(`registered HL7 gateway ${GATEWAY.application}^${GATEWAY.facility} (id ${made.id})`);
     return made.id;
   } catch (err) {
     // Another feeder registered it between our look and our insert: use theirs.
-    const raced = err instanceof ApiError && err.code === 'sender_taken' ? await liveGatewayBySender(GATEWAY.application, GATEWAY.facility) : undefined;
+    const raced =
+      err instanceof ApiError && err.code === 'sender_taken'
+        ? await liveGatewayBySender(GATEWAY.application, GATEWAY.facility)
+        : undefined;
     if (raced) return raced.id;
     throw err;
   }
 }
 
 /** The bed's PV1-3 name (point of care ^^ bed), mapped to it on the demo gateway unless it already is. */
-async function demoBedName(gatewayId: number, bed: { bed_id: number; bed_label: string; unit_code: string }): Promise<string> {
+async function demoBedName(
+  gatewayId: number,
+  bed: { bed_id: number; bed_label: string; unit_code: string },
+): Promise<string> {
   const clean = (t: string) => t.replace(/[|^~\\&\r\n]/g, '-');
   const bedName = `${clean(bed.unit_code)}^^${clean(bed.bed_label)}`;
   const mapped = await findGatewayBed(gatewayId, bedName);
@@ -131,7 +169,13 @@ function nextReadings(f: BedFeed, until: number): Reading[] {
     if (f.motionUntil < t && random() < 0.004) f.motionUntil = t + 30_000;
     const moving = t < f.motionUntil;
     const spo2 = Math.round(Math.min(100, Math.max(70, moving ? f.spo2 - 4 - random() * 6 : f.spo2)));
-    out.push({ at: new Date(t).toISOString(), spo2, heartRate: Math.round(f.hr), perfusionIndex: Math.round(f.pi * (moving ? 0.4 : 1) * 100) / 100, trace: moving ? 'noisy' : 'clean' });
+    out.push({
+      at: new Date(t).toISOString(),
+      spo2,
+      heartRate: Math.round(f.hr),
+      perfusionIndex: Math.round(f.pi * (moving ? 0.4 : 1) * 100) / 100,
+      trace: moving ? 'noisy' : 'clean',
+    });
     f.lastAt = t;
   }
   return out;
@@ -140,11 +184,17 @@ function nextReadings(f: BedFeed, until: number): Reading[] {
 async function sendHttp(f: BedFeed, readings: Reading[]): Promise<Sent> {
   try {
     const res = await fetch(`${APP_URL}/api/ingest`, {
-      method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${f.route}` }, body: JSON.stringify({ readings: readings.slice(-3600) }),
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${f.route}` },
+      body: JSON.stringify({ readings: readings.slice(-3600) }),
     });
     const body = (await res.json().catch(() => ({}))) as { stored?: number; error?: { message: string } };
     if (res.ok) return { stored: body.stored ?? 0 };
-    return { stored: 0, failure: `bed ${f.bedLabel}: ${res.status} ${body.error?.message ?? ''}`, refused: res.status === 401 };
+    return {
+      stored: 0,
+      failure: `bed ${f.bedLabel}: ${res.status} ${body.error?.message ?? ''}`,
+      refused: res.status === 401,
+    };
   } catch (err) {
     return { stored: 0, failure: `bed ${f.bedLabel}: ${(err as Error).message}` };
   }
@@ -166,10 +216,19 @@ async function sendMllp(f: BedFeed, readings: Reading[]): Promise<Sent> {
   let stored = 0;
   for (let i = 0; i < recent.length; i += READINGS_PER_MESSAGE) {
     const msg = buildOru({
-      application: GATEWAY.application, facility: GATEWAY.facility, controlId: `DEMO${Date.now()}${++controlSeq}`, bedName: f.route, sentAt: new Date(),
+      application: GATEWAY.application,
+      facility: GATEWAY.facility,
+      controlId: `DEMO${Date.now()}${++controlSeq}`,
+      bedName: f.route,
+      sentAt: new Date(),
       // HL7 carries no trace word (the listener stores SpO₂ as clean), so a motion spell's SpO₂ is
       // withheld, as a gateway withholds an artefact-flagged value: the reading stays untrusted.
-      readings: recent.slice(i, i + READINGS_PER_MESSAGE).map((r) => ({ at: new Date(r.at), spo2: r.trace === 'clean' ? r.spo2 : null, heartRate: r.heartRate, perfusionIndex: r.perfusionIndex })),
+      readings: recent.slice(i, i + READINGS_PER_MESSAGE).map((r) => ({
+        at: new Date(r.at),
+        spo2: r.trace === 'clean' ? r.spo2 : null,
+        heartRate: r.heartRate,
+        perfusionIndex: r.perfusionIndex,
+      })),
     });
     let ack: Hl7Message;
     try {
@@ -177,7 +236,10 @@ async function sendMllp(f: BedFeed, readings: Reading[]): Promise<Sent> {
       ack = await hl7.sendAndWait(msg, { returnAck: 'first', timeoutMs: ACK_TIMEOUT_MS });
     } catch (err) {
       await dropConnection();
-      return { stored, failure: `bed ${f.bedLabel}: no ACK from ${MLLP_HOST}:${MLLP_PORT} (${(err as Error).message})` };
+      return {
+        stored,
+        failure: `bed ${f.bedLabel}: no ACK from ${MLLP_HOST}:${MLLP_PORT} (${(err as Error).message})`,
+      };
     }
     const msa = ack.getSegment('MSA');
     const code = msa?.getField(1)?.toString() ?? '';
@@ -187,7 +249,8 @@ async function sendMllp(f: BedFeed, readings: Reading[]): Promise<Sent> {
     if (code !== 'AA') {
       // An unknown sender or an unmapped bed name: set up anew (re-register, re-map) rather than resend forever.
       const errCode = ack.getSegment('ERR')?.getComponent(3, 1) ?? '';
-      const refused = errCode === HL7_ERROR.unknownKey[0] || ack.getSegment('ERR')?.getField(2)?.toString() === 'PV1^1^3';
+      const refused =
+        errCode === HL7_ERROR.unknownKey[0] || ack.getSegment('ERR')?.getField(2)?.toString() === 'PV1^1^3';
       return { stored, failure: `bed ${f.bedLabel}: ${code || 'no MSA'} ${text}`, refused };
     }
     stored += Number(/^(\d+) stored/.exec(text)?.[1] ?? 0);
@@ -196,9 +259,16 @@ async function sendMllp(f: BedFeed, readings: Reading[]): Promise<Sent> {
 }
 
 const send = VIA === 'mllp' ? sendMllp : sendHttp;
-const ackCounts = () => (VIA === 'mllp' ? `; ACKs AA ${acks.AA}, AE ${acks.AE}, AR ${acks.AR}${acks.other ? `, other ${acks.other}` : ''}` : '');
+const ackCounts = () =>
+  VIA === 'mllp'
+    ? `; ACKs AA ${acks.AA}, AE ${acks.AE}, AR ${acks.AR}${acks.other ? `, other ${acks.other}` : ''}`
+    : '';
 
-interface CycleResult { stored: number; failures: string[]; refused: boolean }
+interface CycleResult {
+  stored: number;
+  failures: string[];
+  refused: boolean;
+}
 
 async function cycle(feeds: BedFeed[]): Promise<CycleResult> {
   const result: CycleResult = { stored: 0, failures: [], refused: false };
@@ -221,32 +291,48 @@ async function cycle(feeds: BedFeed[]): Promise<CycleResult> {
 
 let stopping = false;
 let wake: (() => void) | null = null;
-const stop = () => { stopping = true; wake?.(); };
+const stop = () => {
+  stopping = true;
+  wake?.();
+};
 process.on('SIGTERM', stop);
 process.on('SIGINT', stop);
 /** Waits `ms` — a timer that holds the process open — or less when asked to stop. */
-const pause = (ms: number) => new Promise<void>((r) => {
-  const t = setTimeout(() => { wake = null; r(); }, ms);
-  wake = () => { clearTimeout(t); wake = null; r(); };
-});
+const pause = (ms: number) =>
+  new Promise<void>((r) => {
+    const t = setTimeout(() => {
+      wake = null;
+      r();
+    }, ms);
+    wake = () => {
+      clearTimeout(t);
+      wake = null;
+      r();
+    };
+  });
 
 async function setUpUntilReady(): Promise<BedFeed[] | null> {
   for (let attempt = 1; !stopping; attempt++) {
     try {
       return await setUp();
     } catch (err) {
-      if (attempt === 1 || attempt % 20 === 0) log(`cannot set up (attempt ${attempt}), retrying every ${CYCLE_MS / 1000} s: ${(err as Error).message}`);
+      if (attempt === 1 || attempt % 20 === 0)
+        log(`cannot set up (attempt ${attempt}), retrying every ${CYCLE_MS / 1000} s: ${(err as Error).message}`);
       await pause(CYCLE_MS);
     }
   }
   return null;
 }
 
-const way = VIA === 'mllp'
-  ? `as HL7 v2 ORU^R01 over MLLP to ${MLLP_HOST}:${MLLP_PORT} (gateway ${GATEWAY.application}^${GATEWAY.facility})`
-  : `through POST ${APP_URL}/api/ingest`;
+const way =
+  VIA === 'mllp'
+    ? `as HL7 v2 ORU^R01 over MLLP to ${MLLP_HOST}:${MLLP_PORT} (gateway ${GATEWAY.application}^${GATEWAY.facility})`
+    : `through POST ${APP_URL}/api/ingest`;
 let feeds = await setUpUntilReady();
-if (feeds) log(`playing readings ${way} into ${feeds.length} beds (${feeds.map((f) => f.bedLabel).join(', ')}) every ${CYCLE_MS / 1000} s until Ctrl-C`);
+if (feeds)
+  log(
+    `playing readings ${way} into ${feeds.length} beds (${feeds.map((f) => f.bedLabel).join(', ')}) every ${CYCLE_MS / 1000} s until Ctrl-C`,
+  );
 let cycles = 0;
 let failingSince = 0;
 let totalStored = 0;
@@ -256,7 +342,10 @@ while (feeds && !stopping) {
   totalStored += stored;
   if (failures.length) {
     failingSince += 1;
-    if (failingSince === 1 || failingSince % 20 === 0) log(`cycle ${cycles}: ${failures.length} of ${feeds.length} beds failed (${failingSince} cycle(s) in a row): ${failures.slice(0, 3).join('; ')}${ackCounts()}`);
+    if (failingSince === 1 || failingSince % 20 === 0)
+      log(
+        `cycle ${cycles}: ${failures.length} of ${feeds.length} beds failed (${failingSince} cycle(s) in a row): ${failures.slice(0, 3).join('; ')}${ackCounts()}`,
+      );
   } else if (failingSince) {
     log(`cycle ${cycles}: recovered after ${failingSince} failing cycle(s); ${stored} readings stored${ackCounts()}`);
     failingSince = 0;

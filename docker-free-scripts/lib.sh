@@ -88,6 +88,23 @@ GRANT ALL PRIVILEGES ON \`$1\`.* TO '$2'@'localhost';
 SQL
 }
 
+# reachable_var_dir NAME: a folder for servers that run as another user (the Galera nodes run as
+# `mysql`): var/NAME when every folder above var/ lets others in, else one under /var/tmp named after
+# this checkout. A clone inside a root-only folder (root's home, `mktemp -d`) is out of mysql's reach,
+# and no chown of the data folder itself helps then.
+reachable_var_dir() {
+  local dir="$EBB_ROOT/var"
+  while [ "$dir" != / ]; do
+    if [ -d "$dir" ] && [ "$(( 0$(stat -c '%a' "$dir") & 1 ))" = 0 ]; then
+      local base="/var/tmp/ebbwatch-$(printf '%s' "$EBB_ROOT" | sha256sum | cut -c1-12)"
+      mkdir -p "$base" && chmod 755 "$base"
+      echo "$base/$1"; return 0
+    fi
+    dir="$(dirname "$dir")"
+  done
+  echo "$EBB_ROOT/var/$1"
+}
+
 # Wait until URL answers (any HTTP status), up to N seconds.
 wait_for_http() {
   local url="$1" seconds="${2:-60}"

@@ -18,11 +18,24 @@ const httpPort = Number(process.env.SMTP_FAKE_HTTP_PORT ?? 2580);
 const dir = process.env.SMTP_FAKE_DIR ?? 'var/smtp-fake';
 const store = join(dir, 'messages.jsonl');
 
-interface Stored { id: number; receivedAt: string; messageId: string | null; key: string | null; from: string; to: string[]; subject: string; text: string; html: string }
+interface Stored {
+  id: number;
+  receivedAt: string;
+  messageId: string | null;
+  key: string | null;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+}
 
 mkdirSync(dir, { recursive: true });
 const messages: Stored[] = existsSync(store)
-  ? readFileSync(store, 'utf8').split('\n').filter(Boolean).map((line) => JSON.parse(line) as Stored)
+  ? readFileSync(store, 'utf8')
+      .split('\n')
+      .filter(Boolean)
+      .map((line) => JSON.parse(line) as Stored)
   : [];
 
 let smtp: SMTPServer | null = null;
@@ -38,10 +51,15 @@ function startSmtp(): Promise<void> {
       simpleParser(stream)
         .then((mail) => {
           const stored: Stored = {
-            id: messages.length + 1, receivedAt: new Date().toISOString(), messageId: mail.messageId ?? null,
+            id: messages.length + 1,
+            receivedAt: new Date().toISOString(),
+            messageId: mail.messageId ?? null,
             key: (mail.headers.get('x-ebbwatch-key') as string | undefined) ?? null,
-            from: mail.from?.text ?? '', to: session.envelope.rcptTo.map((r) => r.address), subject: mail.subject ?? '',
-            text: mail.text ?? '', html: typeof mail.html === 'string' ? mail.html : '',
+            from: mail.from?.text ?? '',
+            to: session.envelope.rcptTo.map((r) => r.address),
+            subject: mail.subject ?? '',
+            text: mail.text ?? '',
+            html: typeof mail.html === 'string' ? mail.html : '',
           };
           messages.push(stored);
           appendFileSync(store, `${JSON.stringify(stored)}\n`);
@@ -73,9 +91,16 @@ const http = createServer(async (req, res) => {
   };
   try {
     if (req.method === 'GET' && req.url === '/messages') return send(200, { messages: [...messages].reverse() });
-    if (req.method === 'GET' && req.url === '/health') return send(200, { smtp: smtp ? 'listening' : 'stopped', received: messages.length });
-    if (req.method === 'POST' && req.url === '/smtp/stop') { await stopSmtp(); return send(200, { smtp: 'stopped' }); }
-    if (req.method === 'POST' && req.url === '/smtp/start') { await startSmtp(); return send(200, { smtp: 'listening' }); }
+    if (req.method === 'GET' && req.url === '/health')
+      return send(200, { smtp: smtp ? 'listening' : 'stopped', received: messages.length });
+    if (req.method === 'POST' && req.url === '/smtp/stop') {
+      await stopSmtp();
+      return send(200, { smtp: 'stopped' });
+    }
+    if (req.method === 'POST' && req.url === '/smtp/start') {
+      await startSmtp();
+      return send(200, { smtp: 'listening' });
+    }
     send(404, { error: 'not found' });
   } catch (err) {
     send(500, { error: (err as Error).message });
@@ -86,6 +111,10 @@ await startSmtp();
 http.listen(httpPort, '127.0.0.1', () => {
   console.log(`[smtp-fake] SMTP on 127.0.0.1:${smtpPort}, messages at http://127.0.0.1:${httpPort}/messages`);
 });
-const shutdown = () => { void stopSmtp(); http.close(); process.exit(0); };
+const shutdown = () => {
+  void stopSmtp();
+  http.close();
+  process.exit(0);
+};
 process.on('SIGTERM', shutdown);
 process.on('SIGINT', shutdown);

@@ -15,6 +15,11 @@ run_project() {
 
 VITEST_FILTERS=("$@")
 status=0
+# The gate first: types (astro check for .astro files, tsc for the rest) and Biome's lint and format.
+log "checking types, lint and format (npm run check)"
+CHECKS="passed"
+npm run --silent check >"$RESULTS/check.log" 2>&1 || { CHECKS="FAILED"; status=1; tail -60 "$RESULTS/check.log"; }
+log "checks: $CHECKS"
 run_project unit || status=1
 
 start_test_app
@@ -31,6 +36,7 @@ node -e '
     const r = JSON.parse(fs.readFileSync(process.argv[1] + "/" + f, "utf8"));
     passed += r.numPassedTests; failed += r.numFailedTests; skipped += r.numPendingTests + (r.numTodoTests ?? 0);
   }
-  console.log(`\nebbwatch: ${passed} passed, ${failed} failed, ${skipped} skipped`);
-' "$RESULTS"
+  console.log(`\nchecks (types, lint, format): ${process.argv[2]}`);
+  console.log(`ebbwatch: ${passed} passed, ${failed} failed, ${skipped} skipped`);
+' "$RESULTS" "$CHECKS"
 exit $status

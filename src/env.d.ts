@@ -1,5 +1,4 @@
 /// <reference types="astro/client" />
-/// <reference types="auth-astro" />
 
 declare namespace App {
   interface Locals {
@@ -8,6 +7,13 @@ declare namespace App {
     /** Night mode, read from the cookie so the first paint is already right. */
     night: boolean;
   }
+}
+
+// auth-astro's server.ts reads our auth.config.ts through this virtual module (its module.d.ts says
+// the same, but also pulls in its integration source: see src/types/auth-astro-entry.d.ts).
+declare module 'auth:config' {
+  const config: import('auth-astro/src/config').FullAuthConfig;
+  export default config;
 }
 
 // auth-astro ships TypeScript source that imports this untyped package.

@@ -32,7 +32,10 @@ const requestFacts = defineMiddleware((ctx, next) => {
 /** CSP, framing, sniffing, referrer and permissions headers on every response; no caching of pages with patient data. */
 const securityHeaders = defineMiddleware(async (ctx, next) => {
   const res = await next();
-  return withHeaders(res, securityHeadersFor(ctx.url.pathname, res.headers.get('content-type'), res.headers.get('content-security-policy')));
+  return withHeaders(
+    res,
+    securityHeadersFor(ctx.url.pathname, res.headers.get('content-type'), res.headers.get('content-security-policy')),
+  );
 });
 
 /** An unknown /api/* path answers in the JSON error shape, not with the HTML not-found page. */
@@ -55,7 +58,10 @@ const databaseFaults = defineMiddleware(async (ctx, next) => {
     if (!isDatabaseUnavailable(err)) throw err;
     console.error('[db] unavailable:', (err as Error).message);
     if (isApiPath(ctx.url.pathname)) return errorJson(503, 'database_unavailable', DATABASE_UNAVAILABLE_MESSAGE);
-    return new Response(UNAVAILABLE_PAGE, { status: 503, headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '30' } });
+    return new Response(UNAVAILABLE_PAGE, {
+      status: 503,
+      headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '30' },
+    });
   }
 });
 
@@ -74,7 +80,11 @@ const bodyCap = defineMiddleware((ctx, next) => {
     return errorJson(411, 'length_required', 'Send a Content-Length with the body.');
   }
   if (!/^\d+$/.test(declared) || Number(declared) > limit) {
-    const res = errorJson(413, 'body_too_large', `The body is larger than this route takes (${Math.round(limit / 1024)} KB).`);
+    const res = errorJson(
+      413,
+      'body_too_large',
+      `The body is larger than this route takes (${Math.round(limit / 1024)} KB).`,
+    );
     // The unread body is still arriving: close the connection rather than let a client reuse it.
     res.headers.set('connection', 'close');
     return res;
@@ -93,9 +103,14 @@ const originCheck = defineMiddleware((ctx, next) => {
   const origin = ctx.request.headers.get('origin');
   const site = ctx.request.headers.get('sec-fetch-site');
   // The device feed has no cookie to ride and gateways send no Origin; a browser page calling it still may not.
-  if (path === '/api/ingest' && origin === null && (site === null || site === 'same-origin' || site === 'none')) return next();
+  if (path === '/api/ingest' && origin === null && (site === null || site === 'same-origin' || site === 'none'))
+    return next();
   if (origin !== ctx.url.origin || (site !== null && site !== 'same-origin')) {
-    return errorJson(403, 'cross_origin', origin === null ? 'Requests without an Origin header are refused.' : 'Requests from another site are refused.');
+    return errorJson(
+      403,
+      'cross_origin',
+      origin === null ? 'Requests without an Origin header are refused.' : 'Requests from another site are refused.',
+    );
   }
   return next();
 });
@@ -126,10 +141,21 @@ const signinThrottle = defineMiddleware(async (ctx, next) => {
   const waitMs = await signinBlockedFor(requestAddress(), email);
   if (waitMs <= 0) return next();
   const seconds = retryAfterSeconds(waitMs);
-  const res = errorJson(429, 'too_many_signins', `Too many failed sign-ins; try again in ${Math.ceil(seconds / 60)} min.`);
+  const res = errorJson(
+    429,
+    'too_many_signins',
+    `Too many failed sign-ins; try again in ${Math.ceil(seconds / 60)} min.`,
+  );
   // Auth.js's browser client follows `url`; send it back to the sign-in page with the reason.
   const body = { ...(await res.json()), url: `/signin?code=throttled&retry=${seconds}` };
-  return new Response(JSON.stringify(body), { status: 429, headers: { 'content-type': 'application/json; charset=utf-8', 'cache-control': 'no-store', 'retry-after': String(seconds) } });
+  return new Response(JSON.stringify(body), {
+    status: 429,
+    headers: {
+      'content-type': 'application/json; charset=utf-8',
+      'cache-control': 'no-store',
+      'retry-after': String(seconds),
+    },
+  });
 });
 
 /** Signed out → 401 (API) or the sign-in page; wrong role for a page → 403. API roles are checked by each endpoint. */
@@ -143,7 +169,8 @@ const access = defineMiddleware(async (ctx, next) => {
   }
   // New accounts and admin resets: nothing but My account until a new password is chosen.
   if (user.mustChangePassword && !allowedBeforePasswordChange(path)) {
-    if (isApiPath(path)) return errorJson(403, 'password_change_required', 'Choose a new password on My account first.');
+    if (isApiPath(path))
+      return errorJson(403, 'password_change_required', 'Choose a new password on My account first.');
     return ctx.redirect('/account?required=1');
   }
   if (!isApiPath(path)) {
@@ -156,4 +183,14 @@ const access = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
-export const onRequest = sequence(requestFacts, securityHeaders, apiNotFound, databaseFaults, bodyCap, originCheck, session, signinThrottle, access);
+export const onRequest = sequence(
+  requestFacts,
+  securityHeaders,
+  apiNotFound,
+  databaseFaults,
+  bodyCap,
+  originCheck,
+  session,
+  signinThrottle,
+  access,
+);

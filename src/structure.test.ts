@@ -21,7 +21,11 @@ function filesUnder(dir: string): string[] {
 /** Every module specifier a file imports or re-exports, static or dynamic, with its line. */
 export function importSpecifiers(text: string): { line: number; spec: string }[] {
   const out: { line: number; spec: string }[] = [];
-  const patterns = [/\b(?:import|export)\s[^'"`;]*?\bfrom\s*['"]([^'"]+)['"]/g, /\bimport\s*['"]([^'"]+)['"]/g, /\bimport\s*\(\s*['"]([^'"]+)['"]\s*\)/g];
+  const patterns = [
+    /\b(?:import|export)\s[^'"`;]*?\bfrom\s*['"]([^'"]+)['"]/g,
+    /\bimport\s*['"]([^'"]+)['"]/g,
+    /\bimport\s*\(\s*['"]([^'"]+)['"]\s*\)/g,
+  ];
   for (const re of patterns) {
     for (const m of text.matchAll(re)) out.push({ line: text.slice(0, m.index).split('\n').length, spec: m[1]! });
   }
@@ -44,14 +48,23 @@ describe('import paths', () => {
       `const d = await import('${up3}d.ts');`,
       "import {\n  e,\n} from '~/lib/e.ts';",
     ].join('\n');
-    expect(deepClimbs(sample).map((x) => x.spec)).toEqual([`${up3}a.ts`, `../${up3}c.ts`, `${up3}side-effect.css`, `${up3}d.ts`]);
+    expect(deepClimbs(sample).map((x) => x.spec)).toEqual([
+      `${up3}a.ts`,
+      `../${up3}c.ts`,
+      `${up3}side-effect.css`,
+      `${up3}d.ts`,
+    ]);
     expect(importSpecifiers(sample).map((x) => x.spec)).toContain('~/lib/e.ts');
   });
 
   it('no file under src/ or test/ has an import that climbs more than two folders', () => {
     const files = [...filesUnder('src'), ...filesUnder('test')];
     expect(files.length).toBeGreaterThan(50);
-    const offenders = files.flatMap((f) => deepClimbs(readFileSync(join(root, f), 'utf8')).map((x) => `${relative(root, join(root, f))}:${x.line} ${x.spec}`));
+    const offenders = files.flatMap((f) =>
+      deepClimbs(readFileSync(join(root, f), 'utf8')).map(
+        (x) => `${relative(root, join(root, f))}:${x.line} ${x.spec}`,
+      ),
+    );
     expect(offenders).toEqual([]);
   });
 });
@@ -63,12 +76,19 @@ describe('import paths', () => {
  */
 export function serverImports(file: string, text: string): { line: number; spec: string }[] {
   return importSpecifiers(text).filter(({ spec }) => {
-    const target = spec.startsWith('~/') ? join('src', spec.slice(2)) : spec.startsWith('.') ? normalize(join(dirname(file), spec)) : null;
-    return target !== null && (target === join('src', 'lib', 'server') || target.startsWith(join('src', 'lib', 'server') + '/'));
+    const target = spec.startsWith('~/')
+      ? join('src', spec.slice(2))
+      : spec.startsWith('.')
+        ? normalize(join(dirname(file), spec))
+        : null;
+    return (
+      target !== null &&
+      (target === join('src', 'lib', 'server') || target.startsWith(`${join('src', 'lib', 'server')}/`))
+    );
   });
 }
 
-const browserSide = (f: string) => f.startsWith(join('src', 'components') + '/') || f.endsWith('.tsx');
+const browserSide = (f: string) => f.startsWith(`${join('src', 'components')}/`) || f.endsWith('.tsx');
 
 describe('browser code and server code', () => {
   it('finds server imports of every form (checking the checker)', () => {
@@ -79,14 +99,22 @@ describe('browser code and server code', () => {
       "import { d } from '../server-side.ts';",
       "const e = await import('~/lib/server');",
     ].join('\n');
-    expect(serverImports('src/components/board/X.tsx', sample).map((x) => x.spec)).toEqual(['~/lib/server/a.ts', '../../lib/server/queries/b.ts', '~/lib/server']);
-    expect(serverImports('src/lib/board/x.ts', "import { y } from '../server/y.ts';").map((x) => x.spec)).toEqual(['../server/y.ts']);
+    expect(serverImports('src/components/board/X.tsx', sample).map((x) => x.spec)).toEqual([
+      '~/lib/server/a.ts',
+      '../../lib/server/queries/b.ts',
+      '~/lib/server',
+    ]);
+    expect(serverImports('src/lib/board/x.ts', "import { y } from '../server/y.ts';").map((x) => x.spec)).toEqual([
+      '../server/y.ts',
+    ]);
   });
 
   it('no component and no .tsx island imports from src/lib/server', () => {
     const files = filesUnder('src').filter(browserSide);
     expect(files.length).toBeGreaterThan(20);
-    const offenders = files.flatMap((f) => serverImports(f, readFileSync(join(root, f), 'utf8')).map((x) => `${f}:${x.line} ${x.spec}`));
+    const offenders = files.flatMap((f) =>
+      serverImports(f, readFileSync(join(root, f), 'utf8')).map((x) => `${f}:${x.line} ${x.spec}`),
+    );
     expect(offenders).toEqual([]);
   });
 });

@@ -12,7 +12,15 @@ export async function up(knex: Knex): Promise<void> {
     t.smallint('resp_rate').unsigned().nullable();
     t.decimal('fio2', 4, 3).nullable();
     t.boolean('fio2_estimated').notNullable().defaultTo(false);
-    t.enu('device', ['room_air', 'nasal_cannula', 'simple_mask', 'reservoir_mask', 'high_flow_nasal', 'niv', 'ventilator']).nullable();
+    t.enu('device', [
+      'room_air',
+      'nasal_cannula',
+      'simple_mask',
+      'reservoir_mask',
+      'high_flow_nasal',
+      'niv',
+      'ventilator',
+    ]).nullable();
     t.decimal('flow_lpm', 4, 1).nullable();
     t.enu('trace', ['clean', 'weak', 'noisy', 'absent']).notNullable().defaultTo('clean');
     t.decimal('perfusion_index', 5, 2).nullable();

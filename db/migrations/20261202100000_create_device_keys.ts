@@ -21,7 +21,9 @@ export async function up(knex: Knex): Promise<void> {
 
   // Device readings: one per bed per instant. The generated column is the bed only for device
   // rows, so the unique index lets INSERT IGNORE drop a resent batch's duplicates in the database.
-  await knex.raw("ALTER TABLE observations ADD COLUMN device_bed_id INT UNSIGNED AS (IF(source = 'device', bed_id, NULL)) PERSISTENT");
+  await knex.raw(
+    "ALTER TABLE observations ADD COLUMN device_bed_id INT UNSIGNED AS (IF(source = 'device', bed_id, NULL)) PERSISTENT",
+  );
   await knex.schema.alterTable('observations', (t) => {
     t.unique(['device_bed_id', 'taken_at'], { indexName: 'observations_device_bed_taken_unique' });
   });

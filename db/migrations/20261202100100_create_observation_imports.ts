@@ -35,7 +35,9 @@ export async function up(knex: Knex): Promise<void> {
     t.datetime('updated_at', { precision: 3 }).notNullable().defaultTo(knex.fn.now(3));
   });
 
-  await knex.raw("ALTER TABLE observations MODIFY status ENUM('current', 'superseded', 'entered_in_error', 'withdrawn') NOT NULL DEFAULT 'current'");
+  await knex.raw(
+    "ALTER TABLE observations MODIFY status ENUM('current', 'superseded', 'entered_in_error', 'withdrawn') NOT NULL DEFAULT 'current'",
+  );
   await knex.schema.alterTable('observations', (t) => {
     t.bigInteger('import_id').unsigned().nullable().references('observation_imports.id');
   });
@@ -46,7 +48,9 @@ export async function down(knex: Knex): Promise<void> {
     t.dropForeign(['import_id']);
     t.dropColumn('import_id');
   });
-  await knex.raw("ALTER TABLE observations MODIFY status ENUM('current', 'superseded', 'entered_in_error') NOT NULL DEFAULT 'current'");
+  await knex.raw(
+    "ALTER TABLE observations MODIFY status ENUM('current', 'superseded', 'entered_in_error') NOT NULL DEFAULT 'current'",
+  );
   await knex.schema.dropTable('import_mappings');
   await knex.schema.dropTable('observation_imports');
 }

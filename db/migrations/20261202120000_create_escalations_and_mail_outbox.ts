@@ -18,13 +18,23 @@ export async function up(knex: Knex): Promise<void> {
     t.datetime('claimed_at', { precision: 3 }).nullable();
     t.integer('closed_by').unsigned().nullable().references('users.id');
     t.datetime('closed_at', { precision: 3 }).nullable();
-    t.enu('outcome', ['treated_at_bedside', 'reviewed_by_outreach', 'escalated_to_intensivist', 'reading_was_artefact', 'condition_cleared', 'other']).nullable();
+    t.enu('outcome', [
+      'treated_at_bedside',
+      'reviewed_by_outreach',
+      'escalated_to_intensivist',
+      'reading_was_artefact',
+      'condition_cleared',
+      'other',
+    ]).nullable();
     t.string('close_note', 1000).nullable();
     t.datetime('last_notified_at', { precision: 3 }).nullable();
     t.integer('notify_count').notNullable().defaultTo(0);
     t.datetime('back_in_band_at', { precision: 3 }).nullable();
     // One open escalation of a kind per patient, held by the database itself against racing instances.
-    t.specificType('open_key', "VARCHAR(40) AS (IF(state <> 'closed', CONCAT(patient_id, ':', kind), NULL)) PERSISTENT");
+    t.specificType(
+      'open_key',
+      "VARCHAR(40) AS (IF(state <> 'closed', CONCAT(patient_id, ':', kind), NULL)) PERSISTENT",
+    );
     t.unique(['open_key']);
     t.index(['state', 'raised_at']);
     t.index(['patient_id', 'kind', 'run_start']);
@@ -33,7 +43,15 @@ export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('escalation_events', (t) => {
     t.bigIncrements('id').primary();
     t.integer('escalation_id').unsigned().notNullable().references('escalations.id');
-    t.enu('type', ['raised', 'severity_raised', 'notified', 'renotified', 'claimed', 'closed', 'back_in_band']).notNullable();
+    t.enu('type', [
+      'raised',
+      'severity_raised',
+      'notified',
+      'renotified',
+      'claimed',
+      'closed',
+      'back_in_band',
+    ]).notNullable();
     t.integer('actor_id').unsigned().nullable().references('users.id');
     t.datetime('at', { precision: 3 }).notNullable();
     t.json('detail').nullable();

@@ -17,7 +17,9 @@ export async function up(knex: Knex): Promise<void> {
     t.string('revoke_reason', 200).nullable();
   });
   // One live gateway per sender: the generated column is the sender only while the gateway is live.
-  await knex.raw("ALTER TABLE hl7_gateways ADD COLUMN live_sender VARCHAR(130) AS (IF(revoked_at IS NULL, CONCAT(sending_application, '|', sending_facility), NULL)) PERSISTENT");
+  await knex.raw(
+    "ALTER TABLE hl7_gateways ADD COLUMN live_sender VARCHAR(130) AS (IF(revoked_at IS NULL, CONCAT(sending_application, '|', sending_facility), NULL)) PERSISTENT",
+  );
   await knex.schema.alterTable('hl7_gateways', (t) => {
     t.unique(['live_sender'], { indexName: 'hl7_gateways_live_sender_unique' });
   });

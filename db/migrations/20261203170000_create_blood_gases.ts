@@ -2,7 +2,9 @@ import type { Knex } from 'knex';
 
 /** The values of the escalations.kind ENUM as the database has them now (other migrations may add kinds too). */
 async function kindValues(knex: Knex): Promise<string[]> {
-  const [rows] = await knex.raw("SELECT COLUMN_TYPE AS t FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = 'escalations' AND COLUMN_NAME = 'kind'");
+  const [rows] = await knex.raw(
+    "SELECT COLUMN_TYPE AS t FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = 'escalations' AND COLUMN_NAME = 'kind'",
+  );
   return [...String(rows[0].t).matchAll(/'((?:[^']|'')*)'/g)].map((m) => m[1]!.replace(/''/g, "'"));
 }
 async function setKinds(knex: Knex, values: string[]): Promise<void> {
@@ -53,7 +55,10 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
-  await setKinds(knex, (await kindValues(knex)).filter((k) => k !== 'occult_hypoxaemia'));
+  await setKinds(
+    knex,
+    (await kindValues(knex)).filter((k) => k !== 'occult_hypoxaemia'),
+  );
   await knex.schema.alterTable('target_orders', (t) => {
     t.dropColumn('scale2_basis');
   });

@@ -98,7 +98,13 @@ for (let bed = 0; bed < BEDS; bed++) {
   checksum += concerns.cannotVerify ? 1 : 0;
 
   t = performance.now();
-  const chart = lttb(readings, CHART_POINTS, (r) => r.at, (r) => r.spo2 ?? 0, keepBelowBandRunEdges(readings, orders));
+  const chart = lttb(
+    readings,
+    CHART_POINTS,
+    (r) => r.at,
+    (r) => r.spo2 ?? 0,
+    keepBelowBandRunEdges(readings, orders),
+  );
   timings.downsample += performance.now() - t;
   chartPoints += chart.length;
 }
@@ -106,7 +112,9 @@ for (let bed = 0; bed < BEDS; bed++) {
 const rate = (ms: number) => ((total / ms) * 1000) / 1e6;
 const line = (name: string, ms: number) =>
   `${name.padEnd(40)} ${rate(ms).toFixed(1).padStart(6)} M readings/s  (${(ms / 1000).toFixed(2)} s)`;
-console.log(`readings: ${total.toLocaleString('en-GB')} (${BEDS} beds × ${HOURS} h × 1/s), generated in ${(genMs / 1000).toFixed(1)} s`);
+console.log(
+  `readings: ${total.toLocaleString('en-GB')} (${BEDS} beds × ${HOURS} h × 1/s), generated in ${(genMs / 1000).toFixed(1)} s`,
+);
 console.log(line('band compliance', timings.compliance));
 console.log(line('sustained-below detection', timings.concerns));
 console.log(line(`downsampling (LTTB → ${CHART_POINTS} + run edges)`, timings.downsample));
@@ -116,4 +124,6 @@ console.log(
     `${chartPoints} chart points, checksum ${checksum.toFixed(1)}; wall ${((performance.now() - genStart) / 1000).toFixed(1)} s`,
 );
 const heap = process.memoryUsage();
-console.log(`memory: heap used ${(heap.heapUsed / 2 ** 20).toFixed(0)} MiB, rss ${(heap.rss / 2 ** 20).toFixed(0)} MiB`);
+console.log(
+  `memory: heap used ${(heap.heapUsed / 2 ** 20).toFixed(0)} MiB, rss ${(heap.rss / 2 ** 20).toFixed(0)} MiB`,
+);

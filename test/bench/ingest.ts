@@ -8,7 +8,7 @@
  * It adds its own fixture unit, beds, users and patients (invented), and prints figures; it asserts nothing.
  */
 import { performance } from 'node:perf_hooks';
-import { HttpSession, signedIn } from '../support/app.ts';
+import { type HttpSession, signedIn } from '../support/app.ts';
 import { createUnit, createUser, testDb, unique } from '../support/db.ts';
 
 const ROWS = 86_400;
@@ -16,7 +16,12 @@ const BATCH = 3_600;
 const db = testDb();
 
 async function patientIn(bedId: number, from: Date): Promise<number> {
-  const [id] = await db('patients').insert({ mrn: unique('BEN').slice(0, 20), given_name: 'Bench', family_name: unique('Mark'), date_of_birth: '1970-01-01' });
+  const [id] = await db('patients').insert({
+    mrn: unique('BEN').slice(0, 20),
+    given_name: 'Bench',
+    family_name: unique('Mark'),
+    date_of_birth: '1970-01-01',
+  });
   await db('bed_stays').insert({ patient_id: id, bed_id: bedId, started_at: from });
   return id;
 }
@@ -39,7 +44,12 @@ try {
   const keyRes = await adminS.post('/api/admin/device-keys', { bedId: unit.bedIds[0], label: 'bench gateway' });
   const { key } = (await keyRes.json()) as { key: string };
 
-  const reading = (i: number) => ({ t: start + i * 1000, spo2: 90 + (i % 9), hr: 60 + (i % 40), pi: 1 + (i % 30) / 10 });
+  const reading = (i: number) => ({
+    t: start + i * 1000,
+    spo2: 90 + (i % 9),
+    hr: 60 + (i % 40),
+    pi: 1 + (i % 30) / 10,
+  });
 
   // ── POST /api/ingest: 24 batches of 3,600, one client, one after another ──
   const batches: string[] = [];
@@ -47,13 +57,29 @@ try {
     const readings = [];
     for (let i = b * BATCH; i < (b + 1) * BATCH; i++) {
       const r = reading(i);
-      readings.push({ at: new Date(r.t).toISOString(), spo2: r.spo2, heartRate: r.hr, perfusionIndex: r.pi, trace: 'clean' });
+      readings.push({
+        at: new Date(r.t).toISOString(),
+        spo2: r.spo2,
+        heartRate: r.hr,
+        perfusionIndex: r.pi,
+        trace: 'clean',
+      });
     }
     batches.push(JSON.stringify({ readings }));
   }
   const rowOf = (patientId: number, bedId: number, i: number, source: 'device' | 'import') => {
     const r = reading(i);
-    return { patient_id: patientId, bed_id: bedId, taken_at: new Date(r.t), source, spo2: r.spo2, heart_rate: r.hr, perfusion_index: r.pi, trace: 'clean', recorded_at: new Date() };
+    return {
+      patient_id: patientId,
+      bed_id: bedId,
+      taken_at: new Date(r.t),
+      source,
+      spo2: r.spo2,
+      heart_rate: r.hr,
+      perfusion_index: r.pi,
+      trace: 'clean',
+      recorded_at: new Date(),
+    };
   };
   // Batch by batch, the API and its floor take turns, so both see the same load on a shared machine.
   // The floor is the same rows as one multi-row INSERT of 3,600 per batch (autocommit, as one statement).
@@ -62,7 +88,11 @@ try {
   let stored = 0;
   for (let b = 0; b < batches.length; b++) {
     let t0 = performance.now();
-    const res = await fetch(`${process.env.APP_URL}/api/ingest`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` }, body: batches[b] });
+    const res = await fetch(`${process.env.APP_URL}/api/ingest`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+      body: batches[b],
+    });
     if (!res.ok) throw new Error(`ingest ${res.status}: ${await res.text()}`);
     stored += ((await res.json()) as { stored: number }).stored;
     ingestMs += performance.now() - t0;
@@ -81,7 +111,15 @@ try {
     lines.push(`${new Date(r.t).toISOString()},${r.spo2},${r.hr},${r.pi},clean`);
   }
   const csv = `${lines.join('\n')}\n`;
-  const q = new URLSearchParams({ time: 'Time', spo2: 'SpO2', heartRate: 'HR', perfusionIndex: 'PI', quality: 'Quality', timeMode: 'iso', fileName: 'bench-day.csv' });
+  const q = new URLSearchParams({
+    time: 'Time',
+    spo2: 'SpO2',
+    heartRate: 'HR',
+    perfusionIndex: 'PI',
+    quality: 'Quality',
+    timeMode: 'iso',
+    fileName: 'bench-day.csv',
+  });
   // Floor for the commit: the same rows in one transaction, multi-row INSERTs of 5,000 (the commit's
   // chunk size), run once before and once after the commit; the mean is the floor.
   const floorB = async (patientId: number, bedId: number) => {
@@ -97,7 +135,11 @@ try {
   };
   const floorBefore = await floorB(pFloorB, unit.bedIds[3]!);
   let t0 = performance.now();
-  const commit = await nurseS.request(`/api/patients/${pFile}/imports/commit?${q}`, { method: 'POST', headers: { 'content-type': 'text/csv' }, body: csv });
+  const commit = await nurseS.request(`/api/patients/${pFile}/imports/commit?${q}`, {
+    method: 'POST',
+    headers: { 'content-type': 'text/csv' },
+    body: csv,
+  });
   const commitMs = performance.now() - t0;
   if (commit.status !== 201) throw new Error(`commit ${commit.status}: ${await commit.text()}`);
   const committed = ((await commit.json()) as { import: { rowsStored: number } }).import.rowsStored;
@@ -107,15 +149,23 @@ try {
 
   // For the record: the preview of the same file (parse, checks, nothing stored) — now a duplicate, which it reports.
   t0 = performance.now();
-  const preview = await nurseS.request(`/api/patients/${pFile}/imports/preview?${q}`, { method: 'POST', headers: { 'content-type': 'text/csv' }, body: csv });
+  const preview = await nurseS.request(`/api/patients/${pFile}/imports/preview?${q}`, {
+    method: 'POST',
+    headers: { 'content-type': 'text/csv' },
+    body: csv,
+  });
   const previewMs = performance.now() - t0;
   if (preview.status !== 200) throw new Error(`preview ${preview.status}`);
 
   const [{ n }] = await db('observations').count({ n: '*' });
-  console.log(`\nStored readings per second (${ROWS.toLocaleString('en-GB')} rows each; observations table now holds ${Number(n).toLocaleString('en-GB')} rows)\n`);
+  console.log(
+    `\nStored readings per second (${ROWS.toLocaleString('en-GB')} rows each; observations table now holds ${Number(n).toLocaleString('en-GB')} rows)\n`,
+  );
   console.log(`${'path'.padEnd(56)}${pad('ms', 9)}${pad('rows/s', 10)}${pad('× floor', 9)}`);
   const line = (label: string, ms: number, floor?: number) =>
-    console.log(`${label.padEnd(56)}${pad(Math.round(ms), 9)}${pad(rate(ROWS, ms), 10)}${pad(floor ? (ms / floor).toFixed(2) : '', 9)}`);
+    console.log(
+      `${label.padEnd(56)}${pad(Math.round(ms), 9)}${pad(rate(ROWS, ms), 10)}${pad(floor ? (ms / floor).toFixed(2) : '', 9)}`,
+    );
   line('POST /api/ingest, 24 × 3,600, one client', ingestMs, floorAMs);
   line('  floor: 24 multi-row INSERTs of 3,600 from a script', floorAMs);
   line('trend-file commit, 86,400-row CSV (one request)', commitMs, floorBMs);

@@ -22,25 +22,53 @@ const MINUTES = DAYS * 24 * 60 + 24 * 60; // a day more than the report, so the 
 const t0 = performance.now();
 const intensivist = await createUser(db, { role: 'intensivist' });
 const code = unique('R').slice(0, 16);
-const [unitId] = await db('units').insert({ code, name: 'Report bench unit', hospital: 'Bench Hospital', time_zone: 'Europe/London' });
+const [unitId] = await db('units').insert({
+  code,
+  name: 'Report bench unit',
+  hospital: 'Bench Hospital',
+  time_zone: 'Europe/London',
+});
 const nowMinute = Math.floor(Date.now() / 60_000) * 60_000;
 const start = new Date(nowMinute - MINUTES * 60_000);
 for (let b = 0; b < BEDS; b++) {
   const [bedId] = await db('beds').insert({ unit_id: unitId, label: `R-${b + 1}`, position: b });
-  const [patientId] = await db('patients').insert({ mrn: unique('RB').slice(0, 20), given_name: 'Bench', family_name: `Report ${b}`, date_of_birth: '1960-01-01' });
+  const [patientId] = await db('patients').insert({
+    mrn: unique('RB').slice(0, 20),
+    given_name: 'Bench',
+    family_name: `Report ${b}`,
+    date_of_birth: '1960-01-01',
+  });
   await db('bed_stays').insert({ patient_id: patientId, bed_id: bedId, started_at: start });
-  await db('target_orders').insert({ patient_id: patientId, low: 92, high: 96, reason: 'bench', ordered_by: intensivist.id, ordered_at: start });
+  await db('target_orders').insert({
+    patient_id: patientId,
+    low: 92,
+    high: 96,
+    reason: 'bench',
+    ordered_by: intensivist.id,
+    ordered_at: start,
+  });
   // Per minute: mostly in band, a 40-minute dip each day on every 5th bed, an untrusted minute every 97.
-  await db.raw(`INSERT INTO observations (patient_id, bed_id, taken_at, source, spo2, heart_rate, trace, recorded_at)
+  await db.raw(
+    `INSERT INTO observations (patient_id, bed_id, taken_at, source, spo2, heart_rate, trace, recorded_at)
     SELECT ?, ?, ? + INTERVAL seq MINUTE, 'device', IF(? AND seq % 1440 BETWEEN 600 AND 639, 88, 93 + (seq * 7 + ?) % 4), 80 + seq % 9,
       IF(seq % 97 = 0, 'noisy', 'clean'), ? + INTERVAL seq MINUTE
-    FROM seq_0_to_${MINUTES - 1}`, [patientId, bedId, start, b % 5 === 0 ? 1 : 0, b, start]);
-  await db.raw(`INSERT INTO observations (patient_id, bed_id, taken_at, source, spo2, heart_rate, resp_rate, fio2, device, flow_lpm, trace, systolic, temperature, consciousness, recorded_at)
+    FROM seq_0_to_${MINUTES - 1}`,
+    [patientId, bedId, start, b % 5 === 0 ? 1 : 0, b, start],
+  );
+  await db.raw(
+    `INSERT INTO observations (patient_id, bed_id, taken_at, source, spo2, heart_rate, resp_rate, fio2, device, flow_lpm, trace, systolic, temperature, consciousness, recorded_at)
     SELECT ?, ?, ? + INTERVAL seq HOUR + INTERVAL 7 MINUTE + INTERVAL 1 SECOND, 'charted', 94, 82, 18, 0.28, 'nasal_cannula', 2, 'clean', 121, 37.0, 'alert', ? + INTERVAL seq HOUR
-    FROM seq_0_to_${MINUTES / 60 - 1}`, [patientId, bedId, start, start]);
+    FROM seq_0_to_${MINUTES / 60 - 1}`,
+    [patientId, bedId, start, start],
+  );
 }
-const [{ n }] = await db('observations').join('patients', 'patients.id', 'observations.patient_id').where('patients.family_name', 'like', 'Report %').count({ n: '*' });
-console.log(`seeded 1 unit × ${BEDS} beds × ${DAYS + 1} days: ${formatCount(Number(n))} readings in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+const [{ n }] = await db('observations')
+  .join('patients', 'patients.id', 'observations.patient_id')
+  .where('patients.family_name', 'like', 'Report %')
+  .count({ n: '*' });
+console.log(
+  `seeded 1 unit × ${BEDS} beds × ${DAYS + 1} days: ${formatCount(Number(n))} readings in ${((performance.now() - t0) / 1000).toFixed(1)} s`,
+);
 await db.raw('ANALYZE TABLE observations');
 
 const session = await signedIn(intensivist.email, intensivist.password);
@@ -64,5 +92,7 @@ async function time(path: string, runs: number) {
 console.log(`GET /api/reports/units/${code}?days=90  ${await time(`/api/reports/units/${code}?days=90`, REPORT_RUNS)}`);
 console.log(`GET /api/reports/units/${code}?days=7   ${await time(`/api/reports/units/${code}?days=7`, REPORT_RUNS)}`);
 console.log(`GET /api/handover?unit=${code}          ${await time(`/api/handover?unit=${code}`, HANDOVER_RUNS)}`);
-console.log('raw readings, no rollup: every figure from bandCompliance over the current rows (see README "Benchmarks")');
+console.log(
+  'raw readings, no rollup: every figure from bandCompliance over the current rows (see README "Benchmarks")',
+);
 await db.destroy();

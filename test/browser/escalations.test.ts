@@ -12,7 +12,10 @@ describe('outreach queue in a real browser', () => {
     let esc: { id: number } | undefined;
     const until = Date.now() + 30_000;
     while (!esc && Date.now() < until) {
-      esc = await db('escalations as e').join('beds as b', 'b.id', 'e.bed_id').where({ 'b.label': '4-01', 'e.kind': 'below_band', 'e.state': 'raised' }).first('e.id');
+      esc = await db('escalations as e')
+        .join('beds as b', 'b.id', 'e.bed_id')
+        .where({ 'b.label': '4-01', 'e.kind': 'below_band', 'e.state': 'raised' })
+        .first('e.id');
       if (!esc) await new Promise((r) => setTimeout(r, 500));
     }
     await db.destroy();
@@ -23,12 +26,18 @@ describe('outreach queue in a real browser', () => {
     await waitForIsland(page, `escalation-${esc!.id}`);
     expect(await row.textContent()).toContain('bed 4-01');
     await row.getByRole('button', { name: 'Claim' }).click();
-    await page.waitForFunction((id) => document.querySelector(`[data-testid="escalation-${id}"]`)?.getAttribute('data-state') === 'claimed', esc!.id, { timeout: 15_000 });
+    await page.waitForFunction(
+      (id) => document.querySelector(`[data-testid="escalation-${id}"]`)?.getAttribute('data-state') === 'claimed',
+      esc!.id,
+      { timeout: 15_000 },
+    );
     expect(await row.getByTestId('escalation-state').textContent()).toBe('claimed by Kofi Ashgrove');
 
     const chartHref = await row.getByRole('link').first().getAttribute('href');
     await page.goto(`${APP_URL}/board?unit=L4ICU`);
-    expect(await page.getByTestId('tile-4-01').getByTestId('tile-escalation').textContent()).toContain('claimed by Kofi Ashgrove');
+    expect(await page.getByTestId('tile-4-01').getByTestId('tile-escalation').textContent()).toContain(
+      'claimed by Kofi Ashgrove',
+    );
     await page.goto(`${APP_URL}${chartHref}`);
     await page.getByTestId('patient-escalations').waitFor();
     expect(await page.getByTestId('patient-escalations').textContent()).toContain('claimed by Kofi Ashgrove');

@@ -15,11 +15,21 @@ beforeAll(async () => {
   nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
   const intensivist = await createUser(db, { role: 'intensivist' });
   ({ patientId } = await createAdmittedPatient(db, {
-    bedId: unit.bedIds[0], since: Date.now() - 8 * 3_600_000,
-    band: { low: 92, high: 96, news2Scale: 1, reason: 'Fixture band', orderedBy: intensivist.id, orderedAt: Date.now() - 8 * 3_600_000 },
+    bedId: unit.bedIds[0],
+    since: Date.now() - 8 * 3_600_000,
+    band: {
+      low: 92,
+      high: 96,
+      news2Scale: 1,
+      reason: 'Fixture band',
+      orderedBy: intensivist.id,
+      orderedAt: Date.now() - 8 * 3_600_000,
+    },
   }));
 });
-afterAll(async () => { await db?.destroy(); });
+afterAll(async () => {
+  await db?.destroy();
+});
 
 /** 240 readings a minute apart ending 10 minutes ago, ISO times; line 6 is refused (SpO₂ 140). */
 function trendFile(): Buffer {
@@ -46,9 +56,16 @@ describe('monitor trend file upload on the bed chart', () => {
     // A slow uplink so the progress bar is seen (Chromium network emulation, ~60 kB/s).
     const cdp = await context.newCDPSession(page);
     await cdp.send('Network.enable');
-    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 60 * 1024 });
+    await cdp.send('Network.emulateNetworkConditions', {
+      offline: false,
+      latency: 20,
+      downloadThroughput: -1,
+      uploadThroughput: 60 * 1024,
+    });
 
-    await page.getByTestId('trend-file').setInputFiles({ name: 'monitor-trend.csv', mimeType: 'text/csv', buffer: trendFile() });
+    await page
+      .getByTestId('trend-file')
+      .setInputFiles({ name: 'monitor-trend.csv', mimeType: 'text/csv', buffer: trendFile() });
     // Columns were guessed from the header; times carry Z, so ISO 8601 is chosen.
     expect(await page.getByLabel('SpO₂ column').inputValue()).toBe('SpO2');
     expect(await page.getByLabel('Heart rate column').inputValue()).toBe('HR');
@@ -58,7 +75,12 @@ describe('monitor trend file upload on the bed chart', () => {
     await page.getByTestId('upload-progress').waitFor({ timeout: 10_000 });
     const preview = page.getByTestId('trend-preview');
     await preview.waitFor({ timeout: 20_000 });
-    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+    await cdp.send('Network.emulateNetworkConditions', {
+      offline: false,
+      latency: 0,
+      downloadThroughput: -1,
+      uploadThroughput: -1,
+    });
     expect(await page.getByTestId('preview-rows').textContent()).toBe('240');
     expect(await page.getByTestId('preview-to-store').textContent()).toBe('239');
     expect(await page.getByTestId('preview-refused').textContent()).toBe('1');
@@ -73,7 +95,10 @@ describe('monitor trend file upload on the bed chart', () => {
     await page.getByTestId('import-list').filter({ hasText: 'monitor-trend.csv' }).waitFor();
 
     // The chart island refetches: its count of readings in the window now holds the import.
-    await page.getByTestId('reading-counts').filter({ hasText: /shown of 239\b/ }).waitFor({ timeout: 20_000 });
+    await page
+      .getByTestId('reading-counts')
+      .filter({ hasText: /shown of 239\b/ })
+      .waitFor({ timeout: 20_000 });
     await page.getByTestId('latest-spo2').waitFor();
     await context.close();
   });
@@ -83,17 +108,22 @@ describe('trend upload: a column that does not fit (issue 10 point 10)', () => {
   it('names the column, offers to leave it unmapped, and groups refused lines by reason', async () => {
     const end = Date.now() - 6 * 3_600_000;
     const lines = ['Time,SpO2,HR,Signal'];
-    for (let i = 0; i < 30; i++) lines.push(`${new Date(end - (29 - i) * 60_000).toISOString()},${i < 3 ? 140 : 95},80,ok`);
+    for (let i = 0; i < 30; i++)
+      lines.push(`${new Date(end - (29 - i) * 60_000).toISOString()},${i < 3 ? 140 : 95},80,ok`);
     const { context, page } = await openSignedIn(browser, { as: nurse, path: `/patients/${patientId}` });
     const section = page.getByTestId('trend-upload');
     await section.scrollIntoViewIfNeeded();
     await waitForIsland(page, 'trend-upload');
-    await page.getByTestId('trend-file').setInputFiles({ name: 'signal-ok.csv', mimeType: 'text/csv', buffer: Buffer.from(`${lines.join('\n')}\n`) });
+    await page
+      .getByTestId('trend-file')
+      .setInputFiles({ name: 'signal-ok.csv', mimeType: 'text/csv', buffer: Buffer.from(`${lines.join('\n')}\n`) });
     expect(await page.getByLabel('Trace quality column').inputValue()).toBe('Signal');
     await page.getByRole('button', { name: 'Preview' }).click();
     const unfit = page.getByTestId('unfit-column');
     await unfit.waitFor({ timeout: 20_000 });
-    expect(await unfit.textContent()).toContain('Column “Signal”, mapped as trace quality, does not fit: 27 of 30 rows were refused for its values (such as “ok”)');
+    expect(await unfit.textContent()).toContain(
+      'Column “Signal”, mapped as trace quality, does not fit: 27 of 30 rows were refused for its values (such as “ok”)',
+    );
     const groups = await page.getByTestId('refused-groups').textContent();
     expect(groups).toContain('quality is not one of clean, weak, noisy, absent275, 6, 7, 8, 9, …');
     expect(groups).toContain('SpO₂ over 100 %32, 3, 4');
@@ -127,7 +157,11 @@ describe('device keys page', () => {
     await row.getByLabel('Reason').fill('gateway moved to bay 3');
     await row.getByRole('button', { name: 'Revoke key' }).click();
     await row.filter({ hasText: 'revoked' }).waitFor();
-    const res = await fetch(`${APP_URL}/api/ingest`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` }, body: JSON.stringify({ readings: [{ at: new Date().toISOString(), spo2: 95 }] }) });
+    const res = await fetch(`${APP_URL}/api/ingest`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+      body: JSON.stringify({ readings: [{ at: new Date().toISOString(), spo2: 95 }] }),
+    });
     expect(res.status).toBe(401);
     await context.close();
   });

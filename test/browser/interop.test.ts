@@ -17,11 +17,16 @@ beforeAll(async () => {
   charge = await createUser(db, { role: 'charge', unitId: unit.unitId });
   ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 }));
 });
-afterAll(async () => { await db?.destroy(); });
+afterAll(async () => {
+  await db?.destroy();
+});
 
 describe('HL7 gateways page and the FHIR download', () => {
   it('an admin registers a gateway and maps a bed name; its message is then stored; the bed chart offers the FHIR export', async () => {
-    const { context, page } = await openSignedIn(browser, { as: 'admin@harbourside.example', context: { viewport: { width: 1440, height: 900 } } });
+    const { context, page } = await openSignedIn(browser, {
+      as: 'admin@harbourside.example',
+      context: { viewport: { width: 1440, height: 900 } },
+    });
     await followNav(page, 'HL7 gateways', '/admin/gateways');
     await page.locator('astro-island:not([ssr])').first().waitFor();
     const app = unique('PW').slice(0, 16);
@@ -41,20 +46,39 @@ describe('HL7 gateways page and the FHIR download', () => {
 
     const client = new Hl7Client({ host: '127.0.0.1', port: Number(process.env.EBB_MLLP_PORT) });
     const at = new Date(Math.floor(Date.now() / 1000) * 1000 - 60_000);
-    const ack = await client.sendAndWait(buildOru({ application: app, facility: 'HARBOUR', controlId: unique('C'), bedName: 'PW^^1', sentAt: new Date(), readings: [{ at, spo2: 94, heartRate: 77 }] }), { returnAck: 'first', timeoutMs: 10_000 });
+    const ack = await client.sendAndWait(
+      buildOru({
+        application: app,
+        facility: 'HARBOUR',
+        controlId: unique('C'),
+        bedName: 'PW^^1',
+        sentAt: new Date(),
+        readings: [{ at, spo2: 94, heartRate: 77 }],
+      }),
+      { returnAck: 'first', timeoutMs: 10_000 },
+    );
     await client.close();
     expect(ack.getSegment('MSA')!.getField(1).toString()).toBe('AA');
     expect(ack.getSegment('MSA')!.getField(3).toString()).toMatch(/^1 stored/);
 
-    const { context: chartContext, page: chart } = await openSignedIn(browser, { as: charge, path: `/patients/${patientId}`, context: { viewport: { width: 390, height: 844 }, acceptDownloads: true } });
+    const { context: chartContext, page: chart } = await openSignedIn(browser, {
+      as: charge,
+      path: `/patients/${patientId}`,
+      context: { viewport: { width: 390, height: 844 }, acceptDownloads: true },
+    });
     const section = chart.getByTestId('fhir-export');
     await section.getByRole('link', { name: 'Last 12 h' }).waitFor();
-    const [download] = await Promise.all([chart.waitForEvent('download'), section.getByRole('link', { name: 'Last 12 h' }).click()]);
+    const [download] = await Promise.all([
+      chart.waitForEvent('download'),
+      section.getByRole('link', { name: 'Last 12 h' }).click(),
+    ]);
     expect(download.suggestedFilename()).toMatch(new RegExp(`^patient-${patientId}-.*\\.fhir\\.json$`));
     const text = await (await download.createReadStream()).toArray();
     const bundle = JSON.parse(Buffer.concat(text as Buffer[]).toString('utf8'));
     expect(bundle.type).toBe('collection');
-    const spo2 = bundle.entry.map((e: { resource: any }) => e.resource).filter((r: any) => r.resourceType === 'Observation' && r.code.coding[0].code === '59408-5');
+    const spo2 = bundle.entry
+      .map((e: { resource: any }) => e.resource)
+      .filter((r: any) => r.resourceType === 'Observation' && r.code.coding[0].code === '59408-5');
     expect(spo2.map((r: any) => [r.effectiveDateTime, r.valueQuantity.value])).toEqual([[at.toISOString(), 94]]);
     await chartContext.close();
   });

@@ -13,7 +13,16 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { APP_URL } from '../support/app.ts';
 import { launchBrowser, signInThroughForm, waitForIsland } from '../support/browser.ts';
-import { APP_PAGES, demoEmail, demoPatientId, resolvePath, setPasswordLinkToken, type AppPage, type DemoRole, type PageFixtures } from '../support/pages.ts';
+import {
+  APP_PAGES,
+  demoEmail,
+  demoPatientId,
+  resolvePath,
+  setPasswordLinkToken,
+  type AppPage,
+  type DemoRole,
+  type PageFixtures,
+} from '../support/pages.ts';
 
 const AXE_SOURCE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 let browser: Browser;
@@ -61,10 +70,19 @@ async function open(p: AppPage, night: boolean, width = 1440): Promise<Page> {
 describe('the page table', () => {
   it('has a row for every page file under src/pages', () => {
     const pagesDir = fileURLToPath(new URL('../../src/pages', import.meta.url));
-    const walk = (dir: string): string[] => readdirSync(dir, { withFileTypes: true })
-      .flatMap((e) => (e.isDirectory() ? walk(join(dir, e.name)) : e.name.endsWith('.astro') ? [relative(pagesDir, join(dir, e.name))] : []));
+    const walk = (dir: string): string[] =>
+      readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
+        e.isDirectory()
+          ? walk(join(dir, e.name))
+          : e.name.endsWith('.astro')
+            ? [relative(pagesDir, join(dir, e.name))]
+            : [],
+      );
     const listed = new Set(APP_PAGES.map((p) => p.file));
-    expect(walk(pagesDir).filter((f) => !listed.has(f)), 'pages missing from APP_PAGES in test/support/pages.ts').toEqual([]);
+    expect(
+      walk(pagesDir).filter((f) => !listed.has(f)),
+      'pages missing from APP_PAGES in test/support/pages.ts',
+    ).toEqual([]);
   });
 });
 
@@ -80,7 +98,8 @@ function phoneTableProblems(): string[] {
     if (!(table instanceof HTMLTableElement) || !table.checkVisibility()) continue;
     const name = table.dataset.testid ?? table.caption?.textContent ?? 'table';
     if (!table.classList.contains('stack-table')) {
-      if (table.scrollWidth > table.clientWidth + 1) problems.push(`${name}: scrolls inside its own box (give it stack-table and data-label)`);
+      if (table.scrollWidth > table.clientWidth + 1)
+        problems.push(`${name}: scrolls inside its own box (give it stack-table and data-label)`);
       continue;
     }
     const headers = [...(table.tHead?.rows[0]?.cells ?? [])].map((c) => c.textContent?.trim() ?? '');
@@ -89,7 +108,8 @@ function phoneTableProblems(): string[] {
       cells.forEach((cell, i) => {
         const label = cell.dataset.label;
         if (label === undefined) return;
-        if (cells.length === headers.length && label !== headers[i]) problems.push(`${name}: column ${i + 1} labelled "${label}" under the header "${headers[i]}"`);
+        if (cells.length === headers.length && label !== headers[i])
+          problems.push(`${name}: column ${i + 1} labelled "${label}" under the header "${headers[i]}"`);
         const shown = getComputedStyle(cell, '::before').content;
         if (shown !== JSON.stringify(label)) problems.push(`${name}: the label "${label}" is not shown (${shown})`);
       });
@@ -110,15 +130,20 @@ describe('no page scrolls sideways (WCAG 2.1 1.4.10 reflow)', () => {
         widths[width] = await page.evaluate(() => {
           const viewport = document.documentElement.clientWidth;
           // Name the elements that stick out, so a failure says where to look.
-          const wide = [...document.querySelectorAll('body *')].filter((e) => e.getBoundingClientRect().right > viewport + 1 && e.getBoundingClientRect().width > 0)
-            .slice(-4).map((e) => `${e.tagName.toLowerCase()}${e.id ? `#${e.id}` : ''}.${String(e.className).slice(0, 60)}`);
+          const wide = [...document.querySelectorAll('body *')]
+            .filter((e) => e.getBoundingClientRect().right > viewport + 1 && e.getBoundingClientRect().width > 0)
+            .slice(-4)
+            .map((e) => `${e.tagName.toLowerCase()}${e.id ? `#${e.id}` : ''}.${String(e.className).slice(0, 60)}`);
           return { scroll: document.documentElement.scrollWidth, viewport, wide, tables: [] as string[] };
         });
         if (width < 640) widths[width]!.tables = await page.evaluate(phoneTableProblems);
       }
       await page.close();
       for (const width of [1440, 390, 320]) {
-        expect(widths[width]!.scroll, `${p.name} at ${width} px: ${widths[width]!.wide.join(' | ')}`).toBeLessThanOrEqual(widths[width]!.viewport);
+        expect(
+          widths[width]!.scroll,
+          `${p.name} at ${width} px: ${widths[width]!.wide.join(' | ')}`,
+        ).toBeLessThanOrEqual(widths[width]!.viewport);
         expect(widths[width]!.tables, `${p.name}: tables at ${width} px`).toEqual([]);
       }
     }, 60_000);
@@ -133,9 +158,22 @@ describe('axe-core finds no serious or critical violation, by day and by night',
         expect(await page.evaluate(() => document.documentElement.classList.contains('night'))).toBe(night);
         await page.addScriptTag({ content: AXE_SOURCE });
         const result = await page.evaluate(async () => {
-          const axe = (window as unknown as { axe: { run: (ctx: Document, o: object) => Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> } }).axe;
+          const axe = (
+            window as unknown as {
+              axe: {
+                run: (
+                  ctx: Document,
+                  o: object,
+                ) => Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }>;
+              };
+            }
+          ).axe;
           const r = await axe.run(document, { resultTypes: ['violations'] });
-          return r.violations.map((v) => ({ id: v.id, impact: v.impact, nodes: v.nodes.slice(0, 5).map((n) => n.target.join(' ')) }));
+          return r.violations.map((v) => ({
+            id: v.id,
+            impact: v.impact,
+            nodes: v.nodes.slice(0, 5).map((n) => n.target.join(' ')),
+          }));
         });
         await page.close();
         const bad = result.filter((v) => v.impact === 'serious' || v.impact === 'critical');

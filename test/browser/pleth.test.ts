@@ -6,8 +6,12 @@ import { createAdmittedPatient, createUnit, createUser, testDb } from '../suppor
 
 const browser = useBrowser();
 let db: Knex;
-beforeAll(() => { db = testDb(); });
-afterAll(async () => { await db?.destroy(); });
+beforeAll(() => {
+  db = testDb();
+});
+afterAll(async () => {
+  await db?.destroy();
+});
 
 async function verdictOf(page: Page, button: string, file: string, expected: string) {
   await page.getByRole('button', { name: button }).click();
@@ -38,16 +42,30 @@ describe('pleth strip check page', () => {
     await context.close();
   });
 
-  it('names the line of a bad strip, and attaches a checked strip to a patient\'s reading', async () => {
+  it("names the line of a bad strip, and attaches a checked strip to a patient's reading", async () => {
     const unit = await createUnit(db, 1);
     const nurse = await createUser(db, { role: 'nurse', unitId: unit.unitId });
-    const { patientId: pid } = await createAdmittedPatient(db, { bedId: unit.bedIds[0], since: Date.now() - 3_600_000 });
-    const [obsId] = await db('observations').insert({ patient_id: pid, bed_id: unit.bedIds[0], taken_at: new Date(Date.now() - 5 * 60_000), source: 'device', spo2: 86, trace: 'weak' });
+    const { patientId: pid } = await createAdmittedPatient(db, {
+      bedId: unit.bedIds[0],
+      since: Date.now() - 3_600_000,
+    });
+    const [obsId] = await db('observations').insert({
+      patient_id: pid,
+      bed_id: unit.bedIds[0],
+      taken_at: new Date(Date.now() - 5 * 60_000),
+      source: 'device',
+      spo2: 86,
+      trace: 'weak',
+    });
 
     const { context, page } = await openSignedIn(browser, { as: nurse, path: `/pleth?patient=${pid}` });
     await waitForIsland(page, 'strip-file'); // the header's search is an island too: wait for this page's own
 
-    await page.getByTestId('strip-file').setInputFiles({ name: 'broken.csv', mimeType: 'text/csv', buffer: Buffer.from('time,red,infrared,dark\n0,1,1,0\n0.01,x,1,0\n') });
+    await page.getByTestId('strip-file').setInputFiles({
+      name: 'broken.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('time,red,infrared,dark\n0,1,1,0\n0.01,x,1,0\n'),
+    });
     expect(await page.getByTestId('strip-problem').textContent()).toContain('line 3: red "x" is not a number');
 
     await verdictOf(page, 'Cold hands, weak pulse', 'low-perfusion.csv', 'doubtful');
@@ -55,10 +73,23 @@ describe('pleth strip check page', () => {
     await attach.getByLabel('Reading checked').selectOption(String(obsId));
     await attach.getByLabel('Note (optional)').fill('warmed the hand, resited probe');
     await attach.getByRole('button', { name: 'Attach to record' }).click();
-    await page.getByTestId('attached-checks').filter({ hasText: 'probe trace checked: doubtful' }).waitFor({ timeout: 10_000 });
+    await page
+      .getByTestId('attached-checks')
+      .filter({ hasText: 'probe trace checked: doubtful' })
+      .waitFor({ timeout: 10_000 });
     const row = await db('pleth_checks').where({ patient_id: pid }).first();
-    expect(row).toMatchObject({ observation_id: obsId, verdict: 'doubtful', note: 'warmed the hand, resited probe', checked_by: nurse.id, file_name: 'low-perfusion.csv' });
-    expect(await db('audit_log').where({ entity: 'pleth_check', entity_id: String(row.id) }).pluck('action')).toEqual(['pleth.attach']);
+    expect(row).toMatchObject({
+      observation_id: obsId,
+      verdict: 'doubtful',
+      note: 'warmed the hand, resited probe',
+      checked_by: nurse.id,
+      file_name: 'low-perfusion.csv',
+    });
+    expect(
+      await db('audit_log')
+        .where({ entity: 'pleth_check', entity_id: String(row.id) })
+        .pluck('action'),
+    ).toEqual(['pleth.attach']);
     await context.close();
   });
 });

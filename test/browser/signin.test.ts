@@ -5,8 +5,12 @@ import { launchBrowser, signInThroughForm } from '../support/browser.ts';
 import { ROLE_LABELS, type Role } from '../../src/lib/auth/roles.ts';
 
 let browser: Browser;
-beforeAll(async () => { browser = await launchBrowser(); });
-afterAll(async () => { await browser?.close(); });
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
 
 // What each demo role must see in its navigation (and must not).
 const expectations: Record<string, { sees: string[]; not: string[] }> = {
@@ -24,7 +28,8 @@ describe('signing in through the real form', () => {
       const page = await context.newPage();
       await signInThroughForm(page, `${role}@harbourside.example`);
       const nav = page.getByTestId('main-nav');
-      for (const label of sees) await nav.getByRole('link', { name: label }).waitFor({ state: "visible", timeout: 10_000 });
+      for (const label of sees)
+        await nav.getByRole('link', { name: label }).waitFor({ state: 'visible', timeout: 10_000 });
       for (const label of not) expect(await nav.getByRole('link', { name: label }).count()).toBe(0);
       expect(await page.getByTestId('whoami').textContent()).toContain(ROLE_LABELS[role as Role]);
       await context.close();
@@ -38,8 +43,11 @@ describe('signing in through the real form', () => {
     expect(new URL(page.url()).pathname).toBe('/signin');
     await page.getByLabel('Email').fill('admin@harbourside.example');
     await page.getByLabel('Password').fill('ebbwatch-demo');
-    await Promise.all([page.waitForURL(`${APP_URL}/admin/users`), page.getByRole('button', { name: 'Sign in' }).click()]);
-    await page.getByTestId('user-table').waitFor({ state: "visible", timeout: 10_000 });
+    await Promise.all([
+      page.waitForURL(`${APP_URL}/admin/users`),
+      page.getByRole('button', { name: 'Sign in' }).click(),
+    ]);
+    await page.getByTestId('user-table').waitFor({ state: 'visible', timeout: 10_000 });
     await context.close();
   });
 

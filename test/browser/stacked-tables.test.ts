@@ -31,7 +31,9 @@ async function openAs(role: DemoRole, path: string, tables: string[], width: num
   contexts.push(context);
   const page = await context.newPage();
   await signInThroughForm(page, demoEmail(role));
-  await context.addCookies([{ name: 'ebb-theme', value: night ? 'night' : 'day', domain: new URL(APP_URL).hostname, path: '/' }]);
+  await context.addCookies([
+    { name: 'ebb-theme', value: night ? 'night' : 'day', domain: new URL(APP_URL).hostname, path: '/' },
+  ]);
   await page.goto(`${APP_URL}${path}`);
   for (const t of tables) {
     await waitForIsland(page, t);
@@ -41,12 +43,24 @@ async function openAs(role: DemoRole, path: string, tables: string[], width: num
 }
 
 interface TableShape {
-  display: string; rowDisplay: string; headerVisible: boolean; rows: number;
+  display: string;
+  rowDisplay: string;
+  headerVisible: boolean;
+  rows: number;
   /** Per labelled cell: its label, the header of its column, what its ::before shows and where the value starts. */
-  cells: { label: string; header: string; shown: string; valueLeft: number; cellLeft: number; top: number; nextTop: number }[];
+  cells: {
+    label: string;
+    header: string;
+    shown: string;
+    valueLeft: number;
+    cellLeft: number;
+    top: number;
+    nextTop: number;
+  }[];
   /** The table and its scrolling box (if any): scroll width against client width. */
   scroll: { table: [number, number]; box: [number, number] | null };
-  docScroll: number; viewport: number;
+  docScroll: number;
+  viewport: number;
 }
 
 function shapeOf(page: Page, testId: string): Promise<TableShape> {
@@ -54,23 +68,36 @@ function shapeOf(page: Page, testId: string): Promise<TableShape> {
     const table = document.querySelector(`[data-testid="${id}"]`) as HTMLTableElement;
     const headers = [...(table.tHead?.rows[0]?.cells ?? [])].map((c) => c.textContent?.trim() ?? '');
     const rows = [...table.tBodies[0]!.rows].filter((r) => r.cells.length === headers.length);
-    const cells = rows.slice(0, 5).flatMap((r) => [...r.cells].filter((c) => c.dataset.label !== undefined).map((c) => {
-      const range = document.createRange();
-      range.selectNodeContents(c);
-      const next = c.nextElementSibling;
-      return {
-        label: c.dataset.label!, header: headers[c.cellIndex] ?? '', shown: getComputedStyle(c, '::before').content,
-        valueLeft: range.getBoundingClientRect().width > 0 ? range.getBoundingClientRect().left : Infinity, cellLeft: c.getBoundingClientRect().left,
-        top: c.getBoundingClientRect().top, nextTop: next ? next.getBoundingClientRect().top : Infinity,
-      };
-    }));
-    const box = table.parentElement && getComputedStyle(table.parentElement).overflowX === 'auto' ? table.parentElement : null;
+    const cells = rows.slice(0, 5).flatMap((r) =>
+      [...r.cells]
+        .filter((c) => c.dataset.label !== undefined)
+        .map((c) => {
+          const range = document.createRange();
+          range.selectNodeContents(c);
+          const next = c.nextElementSibling;
+          return {
+            label: c.dataset.label!,
+            header: headers[c.cellIndex] ?? '',
+            shown: getComputedStyle(c, '::before').content,
+            valueLeft: range.getBoundingClientRect().width > 0 ? range.getBoundingClientRect().left : Infinity,
+            cellLeft: c.getBoundingClientRect().left,
+            top: c.getBoundingClientRect().top,
+            nextTop: next ? next.getBoundingClientRect().top : Infinity,
+          };
+        }),
+    );
+    const box =
+      table.parentElement && getComputedStyle(table.parentElement).overflowX === 'auto' ? table.parentElement : null;
     const head = table.tHead!.getBoundingClientRect();
     return {
-      display: getComputedStyle(table).display, rowDisplay: getComputedStyle(rows[0]!).display,
-      headerVisible: head.width > 10 && head.height > 5, rows: rows.length, cells,
+      display: getComputedStyle(table).display,
+      rowDisplay: getComputedStyle(rows[0]!).display,
+      headerVisible: head.width > 10 && head.height > 5,
+      rows: rows.length,
+      cells,
       scroll: { table: [table.scrollWidth, table.clientWidth], box: box ? [box.scrollWidth, box.clientWidth] : null },
-      docScroll: document.documentElement.scrollWidth, viewport: document.documentElement.clientWidth,
+      docScroll: document.documentElement.scrollWidth,
+      viewport: document.documentElement.clientWidth,
     };
   }, testId);
 }
@@ -85,7 +112,9 @@ function expectStacked(s: TableShape, name: string) {
     expect(c.label, name).toBe(c.header);
     expect(c.shown, `${name}: "${c.label}" is shown as text`).toBe(JSON.stringify(c.label));
     // The value sits beside its label, not under it, and each cell is on its own line.
-    expect(c.valueLeft - c.cellLeft, `${name}: "${c.label}" value leaves room for the label`).toBeGreaterThanOrEqual(100);
+    expect(c.valueLeft - c.cellLeft, `${name}: "${c.label}" value leaves room for the label`).toBeGreaterThanOrEqual(
+      100,
+    );
     expect(c.nextTop, `${name}: "${c.label}" stacks above the next cell`).toBeGreaterThan(c.top);
   }
   // No scrolling box: the table fits its column, and the page fits the screen.
@@ -133,9 +162,26 @@ describe('data tables stack on a phone and are tables at a desk', () => {
         const page = await openAs(c.role, c.path(), c.tables, 390, night);
         await page.addScriptTag({ content: AXE_SOURCE });
         const bad = await page.evaluate(async () => {
-          const axe = (window as unknown as { axe: { run: (ctx: Document, o: object) => Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> } }).axe;
+          const axe = (
+            window as unknown as {
+              axe: {
+                run: (
+                  ctx: Document,
+                  o: object,
+                ) => Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }>;
+              };
+            }
+          ).axe;
           const r = await axe.run(document, { resultTypes: ['violations'] });
-          return r.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(', ')}`);
+          return r.violations
+            .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+            .map(
+              (v) =>
+                `${v.id}: ${v.nodes
+                  .slice(0, 3)
+                  .map((n) => n.target.join(' '))
+                  .join(', ')}`,
+            );
         });
         expect(bad, `${c.name} ${night ? 'by night' : 'by day'} at 390 px`).toEqual([]);
         await page.close();
@@ -146,9 +192,14 @@ describe('data tables stack on a phone and are tables at a desk', () => {
   it('on paper the tables stay tables, even from a phone-wide window', async () => {
     const page = await openAs('nurse', `/patients/${patientId}`, ['obs-table'], 390);
     await page.emulateMedia({ media: 'print' });
-    const displays = await page.evaluate(() => [...document.querySelectorAll('table')].map((t) => getComputedStyle(t).display));
+    const displays = await page.evaluate(() =>
+      [...document.querySelectorAll('table')].map((t) => getComputedStyle(t).display),
+    );
     expect(displays.length).toBeGreaterThan(0);
-    expect(displays.every((d) => d === 'table' || d === 'none'), displays.join(', ')).toBe(true);
+    expect(
+      displays.every((d) => d === 'table' || d === 'none'),
+      displays.join(', '),
+    ).toBe(true);
     await page.close();
   });
 });

@@ -14,9 +14,22 @@ beforeAll(async () => {
   const unit = await createUnit(db, 2);
   unitCode = unit.code;
   const { sessions } = await signInPeople(db, { charge: ['charge', unit.unitId] });
-  const res = await sessions.charge.post('/api/patients', { givenName: 'Perpetua', familyName: unique('Lowe'), mrn: unique('BR').toUpperCase().slice(0, 20), dateOfBirth: '1957-03-14', bedId: unit.bedIds[0] });
+  const res = await sessions.charge.post('/api/patients', {
+    givenName: 'Perpetua',
+    familyName: unique('Lowe'),
+    mrn: unique('BR').toUpperCase().slice(0, 20),
+    dateOfBirth: '1957-03-14',
+    bedId: unit.bedIds[0],
+  });
   patientId = (await res.json()).patient.id;
-  const obs = await sessions.charge.post(`/api/patients/${patientId}/observations`, { takenAt: new Date(Date.now() - 5 * 60_000).toISOString(), spo2: 96, heartRate: 78, respRate: 15, device: 'room_air', trace: 'clean' });
+  const obs = await sessions.charge.post(`/api/patients/${patientId}/observations`, {
+    takenAt: new Date(Date.now() - 5 * 60_000).toISOString(),
+    spo2: 96,
+    heartRate: 78,
+    respRate: 15,
+    device: 'room_air',
+    trace: 'clean',
+  });
   expect(obs.status).toBe(201);
   await db.destroy();
 });
@@ -37,7 +50,11 @@ describe('running staff without a developer', () => {
     await form.getByLabel('Name').fill('Nia Okafor');
     await form.getByLabel('E-mail').fill(email);
     await form.getByLabel('Role').selectOption('nurse');
-    await admin.waitForFunction((code) => [...document.querySelectorAll('#new-unit option')].some((o) => (o as HTMLOptionElement).value === code), unitCode, { timeout: 15_000 });
+    await admin.waitForFunction(
+      (code) => [...document.querySelectorAll('#new-unit option')].some((o) => (o as HTMLOptionElement).value === code),
+      unitCode,
+      { timeout: 15_000 },
+    );
     await form.locator('#new-unit').selectOption(unitCode);
     await form.getByRole('button', { name: 'Add person' }).click();
     await admin.getByTestId('staff-message').filter({ hasText: 'set-password link' }).waitFor({ timeout: 15_000 });
@@ -72,7 +89,11 @@ describe('running staff without a developer', () => {
     await fillByLabel(obs, { 'SpO₂ (%)': '93', 'Heart rate (/min)': '91', 'Respiratory rate (/min)': '19' });
     await obs.getByLabel('Heart rate (/min)').press('Enter');
     await nurse.getByText('Saved', { exact: false }).first().waitFor({ timeout: 15_000 });
-    await nurse.waitForFunction(() => document.querySelector('[data-testid="obs-record"] tbody tr')?.textContent?.includes('91'), null, { timeout: 20_000 });
+    await nurse.waitForFunction(
+      () => document.querySelector('[data-testid="obs-record"] tbody tr')?.textContent?.includes('91'),
+      null,
+      { timeout: 20_000 },
+    );
 
     // The admin deactivates her.
     await admin.reload();
@@ -85,7 +106,10 @@ describe('running staff without a developer', () => {
     // Her open page stops working at its next request: saving is refused, and a reload lands on sign-in.
     await fillByLabel(obs, { 'SpO₂ (%)': '92', 'Heart rate (/min)': '90', 'Respiratory rate (/min)': '18' });
     await obs.getByLabel('Heart rate (/min)').press('Enter');
-    await obs.getByRole('alert').filter({ hasText: /sign in/i }).waitFor({ timeout: 15_000 });
+    await obs
+      .getByRole('alert')
+      .filter({ hasText: /sign in/i })
+      .waitFor({ timeout: 15_000 });
     await nurse.reload();
     expect(new URL(nurse.url()).pathname).toBe('/signin');
     await adminCtx.close();
@@ -93,7 +117,10 @@ describe('running staff without a developer', () => {
   });
 
   it('a clinician finds a patient from the header: / focuses, arrows and Enter open the chart', async () => {
-    const { context: ctx, page } = await openSignedIn(browser, { as: 'intensivist@harbourside.example', island: 'patient-search' });
+    const { context: ctx, page } = await openSignedIn(browser, {
+      as: 'intensivist@harbourside.example',
+      island: 'patient-search',
+    });
     await page.locator('body').press('/');
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('patient-search-input');
     await page.keyboard.type('Perpetua');

@@ -11,7 +11,9 @@ import { demoPatientId } from '../support/pages.ts';
 
 const browser = useBrowser();
 let patientId: number;
-beforeAll(async () => { patientId = await demoPatientId('4-03'); });
+beforeAll(async () => {
+  patientId = await demoPatientId('4-03');
+});
 
 const US = { locale: 'en-US', timezoneId: 'America/New_York' };
 const GB = { locale: 'en-GB', timezoneId: 'Europe/London' };
@@ -22,7 +24,11 @@ async function read(context: BrowserContext) {
   await signInThroughForm(page, 'charge@harbourside.example');
   await page.goto(`${APP_URL}/patients/${patientId}`);
   await waitForIsland(page, 'obs-entry-form');
-  await page.waitForFunction(() => (document.querySelector('[data-testid="obs-record"] tbody tr')?.textContent ?? '').length > 0, null, { timeout: 20_000 });
+  await page.waitForFunction(
+    () => (document.querySelector('[data-testid="obs-record"] tbody tr')?.textContent ?? '').length > 0,
+    null,
+    { timeout: 20_000 },
+  );
   const form = page.getByTestId('obs-entry-form');
   const out = {
     record: (await page.getByTestId('obs-record').locator('tbody').textContent()) ?? '',
@@ -34,7 +40,9 @@ async function read(context: BrowserContext) {
   };
   await page.goto(`${APP_URL}/patients`);
   await page.locator('astro-island:not([ssr])').first().waitFor({ timeout: 20_000 });
-  await page.waitForFunction(() => (document.querySelector('main table tbody')?.textContent ?? '').length > 0, null, { timeout: 20_000 });
+  await page.waitForFunction(() => (document.querySelector('main table tbody')?.textContent ?? '').length > 0, null, {
+    timeout: 20_000,
+  });
   out.patients = (await page.locator('main table tbody').textContent()) ?? '';
   await page.close();
   return out;
@@ -50,7 +58,9 @@ describe('times read the same whatever the browser locale and zone', () => {
       expect(us.patients).toBe(gb.patients);
       expect(us.date).toBe(gb.date);
       // The entry time is "now" in the unit zone; the two reads may straddle a minute.
-      expect(Math.abs(Date.parse(`${us.date}T${us.time}:00Z`) - Date.parse(`${gb.date}T${gb.time}:00Z`))).toBeLessThanOrEqual(60_000);
+      expect(
+        Math.abs(Date.parse(`${us.date}T${us.time}:00Z`) - Date.parse(`${gb.date}T${gb.time}:00Z`)),
+      ).toBeLessThanOrEqual(60_000);
       expect(us.dateInputs).toBe(0);
       // Day first with the month as a word, 24-hour; no US date or 12-hour clock anywhere.
       expect(us.record).toMatch(/\b\d{1,2} (Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec)\b|\b\d\d:\d\d\b/);

@@ -7,12 +7,22 @@ import { describe, expect, it } from 'vitest';
 function runDrill(...options: string[]): Promise<{ code: number | null; out: string }> {
   return new Promise((resolve) => {
     const child = spawn('bash', ['docker-free-scripts/drill.sh', 'cluster', '--short', ...options], {
-      env: { ...process.env, DRILL_REUSE_BUILD: '1', ...(options.includes('--two-writers') ? { DRILL_SECONDS: '90' } : {}) },
+      env: {
+        ...process.env,
+        DRILL_REUSE_BUILD: '1',
+        ...(options.includes('--two-writers') ? { DRILL_SECONDS: '90' } : {}),
+      },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     let out = '';
-    child.stdout.on('data', (d) => { out += d; process.stdout.write(d); });
-    child.stderr.on('data', (d) => { out += d; process.stderr.write(d); });
+    child.stdout.on('data', (d) => {
+      out += d;
+      process.stdout.write(d);
+    });
+    child.stderr.on('data', (d) => {
+      out += d;
+      process.stderr.write(d);
+    });
     child.on('exit', (code) => resolve({ code, out }));
   });
 }
@@ -37,17 +47,25 @@ function expectNothingLostOrDuplicated(out: string) {
 }
 
 describe('cluster drill (short form)', () => {
-  it('loses nothing acknowledged and duplicates nothing while a database node is killed and rejoins', async () => {
-    const { code, out } = await runDrill();
-    expect(out).toMatch(/node 1 rejoined; cluster size 3/);
-    expectNothingLostOrDuplicated(out);
-    expect(code).toBe(0);
-  }, 15 * 60_000);
+  it(
+    'loses nothing acknowledged and duplicates nothing while a database node is killed and rejoins',
+    async () => {
+      const { code, out } = await runDrill();
+      expect(out).toMatch(/node 1 rejoined; cluster size 3/);
+      expectNothingLostOrDuplicated(out);
+      expect(code).toBe(0);
+    },
+    15 * 60_000,
+  );
 
-  it('keeps each escalation and each mail once when two nodes take writes at the same time', async () => {
-    const { code, out } = await runDrill('--two-writers');
-    expect(out).toMatch(/each app instance writing to its own node/);
-    expectNothingLostOrDuplicated(out);
-    expect(code).toBe(0);
-  }, 15 * 60_000);
+  it(
+    'keeps each escalation and each mail once when two nodes take writes at the same time',
+    async () => {
+      const { code, out } = await runDrill('--two-writers');
+      expect(out).toMatch(/each app instance writing to its own node/);
+      expectNothingLostOrDuplicated(out);
+      expect(code).toBe(0);
+    },
+    15 * 60_000,
+  );
 });

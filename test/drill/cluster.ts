@@ -55,7 +55,13 @@ function readingsFor(bed: DrillBed, fromMs: number, toMs: number) {
   for (let t = fromMs; t < toMs; t += 1000) {
     // The desaturating beds fall below band 20 s in and stay there: a sustained run.
     const low = bed.desaturates && t - t0 > 20_000;
-    out.push({ at: new Date(t).toISOString(), spo2: low ? 84 : 95 + ((t / 1000) % 2), heartRate: 80, perfusionIndex: 2.5, trace: 'clean' });
+    out.push({
+      at: new Date(t).toISOString(),
+      spo2: low ? 84 : 95 + ((t / 1000) % 2),
+      heartRate: 80,
+      perfusionIndex: 2.5,
+      trace: 'clean',
+    });
   }
   return out;
 }
@@ -67,12 +73,19 @@ async function feed(bed: DrillBed, offsetMs: number, stopAt: number) {
   for (;;) {
     const to = Math.floor(Date.now() / 1000) * 1000;
     const last = Date.now() >= stopAt;
-    if (to > from) { const fresh = readingsFor(bed, from, to); readingsSent += fresh.length; pending = pending.concat(fresh); from = to; }
+    if (to > from) {
+      const fresh = readingsFor(bed, from, to);
+      readingsSent += fresh.length;
+      pending = pending.concat(fresh);
+      from = to;
+    }
     if (pending.length) {
       try {
         const res = await fetch(`${APP_URL}/api/ingest`, {
-          method: 'POST', headers: { authorization: `Bearer ${bed.key}`, 'content-type': 'application/json' },
-          body: JSON.stringify({ readings: pending.slice(0, 3600) }), signal: AbortSignal.timeout(20_000),
+          method: 'POST',
+          headers: { authorization: `Bearer ${bed.key}`, 'content-type': 'application/json' },
+          body: JSON.stringify({ readings: pending.slice(0, 3600) }),
+          signal: AbortSignal.timeout(20_000),
         });
         await res.arrayBuffer();
         if (res.ok) {
@@ -117,10 +130,16 @@ async function chart(session: HttpSession, patients: number[], stopAt: number) {
     const patientId = patients[i++ % patients.length]!;
     try {
       const res = await session.post(`/api/patients/${patientId}/observations`, {
-        takenAt: new Date(Date.now() - 5000).toISOString(), spo2: 95, heartRate: 82, respRate: 16, device: 'room_air', trace: 'clean',
+        takenAt: new Date(Date.now() - 5000).toISOString(),
+        spo2: 95,
+        heartRate: 82,
+        respRate: 16,
+        device: 'room_air',
+        trace: 'clean',
       });
       await res.arrayBuffer();
-      if (res.status === 201) chartedOk++; else chartFailures++;
+      if (res.status === 201) chartedOk++;
+      else chartFailures++;
     } catch {
       chartFailures++;
     }
@@ -131,7 +150,9 @@ async function chart(session: HttpSession, patients: number[], stopAt: number) {
 function ctl(action: string, n: number): Promise<void> {
   return new Promise((resolve, reject) => {
     const child = spawn('bash', ['docker-free-scripts/cluster-ctl.sh', action, String(n)], { stdio: 'inherit' });
-    child.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`cluster-ctl ${action} ${n} exited ${code}`))));
+    child.on('exit', (code) =>
+      code === 0 ? resolve() : reject(new Error(`cluster-ctl ${action} ${n} exited ${code}`)),
+    );
   });
 }
 
@@ -177,20 +198,24 @@ async function main() {
   for (let i = 0; i < POLLERS; i++) work.push(poll(pollerSession, hospital.units[i % hospital.units.length]!, stopAt));
   for (const nurse of hospital.nurses.slice(0, NURSES)) {
     const session = await signedInAs(nurse.email);
-    const patients = hospital.beds.filter((b) => b.unitCode === nurse.unitCode && !b.desaturates).map((b) => b.patientId);
+    const patients = hospital.beds
+      .filter((b) => b.unitCode === nurse.unitCode && !b.desaturates)
+      .map((b) => b.patientId);
     work.push(chart(session, patients, stopAt));
   }
   const feeds = hospital.beds.map((bed, i) => feed(bed, (i / hospital.beds.length) * BATCH_S * 1000, stopAt));
   log(`${hospital.beds.length} feeds, ${POLLERS} pollers, ${Math.min(NURSES, hospital.nurses.length)} nurses charting`);
   if (FAULTS) {
-    work.push((async () => {
-      await fault('kill database node 1 (the writer)', SECONDS * 0.3, 'kill-node', 1);
-      await fault('restart database node 1 (rejoin)', SECONDS * 0.5, 'start-node', 1);
-      if (APP_FAULT) {
-        await fault('kill app instance 1', SECONDS * 0.65, 'kill-app', 1);
-        await fault('restart app instance 1', SECONDS * 0.8, 'start-app', 1);
-      }
-    })());
+    work.push(
+      (async () => {
+        await fault('kill database node 1 (the writer)', SECONDS * 0.3, 'kill-node', 1);
+        await fault('restart database node 1 (rejoin)', SECONDS * 0.5, 'start-node', 1);
+        if (APP_FAULT) {
+          await fault('kill app instance 1', SECONDS * 0.65, 'kill-app', 1);
+          await fault('restart app instance 1', SECONDS * 0.8, 'start-app', 1);
+        }
+      })(),
+    );
   }
   await Promise.all(work);
   const unacknowledged = (await Promise.all(feeds)).reduce((a, b) => a + b, 0);
@@ -201,20 +226,35 @@ async function main() {
   await outboxDrained(30_000);
 
   const bedIds = hospital.beds.map((b) => b.bedId);
-  const stored = await knex('observations').whereIn('device_bed_id', bedIds).where('source', 'device').select('device_bed_id', 'taken_at');
+  const stored = await knex('observations')
+    .whereIn('device_bed_id', bedIds)
+    .where('source', 'device')
+    .select('device_bed_id', 'taken_at');
   const storedKeys = new Set(stored.map((r) => `${r.device_bed_id}|${new Date(r.taken_at).getTime()}`));
   let lost = 0;
   for (const k of acknowledged) if (!storedKeys.has(k)) lost++;
   const duplicateReadings = stored.length - storedKeys.size;
   const desaturating = new Set(hospital.beds.filter((b) => b.desaturates).map((b) => b.patientId));
   const patientIds = hospital.beds.map((b) => b.patientId);
-  const escalations = await knex('escalations').whereIn('patient_id', patientIds).where('kind', 'below_band').select('id', 'patient_id');
+  const escalations = await knex('escalations')
+    .whereIn('patient_id', patientIds)
+    .where('kind', 'below_band')
+    .select('id', 'patient_id');
   const raisedFor = new Set(escalations.map((e) => e.patient_id));
   const expectedRaised = [...desaturating].filter((p) => raisedFor.has(p)).length;
   const unexpected = escalations.filter((e) => !desaturating.has(e.patient_id)).length;
   const duplicateEscalations = escalations.length - raisedFor.size;
-  const outbox = await knex('mail_outbox').whereIn('escalation_id', escalations.map((e) => e.id)).select('idempotency_key');
-  const messages = ((await (await fetch(`${FAKE_API}/messages`)).json()) as { messages: { key: string | null; messageId: string | null }[] }).messages;
+  const outbox = await knex('mail_outbox')
+    .whereIn(
+      'escalation_id',
+      escalations.map((e) => e.id),
+    )
+    .select('idempotency_key');
+  const messages = (
+    (await (await fetch(`${FAKE_API}/messages`)).json()) as {
+      messages: { key: string | null; messageId: string | null }[];
+    }
+  ).messages;
   const outboxKeys = new Set(outbox.map((o) => o.idempotency_key));
   const received = messages.filter((m) => m.key && outboxKeys.has(m.key));
   const receivedKeys = new Set(received.map((m) => m.key));
@@ -230,13 +270,33 @@ async function main() {
   });
 
   const figures = {
-    phase: PHASE, seconds: SECONDS, beds: hospital.beds.length,
-    readingsSent, readingsAcknowledged: acknowledged.size, readingsStored: storedKeys.size, readingsUnacknowledgedAtEnd: unacknowledged,
-    readingsLost: lost, duplicateReadings, ingestFailures,
-    escalationsExpected: desaturating.size, escalationsRaised: raisedFor.size, escalationsOfExpected: expectedRaised, unexpectedEscalations: unexpected, duplicateEscalations,
-    mailsExpected: outboxKeys.size, mailsReceived: receivedKeys.size, duplicateMails, mailPending,
-    boardRequests: boardLatencies.length, boardErrors: pollErrors, boardP50Ms: pct(boardLatencies, 50), boardP95Ms: pct(boardLatencies, 95),
-    obsCharted: chartedOk, obsChartFailures: chartFailures, errorSecondsAround, errorSecondsBeforeFaults,
+    phase: PHASE,
+    seconds: SECONDS,
+    beds: hospital.beds.length,
+    readingsSent,
+    readingsAcknowledged: acknowledged.size,
+    readingsStored: storedKeys.size,
+    readingsUnacknowledgedAtEnd: unacknowledged,
+    readingsLost: lost,
+    duplicateReadings,
+    ingestFailures,
+    escalationsExpected: desaturating.size,
+    escalationsRaised: raisedFor.size,
+    escalationsOfExpected: expectedRaised,
+    unexpectedEscalations: unexpected,
+    duplicateEscalations,
+    mailsExpected: outboxKeys.size,
+    mailsReceived: receivedKeys.size,
+    duplicateMails,
+    mailPending,
+    boardRequests: boardLatencies.length,
+    boardErrors: pollErrors,
+    boardP50Ms: pct(boardLatencies, 50),
+    boardP95Ms: pct(boardLatencies, 95),
+    obsCharted: chartedOk,
+    obsChartFailures: chartFailures,
+    errorSecondsAround,
+    errorSecondsBeforeFaults,
     pollErrorKinds: Object.fromEntries(pollErrorKinds),
   };
   const p = (label: string, value: unknown) => console.log(`${PHASE}: ${label}: ${value}`);
@@ -246,18 +306,34 @@ async function main() {
   p('duplicate readings', duplicateReadings);
   p('ingest requests refused or failed (then re-sent)', ingestFailures);
   p('readings never acknowledged at the end', unacknowledged);
-  p('escalations expected vs raised', `${desaturating.size} vs ${raisedFor.size} (${unexpected} unexpected, ${duplicateEscalations} duplicate)`);
+  p(
+    'escalations expected vs raised',
+    `${desaturating.size} vs ${raisedFor.size} (${unexpected} unexpected, ${duplicateEscalations} duplicate)`,
+  );
   p('mails expected vs received', `${outboxKeys.size} vs ${receivedKeys.size}`);
   p('duplicate mails', duplicateMails);
-  p('board p50 / p95', `${figures.boardP50Ms.toFixed(1)} ms / ${figures.boardP95Ms.toFixed(1)} ms over ${boardLatencies.length} requests (${pollErrors} errors)`);
+  p(
+    'board p50 / p95',
+    `${figures.boardP50Ms.toFixed(1)} ms / ${figures.boardP95Ms.toFixed(1)} ms over ${boardLatencies.length} requests (${pollErrors} errors)`,
+  );
   p('obs charted', `${chartedOk} (${chartFailures} failed and were not retried)`);
   p('poller errors by kind', [...pollErrorKinds].map(([k, n]) => `${k}: ${n}`).join(', ') || 'none');
-  if (faults.length) p(`seconds with poller errors before the first fault (0–${Math.round(firstFaultAt)} s, load alone)`, errorSecondsBeforeFaults);
+  if (faults.length)
+    p(
+      `seconds with poller errors before the first fault (0–${Math.round(firstFaultAt)} s, load alone)`,
+      errorSecondsBeforeFaults,
+    );
   for (const f of errorSecondsAround) p(`seconds with poller errors after "${f.fault}" (at ${f.at} s)`, f.errorSeconds);
   if (process.env.DRILL_RESULT) writeFileSync(process.env.DRILL_RESULT, JSON.stringify(figures, null, 2));
   await knex.destroy();
-  const ok = lost === 0 && duplicateReadings === 0 && duplicateMails === 0 && duplicateEscalations === 0 && unexpected === 0
-    && raisedFor.size === desaturating.size && receivedKeys.size === outboxKeys.size;
+  const ok =
+    lost === 0 &&
+    duplicateReadings === 0 &&
+    duplicateMails === 0 &&
+    duplicateEscalations === 0 &&
+    unexpected === 0 &&
+    raisedFor.size === desaturating.size &&
+    receivedKeys.size === outboxKeys.size;
   p('verdict', ok ? 'nothing lost, nothing duplicated' : 'FAILED');
   process.exit(ok ? 0 : 1);
 }

@@ -15,26 +15,61 @@ import { issueClaimLink } from '../../src/lib/server/escalations/claim-links.ts'
 import { closeDb, db as appDb } from '../../src/lib/server/queries/db.ts';
 
 const { db, unit, s, ids } = useWard({
-  beds: 6, people: { nurse: ['nurse', 'unit'], outreach: ['outreach', null], admin: ['admin', null], intensivist: ['intensivist', null], charge: ['charge', 'unit'] },
+  beds: 6,
+  people: {
+    nurse: ['nurse', 'unit'],
+    outreach: ['outreach', null],
+    admin: ['admin', null],
+    intensivist: ['intensivist', null],
+    charge: ['charge', 'unit'],
+  },
 });
 const outreachAddress = `${unique('mailout')}@fixture.example`;
 const nurseName = `Nia ${unique('Bedside')}`;
 let bedCursor = 0;
 
 beforeAll(async () => {
-  await db('unit_settings').insert({ unit_id: unit.unitId, outreach_emails: outreachAddress, unit_phone: '+44 20 7946 0123' });
+  await db('unit_settings').insert({
+    unit_id: unit.unitId,
+    outreach_emails: outreachAddress,
+    unit_phone: '+44 20 7946 0123',
+  });
   await db('users').where({ id: ids.nurse }).update({ name: nurseName });
-  for (const bedId of unit.bedIds) await db('bed_assignments').insert({ bed_id: bedId, nurse_id: ids.nurse, assigned_by: ids.charge, assigned_at: new Date() });
+  for (const bedId of unit.bedIds)
+    await db('bed_assignments').insert({
+      bed_id: bedId,
+      nurse_id: ids.nurse,
+      assigned_by: ids.charge,
+      assigned_at: new Date(),
+    });
 });
-afterAll(async () => { await closeDb(); });
+afterAll(async () => {
+  await closeDb();
+});
 
 async function admit() {
   const bedId = unit.bedIds[bedCursor++]!;
-  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
+  return (
+    await createAdmittedPatient(db, {
+      bedId,
+      since: Date.now() - 6 * 3_600_000,
+      band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 },
+    })
+  ).patientId;
 }
 async function chart(patientId: number, spo2: number, minsAgo: number, extra: Record<string, unknown> = {}) {
   const res = await s.nurse.post(`/api/patients/${patientId}/observations`, {
-    takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(), spo2, heartRate: 100, respRate: 22, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean', systolic: 118, consciousness: 'alert', ...extra,
+    takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(),
+    spo2,
+    heartRate: 100,
+    respRate: 22,
+    device: 'simple_mask',
+    flowLpm: 6,
+    fio2: 0.4,
+    trace: 'clean',
+    systolic: 118,
+    consciousness: 'alert',
+    ...extra,
   });
   expect(res.status, await res.clone().text()).toBe(201);
 }
@@ -56,7 +91,9 @@ describe('escalation e-mail (issue 10 point 7)', () => {
     expect(mail.text).toMatch(/^ {2}\d\d:\d\d:\d\d {2}SpO₂ 88 %/m); // readings carry seconds
     expect(mail.text).toContain('NEWS2: incomplete — missing temperature');
     expect(mail.text).toContain(`Bedside nurse: ${nurseName} · Unit phone: +44 20 7946 0123`);
-    expect(mail.text).toMatch(/Claim it: http:\/\/127\.0\.0\.1:\d+\/escalations\/claim\?token=\S+ \(works once, until \d\d:\d\d, after sign-in\)/);
+    expect(mail.text).toMatch(
+      /Claim it: http:\/\/127\.0\.0\.1:\d+\/escalations\/claim\?token=\S+ \(works once, until \d\d:\d\d, after sign-in\)/,
+    );
   });
 
   it('the claim link: sign-in first, claims once, is stored only as a hash, and refuses altered or expired tokens', async () => {
@@ -82,7 +119,9 @@ describe('escalation e-mail (issue 10 point 7)', () => {
     expect(admin.status).toBe(403);
     expect((await db('escalation_claim_tokens').where({ escalation_id: esc.id }).first()).used_at).toBeNull();
 
-    const altered = await s.outreach.get(`/escalations/claim?token=${encodeURIComponent(token.slice(0, -2) + (token.endsWith('AA') ? 'BB' : 'AA'))}`);
+    const altered = await s.outreach.get(
+      `/escalations/claim?token=${encodeURIComponent(token.slice(0, -2) + (token.endsWith('AA') ? 'BB' : 'AA'))}`,
+    );
     expect(altered.status).toBe(400);
     expect(await altered.text()).toContain('This claim link is not valid');
 
@@ -121,7 +160,12 @@ describe('escalation e-mail (issue 10 point 7)', () => {
     await deliverDueMail(later, { worker: 'test-clock' });
     const [reminder] = await waitForMail((m) => m.key === `esc:${esc.id}:renotify:1`);
     const newest = await db('observations').where({ patient_id: p }).max({ t: 'taken_at' }).first();
-    const hhmm = new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(newest!.t));
+    const hhmm = new Intl.DateTimeFormat('en-GB', {
+      timeZone: 'Europe/London',
+      hour: '2-digit',
+      minute: '2-digit',
+      hourCycle: 'h23',
+    }).format(new Date(newest!.t));
     expect(reminder!.text).toContain(`No new readings since ${hhmm}.`);
   });
 });

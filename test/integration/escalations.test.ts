@@ -9,7 +9,14 @@ import { deliverDueMail } from '../../src/lib/server/mail/outbox-worker.ts';
 import { closeDb } from '../../src/lib/server/queries/db.ts';
 
 const { db, unit, s, ids } = useWard({
-  beds: 8, people: { nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null] },
+  beds: 8,
+  people: {
+    nurse: ['nurse', 'unit'],
+    charge: ['charge', 'unit'],
+    intensivist: ['intensivist', null],
+    outreach: ['outreach', null],
+    admin: ['admin', null],
+  },
 });
 const outreachAddress = `${unique('outreach')}@fixture.example`;
 let bedCursor = 0;
@@ -17,13 +24,29 @@ let bedCursor = 0;
 async function admitWithBand(low = 92, high = 96) {
   const bedId = unit.bedIds[bedCursor++]!;
   // Ordered hours ago: readings are judged only against the band in force when they were taken.
-  return (await createAdmittedPatient(db, { bedId, since: Date.now() - 6 * 3_600_000, band: { low, high, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 } })).patientId;
+  return (
+    await createAdmittedPatient(db, {
+      bedId,
+      since: Date.now() - 6 * 3_600_000,
+      band: { low, high, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 },
+    })
+  ).patientId;
 }
 
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000).toISOString();
 async function chart(patientId: number, spo2: number, minsAgo = 0, trace = 'clean') {
   const res = await s.nurse.post(`/api/patients/${patientId}/observations`, {
-    takenAt: minutesAgo(minsAgo), spo2, heartRate: 100, respRate: 22, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace, systolic: 118, temperature: 37.2, consciousness: 'alert',
+    takenAt: minutesAgo(minsAgo),
+    spo2,
+    heartRate: 100,
+    respRate: 22,
+    device: 'simple_mask',
+    flowLpm: 6,
+    fio2: 0.4,
+    trace,
+    systolic: 118,
+    temperature: 37.2,
+    consciousness: 'alert',
   });
   expect(res.status, await res.clone().text()).toBe(201);
 }
@@ -32,7 +55,10 @@ const escalationsOf = (patientId: number) => db('escalations').where({ patient_i
 beforeAll(async () => {
   await db('unit_settings').insert({ unit_id: unit.unitId, outreach_emails: outreachAddress });
 });
-afterAll(async () => { await smtp('start'); await closeDb(); });
+afterAll(async () => {
+  await smtp('start');
+  await closeDb();
+});
 
 describe('escalations raised from obs, e-mailed through the outbox', () => {
   it('two trusted charted obs below band raise one escalation and one mail; a third raises nothing new', async () => {
@@ -99,11 +125,18 @@ describe('escalations raised from obs, e-mailed through the outbox', () => {
     expect(bad.status).toBe(400);
     expect((await bad.json()).error.fields).toHaveProperty('outcome');
     expect((await db('escalations').where({ id: first.id }).first()).state).toBe('claimed');
-    const close = await s.outreach.post(`/api/escalations/${first.id}/close`, { outcome: 'treated_at_bedside', note: 'FiO₂ up, repositioned' });
+    const close = await s.outreach.post(`/api/escalations/${first.id}/close`, {
+      outcome: 'treated_at_bedside',
+      note: 'FiO₂ up, repositioned',
+    });
     expect(close.status).toBe(200);
     const detail = await (await s.charge.get(`/api/escalations/${first.id}`)).json();
     expect(detail.events.map((e: { type: string }) => e.type)).toEqual(['raised', 'notified', 'claimed', 'closed']);
-    expect(detail).toMatchObject({ state: 'closed', outcome: 'treated_at_bedside', closeNote: 'FiO₂ up, repositioned' });
+    expect(detail).toMatchObject({
+      state: 'closed',
+      outcome: 'treated_at_bedside',
+      closeNote: 'FiO₂ up, repositioned',
+    });
 
     await chart(p, 88, 20); // same run, still below: not raised again
     expect(await escalationsOf(p)).toHaveLength(1);
@@ -113,10 +146,14 @@ describe('escalations raised from obs, e-mailed through the outbox', () => {
     const rows = await escalationsOf(p);
     expect(rows).toHaveLength(2);
     expect(rows[1].state).toBe('raised');
-    expect(await db('audit_log').where({ entity: 'escalation', entity_id: String(first.id) }).pluck('action')).toEqual(['escalation.raise', 'escalation.claim', 'escalation.close']);
+    expect(
+      await db('audit_log')
+        .where({ entity: 'escalation', entity_id: String(first.id) })
+        .pluck('action'),
+    ).toEqual(['escalation.raise', 'escalation.claim', 'escalation.close']);
   });
 
-  it('re-notifies an unclaimed escalation once the unit\'s time has passed (clock injected)', async () => {
+  it("re-notifies an unclaimed escalation once the unit's time has passed (clock injected)", async () => {
     const p = await admitWithBand();
     await chart(p, 89, 10);
     await chart(p, 89, 0);
@@ -157,7 +194,9 @@ describe('mail delivery faults', () => {
       // The worker tries and fails; the row stays pending with the error, nothing is lost.
       const until = Date.now() + 10_000;
       do {
-        row = await db('mail_outbox').where({ idempotency_key: `esc:${esc.id}:raised` }).first();
+        row = await db('mail_outbox')
+          .where({ idempotency_key: `esc:${esc.id}:raised` })
+          .first();
         if (row.attempts > 0) break;
         await new Promise((r) => setTimeout(r, 200));
       } while (Date.now() < until);
@@ -171,7 +210,13 @@ describe('mail delivery faults', () => {
     expect(mails).toHaveLength(1);
     await new Promise((r) => setTimeout(r, 1000));
     expect((await received()).filter((m) => m.key === `esc:${esc.id}:raised`)).toHaveLength(1);
-    expect((await db('mail_outbox').where({ idempotency_key: `esc:${esc.id}:raised` }).first()).status).toBe('sent');
+    expect(
+      (
+        await db('mail_outbox')
+          .where({ idempotency_key: `esc:${esc.id}:raised` })
+          .first()
+      ).status,
+    ).toBe('sent');
   });
 
   it('two app instances and two more workers at once send each mail exactly once', async () => {
@@ -179,12 +224,24 @@ describe('mail delivery faults', () => {
     const second = await startInstance(Number(new URL(process.env.APP_URL!).port) + 9, { EBB_BACKGROUND: 'on' });
     const batch = unique('batch');
     const now = new Date();
-    await db('mail_outbox').insert(Array.from({ length: 30 }, (_, i) => ({
-      idempotency_key: `${batch}:${i}`, to_addresses: outreachAddress, subject: `race ${i}`, text_body: 'x', html_body: '<p>x</p>', created_at: now, next_attempt_at: now,
-    })));
+    await db('mail_outbox').insert(
+      Array.from({ length: 30 }, (_, i) => ({
+        idempotency_key: `${batch}:${i}`,
+        to_addresses: outreachAddress,
+        subject: `race ${i}`,
+        text_body: 'x',
+        html_body: '<p>x</p>',
+        created_at: now,
+        next_attempt_at: now,
+      })),
+    );
     await Promise.all([
-      (async () => { for (let i = 0; i < 10; i++) await deliverDueMail(new Date(), { worker: 'test-worker-A', limit: 3 }); })(),
-      (async () => { for (let i = 0; i < 10; i++) await deliverDueMail(new Date(), { worker: 'test-worker-B', limit: 3 }); })(),
+      (async () => {
+        for (let i = 0; i < 10; i++) await deliverDueMail(new Date(), { worker: 'test-worker-A', limit: 3 });
+      })(),
+      (async () => {
+        for (let i = 0; i < 10; i++) await deliverDueMail(new Date(), { worker: 'test-worker-B', limit: 3 });
+      })(),
     ]);
     const until = Date.now() + 15_000;
     let got = (await received()).filter((m) => m.key?.startsWith(`${batch}:`));
@@ -204,9 +261,23 @@ describe('mail delivery faults', () => {
 
 describe('unit settings', () => {
   it('admins edit them with validation; others may not', async () => {
-    const body = { consecutiveCharted: 3, deviceDwellMin: 8, urgentMarginPoints: 5, urgentFloorPct: 85, cannotVerifyMin: 15, aboveOnOxygenMin: 30, renotifyMin: 20, overdueMin: 75, outreachEmails: [outreachAddress] };
+    const body = {
+      consecutiveCharted: 3,
+      deviceDwellMin: 8,
+      urgentMarginPoints: 5,
+      urgentFloorPct: 85,
+      cannotVerifyMin: 15,
+      aboveOnOxygenMin: 30,
+      renotifyMin: 20,
+      overdueMin: 75,
+      outreachEmails: [outreachAddress],
+    };
     expect((await s.charge.put(`/api/units/${unit.code}/settings`, body)).status).toBe(403);
-    const bad = await s.admin.put(`/api/units/${unit.code}/settings`, { ...body, deviceDwellMin: 0, outreachEmails: ['nope'] });
+    const bad = await s.admin.put(`/api/units/${unit.code}/settings`, {
+      ...body,
+      deviceDwellMin: 0,
+      outreachEmails: ['nope'],
+    });
     expect(bad.status).toBe(400);
     const fields = (await bad.json()).error.fields;
     expect(fields).toHaveProperty('deviceDwellMin');

@@ -22,7 +22,12 @@ function mariadbPid(): number {
   return Number(readFileSync(`${DB_DIR}/mysqld.pid`, 'utf8').trim());
 }
 function alive(pid: number): boolean {
-  try { process.kill(pid, 0); return true; } catch { return false; }
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
 }
 async function stopMariadb(): Promise<void> {
   const pid = mariadbPid();
@@ -32,7 +37,11 @@ async function stopMariadb(): Promise<void> {
 }
 function startMariadb(): void {
   // The same start as test.sh uses (docker-free-scripts/lib.sh), on the same data folder and port.
-  const r = spawnSync('bash', ['-c', `source docker-free-scripts/lib.sh && start_mariadb "${basename(DB_DIR)}" "${process.env.DB_PORT}"`], { stdio: 'inherit', timeout: 60_000 });
+  const r = spawnSync(
+    'bash',
+    ['-c', `source docker-free-scripts/lib.sh && start_mariadb "${basename(DB_DIR)}" "${process.env.DB_PORT}"`],
+    { stdio: 'inherit', timeout: 60_000 },
+  );
   if (r.status !== 0) throw new Error('MariaDB did not start again');
 }
 
@@ -47,7 +56,9 @@ beforeAll(async () => {
   s = people.sessions;
   intensivistId = people.ids.int;
 });
-afterAll(async () => { await db.destroy(); });
+afterAll(async () => {
+  await db.destroy();
+});
 
 describe('MariaDB stopped and started while the board polls', () => {
   it('answers 503 database_unavailable (and a plain page for pages) while it is down, then recovers by itself', async () => {
@@ -105,19 +116,35 @@ describe('an app instance killed with SIGKILL during escalation sweeps', () => {
     try {
       // Device readings below band for 10 min, written straight to the table: only a sweep raises them.
       for (const bedId of unit.bedIds) {
-        const { patientId } = await createAdmittedPatient(db, { bedId, since: Date.now() - 3 * 3_600_000, band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 2 * 3_600_000 } });
+        const { patientId } = await createAdmittedPatient(db, {
+          bedId,
+          since: Date.now() - 3 * 3_600_000,
+          band: { low: 92, high: 96, orderedBy: intensivistId, orderedAt: Date.now() - 2 * 3_600_000 },
+        });
         patients.push(patientId);
       }
       const rows = [];
       for (let i = 0; i < patients.length; i++) {
         for (let m = 10; m >= 0; m--) {
-          rows.push({ patient_id: patients[i], bed_id: unit.bedIds[i], taken_at: new Date(Date.now() - m * 60_000), source: 'device', spo2: 84, heart_rate: 110, trace: 'clean' });
+          rows.push({
+            patient_id: patients[i],
+            bed_id: unit.bedIds[i],
+            taken_at: new Date(Date.now() - m * 60_000),
+            source: 'device',
+            spo2: 84,
+            heart_rate: 110,
+            trace: 'clean',
+          });
         }
       }
       await db('observations').insert(rows);
       // Kill it as soon as its sweeps start raising (or after a moment), mid-work.
       const until = Date.now() + 5_000;
-      while (Date.now() < until && Number((await db('escalations').whereIn('patient_id', patients).count({ n: '*' }).first())!.n) === 0) await sleep(20);
+      while (
+        Date.now() < until &&
+        Number((await db('escalations').whereIn('patient_id', patients).count({ n: '*' }).first())!.n) === 0
+      )
+        await sleep(20);
       instance.child.kill('SIGKILL');
       await new Promise((r) => instance.child.once('exit', r));
       instance = await startInstance(port, env);
@@ -126,14 +153,27 @@ describe('an app instance killed with SIGKILL during escalation sweeps', () => {
       const deadline = Date.now() + 40_000;
       let keys: string[] = [];
       for (;;) {
-        const escalations = await db('escalations').whereIn('patient_id', patients).where({ kind: 'below_band' }).select('id');
-        keys = await db('mail_outbox').whereIn('escalation_id', escalations.map((e) => e.id)).pluck('idempotency_key');
+        const escalations = await db('escalations')
+          .whereIn('patient_id', patients)
+          .where({ kind: 'below_band' })
+          .select('id');
+        keys = await db('mail_outbox')
+          .whereIn(
+            'escalation_id',
+            escalations.map((e) => e.id),
+          )
+          .pluck('idempotency_key');
         const got = (await received()).filter((m) => m.key && keys.includes(m.key));
         if ((escalations.length === patients.length && got.length >= patients.length) || Date.now() > deadline) break;
         await sleep(300);
       }
       await sleep(3_000); // time for any duplicate to arrive
-      const perPatient = await db('escalations').whereIn('patient_id', patients).where({ kind: 'below_band' }).groupBy('patient_id').select('patient_id').count({ n: '*' });
+      const perPatient = await db('escalations')
+        .whereIn('patient_id', patients)
+        .where({ kind: 'below_band' })
+        .groupBy('patient_id')
+        .select('patient_id')
+        .count({ n: '*' });
       expect(perPatient).toHaveLength(patients.length);
       expect(perPatient.every((r) => Number(r.n) === 1)).toBe(true);
       expect(keys).toHaveLength(patients.length);

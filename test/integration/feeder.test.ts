@@ -22,10 +22,17 @@ const port = Number(new URL(process.env.APP_URL!).port) + 3;
 /** A patient in the bed with one device reading 30 s ago, so the feeder picks the bed up (it plays only into monitored beds). */
 async function monitoredPatient(bedId: number): Promise<number> {
   const { patientId: id } = await createAdmittedPatient(db, { bedId, since: Date.now() - 3_600_000 });
-  const { key } = (await (await session.post('/api/admin/device-keys', { bedId, label: 'fixture gateway' })).json()) as { key: string };
+  const { key } = (await (
+    await session.post('/api/admin/device-keys', { bedId, label: 'fixture gateway' })
+  ).json()) as { key: string };
   const res = await fetch(`${process.env.APP_URL}/api/ingest`, {
-    method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
-    body: JSON.stringify({ readings: [{ at: new Date(Date.now() - 30_000).toISOString(), spo2: 95, heartRate: 80, perfusionIndex: 2, trace: 'clean' }] }),
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+    body: JSON.stringify({
+      readings: [
+        { at: new Date(Date.now() - 30_000).toISOString(), spo2: 95, heartRate: 80, perfusionIndex: 2, trace: 'clean' },
+      ],
+    }),
   });
   expect(res.status).toBe(200);
   return id;
@@ -38,10 +45,15 @@ beforeAll(async () => {
   unit = await createUnit(db, 1);
   patientId = await monitoredPatient(unit.bedIds[0]!);
 });
-afterAll(async () => { await db.destroy(); });
+afterAll(async () => {
+  await db.destroy();
+});
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const deviceTimes = async (id = patientId) => (await db('observations').where({ patient_id: id, source: 'device' }).pluck('taken_at')).map((t: Date) => new Date(t).getTime());
+const deviceTimes = async (id = patientId) =>
+  (await db('observations').where({ patient_id: id, source: 'device' }).pluck('taken_at')).map((t: Date) =>
+    new Date(t).getTime(),
+  );
 
 describe('demo feeder', () => {
   it('plays for over a minute, reports the app going away, and fills the gap when it is back', async () => {
@@ -51,8 +63,12 @@ describe('demo feeder', () => {
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     let output = '';
-    feeder.stdout!.on('data', (d) => { output += String(d); });
-    feeder.stderr!.on('data', (d) => { output += String(d); });
+    feeder.stdout!.on('data', (d) => {
+      output += String(d);
+    });
+    feeder.stderr!.on('data', (d) => {
+      output += String(d);
+    });
     const started = Date.now();
     try {
       await sleep(20_000); // the first cycle and one more
@@ -82,10 +98,17 @@ describe('demo feeder', () => {
 
 /** Starts a process with its output gathered, and waits for lines in it. */
 function run(args: string[], env: Record<string, string>) {
-  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', ...args], { env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', ...args], {
+    env: { ...process.env, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   const proc = { child, output: '' };
-  child.stdout!.on('data', (d) => { proc.output += String(d); });
-  child.stderr!.on('data', (d) => { proc.output += String(d); });
+  child.stdout!.on('data', (d) => {
+    proc.output += String(d);
+  });
+  child.stderr!.on('data', (d) => {
+    proc.output += String(d);
+  });
   return proc;
 }
 async function waitFor(proc: { output: string }, pattern: RegExp, ms: number): Promise<RegExpMatchArray> {
@@ -114,7 +137,11 @@ describe('demo feeder over MLLP (EBB_FEEDER_VIA=mllp)', () => {
   const STOPPED = /stopped: (\d+) readings stored in (\d+) cycle\(s\); ACKs AA (\d+), AE (\d+), AR (\d+)/;
 
   it('refuses an unknown EBB_FEEDER_VIA with a clear error and exit code 1', async () => {
-    const feeder = run(['docker-free-scripts/feeder.ts'], { EBB_FEEDER_VIA: 'pigeon', APP_URL: deadAppUrl, EBB_FEEDER_UNITS: 'NO-SUCH-UNIT' });
+    const feeder = run(['docker-free-scripts/feeder.ts'], {
+      EBB_FEEDER_VIA: 'pigeon',
+      APP_URL: deadAppUrl,
+      EBB_FEEDER_UNITS: 'NO-SUCH-UNIT',
+    });
     const code = await new Promise((r) => feeder.child.once('exit', (c) => r(c)));
     expect(code).toBe(1);
     expect(feeder.output).toMatch(/EBB_FEEDER_VIA must be "http" .* or "mllp" .*not "pigeon"/);
@@ -125,8 +152,17 @@ describe('demo feeder over MLLP (EBB_FEEDER_VIA=mllp)', () => {
     const patients = [await monitoredPatient(mllpUnit.bedIds[0]!), await monitoredPatient(mllpUnit.bedIds[1]!)];
     const fixtureAt = Math.max(...(await Promise.all(patients.map((p) => deviceTimes(p)))).flat());
     // Device rows besides the one fixture reading of each patient.
-    const newRows = async () => Number((await db('observations').whereIn('patient_id', patients).where('source', 'device').count({ n: '*' }))[0]!.n) - patients.length;
-    const feederEnv = { EBB_FEEDER_VIA: 'mllp', APP_URL: deadAppUrl, EBB_FEEDER_UNITS: mllpUnit.code, EBB_FEEDER_CYCLE_MS: '2000', EBB_MLLP_HOST: '127.0.0.1' };
+    const newRows = async () =>
+      Number(
+        (await db('observations').whereIn('patient_id', patients).where('source', 'device').count({ n: '*' }))[0]!.n,
+      ) - patients.length;
+    const feederEnv = {
+      EBB_FEEDER_VIA: 'mllp',
+      APP_URL: deadAppUrl,
+      EBB_FEEDER_UNITS: mllpUnit.code,
+      EBB_FEEDER_CYCLE_MS: '2000',
+      EBB_MLLP_HOST: '127.0.0.1',
+    };
 
     let listener = run(['docker-free-scripts/mllp.ts'], { EBB_MLLP_PORT: String(ownListenerPort) });
     await waitFor(listener, /HL7 v2 listener on/, 30_000);
@@ -163,10 +199,18 @@ describe('demo feeder over MLLP (EBB_FEEDER_VIA=mllp)', () => {
     expect(gateways).toHaveLength(1);
     const gateway = gateways[0]!;
     expect(gateway.last_message_at).not.toBeNull();
-    const mappings = await db('hl7_gateway_beds').where({ gateway_id: gateway.id }).whereIn('bed_id', mllpUnit.bedIds).orderBy('bed_id');
+    const mappings = await db('hl7_gateway_beds')
+      .where({ gateway_id: gateway.id })
+      .whereIn('bed_id', mllpUnit.bedIds)
+      .orderBy('bed_id');
     expect(mappings.map((m) => m.bed_name)).toEqual([`${mllpUnit.code}^^F-1`, `${mllpUnit.code}^^F-2`]);
     expect(await db('device_keys').whereIn('bed_id', mllpUnit.bedIds).where({ label: 'demo feeder' })).toHaveLength(0);
-    const audited = async () => db('audit_log').where({ entity: 'hl7_gateway', entity_id: String(gateway.id) }).whereIn('action', ['hl7_gateway.create', 'hl7_gateway.map_bed']).orderBy('id').select('action', 'actor_id', 'after');
+    const audited = async () =>
+      db('audit_log')
+        .where({ entity: 'hl7_gateway', entity_id: String(gateway.id) })
+        .whereIn('action', ['hl7_gateway.create', 'hl7_gateway.map_bed'])
+        .orderBy('id')
+        .select('action', 'actor_id', 'after');
     const auditBefore = await audited();
     expect(auditBefore.filter((a) => a.action === 'hl7_gateway.create')).toHaveLength(1);
     expect(auditBefore.every((a) => a.actor_id === null)).toBe(true); // the system, not a person
@@ -182,7 +226,9 @@ describe('demo feeder over MLLP (EBB_FEEDER_VIA=mllp)', () => {
     expect(secondCode).toBe(0);
     expect(second.output).not.toMatch(/registered HL7 gateway/);
     expect(await db('hl7_gateways').where(SENDER)).toHaveLength(1);
-    expect(await db('hl7_gateway_beds').where({ gateway_id: gateway.id }).whereIn('bed_id', mllpUnit.bedIds)).toHaveLength(2);
+    expect(
+      await db('hl7_gateway_beds').where({ gateway_id: gateway.id }).whereIn('bed_id', mllpUnit.bedIds),
+    ).toHaveLength(2);
     expect(await audited()).toEqual(auditBefore);
     const storedSecond = Number(second.output.match(STOPPED)?.[1]);
     expect(await newRows()).toBe(storedFirst + storedSecond);

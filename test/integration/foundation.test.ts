@@ -6,8 +6,12 @@ import { createUnit, createUser, testDb } from '../support/db.ts';
 import { demoPatients, demoUnits, demoUsers } from '../../src/lib/demo/scenario.ts';
 
 let db: Knex;
-beforeAll(() => { db = testDb(); });
-afterAll(async () => { await db.destroy(); });
+beforeAll(() => {
+  db = testDb();
+});
+afterAll(async () => {
+  await db.destroy();
+});
 
 describe('GET /api/health', () => {
   it('answers 200 {db:"ok"} when MariaDB answers', async () => {
@@ -36,29 +40,54 @@ describe('GET /api/health when the database is down', () => {
 describe('demo seed', () => {
   it('holds the invented hospital: two units with 12 and 8 beds, one account per role', async () => {
     // Other test files add fixture units of their own; the demo is the Harbourside units.
-    const units = await db('units').where({ hospital: 'Harbourside General' }).orderBy('code').select('code', 'name', 'hospital');
+    const units = await db('units')
+      .where({ hospital: 'Harbourside General' })
+      .orderBy('code')
+      .select('code', 'name', 'hospital');
     expect(units.map((u) => u.name)).toEqual(['Level 4 ICU', 'Level 5 HDU']);
     expect(new Set(units.map((u) => u.hospital))).toEqual(new Set(['Harbourside General']));
-    const beds: { code: string; n: number }[] = await db('beds as b').join('units as u', 'u.id', 'b.unit_id').where('u.hospital', 'Harbourside General').groupBy('u.code').select('u.code').count({ n: '*' });
+    const beds: { code: string; n: number }[] = await db('beds as b')
+      .join('units as u', 'u.id', 'b.unit_id')
+      .where('u.hospital', 'Harbourside General')
+      .groupBy('u.code')
+      .select('u.code')
+      .count({ n: '*' });
     expect(Object.fromEntries(beds.map((r) => [r.code, Number(r.n)]))).toEqual({ L4ICU: 12, L5HDU: 8 });
     for (const role of ['nurse', 'charge', 'intensivist', 'outreach', 'admin']) {
-      expect(await db('users').where({ email: `${role}@harbourside.example`, role }).first()).toBeTruthy();
+      expect(
+        await db('users')
+          .where({ email: `${role}@harbourside.example`, role })
+          .first(),
+      ).toBeTruthy();
     }
     expect(demoUnits.length).toBe(2);
-    expect(await db('patients').where('mrn', 'like', 'HG%').count({ n: '*' }).first()).toEqual({ n: demoPatients.length });
+    expect(await db('patients').where('mrn', 'like', 'HG%').count({ n: '*' }).first()).toEqual({
+      n: demoPatients.length,
+    });
   });
 
   it('holds about 48 h of obs, charted and device', async () => {
-    const span = await db('observations as o').join('patients as p', 'p.id', 'o.patient_id').where('p.mrn', 'like', 'HG%').select(db.raw('TIMESTAMPDIFF(HOUR, MIN(o.taken_at), MAX(o.taken_at)) as hours')).first();
+    const span = await db('observations as o')
+      .join('patients as p', 'p.id', 'o.patient_id')
+      .where('p.mrn', 'like', 'HG%')
+      .select(db.raw('TIMESTAMPDIFF(HOUR, MIN(o.taken_at), MAX(o.taken_at)) as hours'))
+      .first();
     expect(Number(span.hours)).toBeGreaterThanOrEqual(47);
-    const sources = await db('observations as o').join('patients as p', 'p.id', 'o.patient_id').where('p.mrn', 'like', 'HG%').whereIn('o.source', ['charted', 'device']).distinct('o.source').pluck('o.source');
+    const sources = await db('observations as o')
+      .join('patients as p', 'p.id', 'o.patient_id')
+      .where('p.mrn', 'like', 'HG%')
+      .whereIn('o.source', ['charted', 'device'])
+      .distinct('o.source')
+      .pluck('o.source');
     expect(sources.sort()).toEqual(['charted', 'device']);
   });
 });
 
 describe('sign-in', () => {
-  it('puts each demo user\'s role and unit in the session (GET /api/me)', async () => {
-    for (const user of demoUsers.filter((u) => u.email.split('@')[0].match(/^(nurse|charge|intensivist|outreach|admin)$/))) {
+  it("puts each demo user's role and unit in the session (GET /api/me)", async () => {
+    for (const user of demoUsers.filter((u) =>
+      u.email.split('@')[0].match(/^(nurse|charge|intensivist|outreach|admin)$/),
+    )) {
       const session = await signedIn(user.email);
       const me = await (await session.get('/api/me')).json();
       expect(me).toMatchObject({ email: user.email, name: user.name, role: user.role });
@@ -156,7 +185,11 @@ describe('roles on the server', () => {
 
   it('refuses a state-changing API call from another origin', async () => {
     const admin = await signedIn('admin@harbourside.example');
-    const res = await admin.request('/api/admin/users/1/unlock', { method: 'POST', headers: { origin: 'http://evil.example' }, json: {} });
+    const res = await admin.request('/api/admin/users/1/unlock', {
+      method: 'POST',
+      headers: { origin: 'http://evil.example' },
+      json: {},
+    });
     expect(res.status).toBe(403);
   });
 

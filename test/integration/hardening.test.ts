@@ -11,13 +11,22 @@ import { ADDRESS_FAILURES, ACCOUNT_FAILURES } from '../../src/lib/auth/throttle.
 import { revokeSessionsOf } from '../../src/lib/server/queries/sessions.ts';
 import { closeDb } from '../../src/lib/server/queries/db.ts';
 
-const { db, unit, s } = useWard({ beds: 10, people: { charge: ['charge', 'unit'], charge2: ['charge', 'unit'], nurse: ['nurse', 'unit'] } });
-afterAll(async () => { await closeDb(); });
+const { db, unit, s } = useWard({
+  beds: 10,
+  people: { charge: ['charge', 'unit'], charge2: ['charge', 'unit'], nurse: ['nurse', 'unit'] },
+});
+afterAll(async () => {
+  await closeDb();
+});
 
 /** A caller at its own address (the test app trusts X-Forwarded-For, as behind a load balancer). */
 function from(address: string, session = new HttpSession()) {
   const original = session.request.bind(session);
-  session.request = (path, init = {}) => original(path, { ...init, headers: { ...Object.fromEntries(new Headers(init.headers)), 'x-forwarded-for': address } });
+  session.request = (path, init = {}) =>
+    original(path, {
+      ...init,
+      headers: { ...Object.fromEntries(new Headers(init.headers)), 'x-forwarded-for': address },
+    });
   return session;
 }
 let addressCounter = 0;
@@ -39,7 +48,11 @@ describe('1. redirects stay on this site', () => {
 
   it('the theme toggle does the same', async () => {
     for (const back of ['/\\evil.example', '/\t/evil.example', '//evil.example']) {
-      const res = await new HttpSession().request('/api/theme', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ back }).toString() });
+      const res = await new HttpSession().request('/api/theme', {
+        method: 'POST',
+        headers: { 'content-type': 'application/x-www-form-urlencoded' },
+        body: new URLSearchParams({ back }).toString(),
+      });
       expect(res.status, back).toBe(303);
       expect(res.headers.get('location'), back).toBe('/');
     }
@@ -103,8 +116,17 @@ describe('2. security headers on every response', () => {
 describe('3. races end in 409, not 500', () => {
   it('two admissions of one new MRN at once: one 201, one 409 already_admitted', async () => {
     const mrn = unique('RACE').toUpperCase().slice(0, 20);
-    const body = (bed: number) => ({ givenName: 'Rhea', familyName: 'Race', mrn, dateOfBirth: '1970-03-03', bedId: unit.bedIds[bed] });
-    const [a, b] = await Promise.all([s.charge.post('/api/patients', body(0)), s.charge2.post('/api/patients', body(1))]);
+    const body = (bed: number) => ({
+      givenName: 'Rhea',
+      familyName: 'Race',
+      mrn,
+      dateOfBirth: '1970-03-03',
+      bedId: unit.bedIds[bed],
+    });
+    const [a, b] = await Promise.all([
+      s.charge.post('/api/patients', body(0)),
+      s.charge2.post('/api/patients', body(1)),
+    ]);
     expect([a.status, b.status].sort()).toEqual([201, 409]);
     const loser = a.status === 409 ? a : b;
     expect((await loser.json()).error.code).toBe('already_admitted');
@@ -114,7 +136,13 @@ describe('3. races end in 409, not 500', () => {
   it('two moves into one free bed at once: one 200, one 409 bed_occupied', async () => {
     const admitted = [];
     for (const bed of [2, 3]) {
-      const res = await s.charge.post('/api/patients', { givenName: 'Mo', familyName: unique('Ve'), mrn: unique('MV').toUpperCase().slice(0, 20), dateOfBirth: '1980-01-01', bedId: unit.bedIds[bed] });
+      const res = await s.charge.post('/api/patients', {
+        givenName: 'Mo',
+        familyName: unique('Ve'),
+        mrn: unique('MV').toUpperCase().slice(0, 20),
+        dateOfBirth: '1980-01-01',
+        bedId: unit.bedIds[bed],
+      });
       expect(res.status).toBe(201);
       admitted.push((await res.json()).patient.id);
     }
@@ -126,14 +154,20 @@ describe('3. races end in 409, not 500', () => {
     expect([a.status, b.status].sort()).toEqual([200, 409]);
     const loser = a.status === 409 ? a : b;
     expect((await loser.json()).error.code).toBe('bed_occupied');
-    expect(await db('bed_stays').where({ bed_id: target }).whereNull('ended_at').count({ n: '*' }).first()).toEqual({ n: 1 });
+    expect(await db('bed_stays').where({ bed_id: target }).whereNull('ended_at').count({ n: '*' }).first()).toEqual({
+      n: 1,
+    });
   });
 
   it('a pleth strip sampled at 100 kHz is refused alike by analyse and attach (400, nothing stored)', async () => {
     const rows = ['time,red,infrared,dark'];
     for (let i = 0; i < 400; i++) rows.push(`${(i / 100_000).toFixed(5)},${1000 + (i % 7)},${1200 + (i % 5)},10`);
     const csv = rows.join('\n');
-    const analyse = await s.nurse.request('/api/pleth/analyse', { method: 'POST', headers: { 'content-type': 'text/csv' }, body: csv });
+    const analyse = await s.nurse.request('/api/pleth/analyse', {
+      method: 'POST',
+      headers: { 'content-type': 'text/csv' },
+      body: csv,
+    });
     expect(analyse.status).toBe(400);
     const { patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[5], since: Date.now() - 3_600_000 });
     const before = await countRows(db, 'pleth_checks');
@@ -149,11 +183,21 @@ describe('4. refused instead of stored', () => {
   beforeAll(async () => {
     ({ patientId } = await createAdmittedPatient(db, { bedId: unit.bedIds[6], since: Date.now() - 60 * 60_000 }));
   });
-  const obs = (extra: Record<string, unknown> = {}) => ({ takenAt: new Date(Date.now() - 60_000).toISOString(), spo2: 95, heartRate: 80, device: 'room_air', trace: 'clean', ...extra });
+  const obs = (extra: Record<string, unknown> = {}) => ({
+    takenAt: new Date(Date.now() - 60_000).toISOString(),
+    spo2: 95,
+    heartRate: 80,
+    device: 'room_air',
+    trace: 'clean',
+    ...extra,
+  });
 
   it('an obs timed before the patient came to this bed', async () => {
     const before = await countRows(db, 'observations');
-    const res = await s.nurse.post(`/api/patients/${patientId}/observations`, obs({ takenAt: new Date(Date.now() - 3 * 3_600_000).toISOString() }));
+    const res = await s.nurse.post(
+      `/api/patients/${patientId}/observations`,
+      obs({ takenAt: new Date(Date.now() - 3 * 3_600_000).toISOString() }),
+    );
     expect(res.status).toBe(400);
     expect((await res.json()).error.fields.takenAt).toMatch(/before the patient came to this bed/);
     expect(await countRows(db, 'observations')).toBe(before);
@@ -169,7 +213,9 @@ describe('4. refused instead of stored', () => {
       [{ fio2: 1.01, device: 'simple_mask' }, 'fio2', /cannot be over 100 % \(1\.0\)/],
       [{ takenAt: '2026-11-31T12:00:00Z' }, 'takenAt', /real calendar day/],
     ];
-    await expectEachRefused(db, 'observations', cases, (patch) => s.nurse.post(`/api/patients/${patientId}/observations`, obs(patch)));
+    await expectEachRefused(db, 'observations', cases, (patch) =>
+      s.nurse.post(`/api/patients/${patientId}/observations`, obs(patch)),
+    );
   });
 
   it('/api/patients/0x10 is not patient 16', async () => {
@@ -187,7 +233,8 @@ describe('4. refused instead of stored', () => {
     const { key: deviceKey } = await made.json();
     const before = await countRows(db, 'observations');
     const res = await fetch(`${APP_URL}/api/ingest`, {
-      method: 'POST', headers: { authorization: `Bearer ${deviceKey}`, 'content-type': 'application/json' },
+      method: 'POST',
+      headers: { authorization: `Bearer ${deviceKey}`, 'content-type': 'application/json' },
       body: JSON.stringify({ readings: [{ at: '2026-11-31T12:00:00Z', spo2: 95 }] }),
     });
     expect(res.status).toBe(400);
@@ -198,17 +245,31 @@ describe('4. refused instead of stored', () => {
   it('9. re-admission compares names in Unicode NFC (a decomposed é is the same name)', async () => {
     const mrn = unique('NFC').toUpperCase().slice(0, 20);
     const composed = 'Zoé';
-    const first = await s.charge.post('/api/patients', { givenName: composed, familyName: 'Ng', mrn, dateOfBirth: '1990-01-01', bedId: await freeBed() });
+    const first = await s.charge.post('/api/patients', {
+      givenName: composed,
+      familyName: 'Ng',
+      mrn,
+      dateOfBirth: '1990-01-01',
+      bedId: await freeBed(),
+    });
     expect(first.status, await first.clone().text()).toBe(201);
     const pid = (await first.json()).patient.id;
     expect((await s.charge.post(`/api/patients/${pid}/discharge`, {})).status).toBe(200);
-    const again = await s.charge.post('/api/patients', { givenName: 'Zoe\u0301', familyName: 'Ng', mrn, dateOfBirth: '1990-01-01', bedId: await freeBed() });
+    const again = await s.charge.post('/api/patients', {
+      givenName: 'Zoe\u0301',
+      familyName: 'Ng',
+      mrn,
+      dateOfBirth: '1990-01-01',
+      bedId: await freeBed(),
+    });
     expect(again.status, await again.clone().text()).toBe(201);
     expect((await db('patients').where({ mrn }).first()).given_name).toBe(composed.normalize('NFC'));
   });
 
   async function freeBed(): Promise<number> {
-    const occupied = new Set(await db('bed_stays').whereIn('bed_id', unit.bedIds).whereNull('ended_at').pluck('bed_id'));
+    const occupied = new Set(
+      await db('bed_stays').whereIn('bed_id', unit.bedIds).whereNull('ended_at').pluck('bed_id'),
+    );
     const free = unit.bedIds.find((b) => !occupied.has(b));
     if (free === undefined) throw new Error('no free fixture bed');
     return free;
@@ -226,7 +287,8 @@ describe('5. sign-in throttling per address and per account, counted in MariaDB'
     const session = from(address);
     const { csrfToken } = await (await session.get('/api/auth/csrf')).json();
     const res = await session.request('/api/auth/callback/credentials', {
-      method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-auth-return-redirect': '1' },
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-auth-return-redirect': '1' },
       body: new URLSearchParams({ csrfToken, email: user.email, password: user.password, callbackUrl: '/' }).toString(),
     });
     expect(res.status).toBe(429);
@@ -251,7 +313,8 @@ describe('5. sign-in throttling per address and per account, counted in MariaDB'
     const session = from(freshAddress());
     const { csrfToken } = await (await session.get('/api/auth/csrf')).json();
     const res = await session.request('/api/auth/callback/credentials', {
-      method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-auth-return-redirect': '1' },
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-auth-return-redirect': '1' },
       body: new URLSearchParams({ csrfToken, email: user.email, password: user.password, callbackUrl: '/' }).toString(),
     });
     expect(res.status).toBe(429); // …the account waits out its window
@@ -276,9 +339,16 @@ describe('6. sessions end: a server-side record behind the cookie', () => {
     const rows = await db('sessions').where({ user_id: user.id });
     expect(rows).toHaveLength(1);
     expect(rows[0].revoked_reason).toBe('signout');
-    const audit = await db('audit_log').where({ entity: 'user', entity_id: String(user.id) }).orderBy('id').pluck('action');
+    const audit = await db('audit_log')
+      .where({ entity: 'user', entity_id: String(user.id) })
+      .orderBy('id')
+      .pluck('action');
     expect(audit).toEqual(['signin.ok', 'signout']);
-    const afters = (await db('audit_log').where({ entity: 'user', entity_id: String(user.id) }).pluck('after')).map((a) => (typeof a === 'string' ? JSON.parse(a) : a));
+    const afters = (
+      await db('audit_log')
+        .where({ entity: 'user', entity_id: String(user.id) })
+        .pluck('after')
+    ).map((a) => (typeof a === 'string' ? JSON.parse(a) : a));
     expect(afters.every((a) => a.address === address)).toBe(true);
   });
 
@@ -286,12 +356,14 @@ describe('6. sessions end: a server-side record behind the cookie', () => {
     const address = freshAddress();
     const user = await createUser(db, { role: 'nurse', unitId: unit.unitId });
     await from(address).signIn(user.email, 'wrong');
-    const row = await db('audit_log').where({ entity: 'user', entity_id: String(user.id), action: 'signin.failed' }).first();
+    const row = await db('audit_log')
+      .where({ entity: 'user', entity_id: String(user.id), action: 'signin.failed' })
+      .first();
     const after = typeof row.after === 'string' ? JSON.parse(row.after) : row.after;
     expect(after).toMatchObject({ address, reason: 'wrong_password' });
   });
 
-  it('revoking a user\'s sessions (deactivation, password change) ends every one of them at once', async () => {
+  it("revoking a user's sessions (deactivation, password change) ends every one of them at once", async () => {
     const user = await createUser(db, { role: 'nurse', unitId: unit.unitId });
     const a = await signedIn(user.email, user.password);
     const b = await signedIn(user.email, user.password);
@@ -307,10 +379,18 @@ describe('6. sessions end: a server-side record behind the cookie', () => {
 describe('7. cookie-authenticated writes need our Origin', () => {
   it('refuses a JSON write with no Origin, or with Sec-Fetch-Site: cross-site', async () => {
     const before = await countRows(db, 'bed_assignments');
-    const noOrigin = await fetch(`${APP_URL}/api/beds/${unit.bedIds[0]}/assignment`, { method: 'PUT', headers: { cookie: s.charge.cookieHeader(), 'content-type': 'application/json' }, body: JSON.stringify({ nurseId: null }) });
+    const noOrigin = await fetch(`${APP_URL}/api/beds/${unit.bedIds[0]}/assignment`, {
+      method: 'PUT',
+      headers: { cookie: s.charge.cookieHeader(), 'content-type': 'application/json' },
+      body: JSON.stringify({ nurseId: null }),
+    });
     expect(noOrigin.status).toBe(403);
     expect((await noOrigin.json()).error.code).toBe('cross_origin');
-    const crossSite = await fetch(`${APP_URL}/api/beds/${unit.bedIds[0]}/assignment`, { method: 'PUT', headers: { cookie: s.charge.cookieHeader(), 'content-type': 'application/json', 'sec-fetch-site': 'cross-site' }, body: JSON.stringify({ nurseId: null }) });
+    const crossSite = await fetch(`${APP_URL}/api/beds/${unit.bedIds[0]}/assignment`, {
+      method: 'PUT',
+      headers: { cookie: s.charge.cookieHeader(), 'content-type': 'application/json', 'sec-fetch-site': 'cross-site' },
+      body: JSON.stringify({ nurseId: null }),
+    });
     expect(crossSite.status).toBe(403);
     expect(await countRows(db, 'bed_assignments')).toBe(before);
   });
@@ -318,8 +398,12 @@ describe('7. cookie-authenticated writes need our Origin', () => {
 
 describe('8. body caps: 413 before parsing', () => {
   it('a signed-out 1 MB form post to /api/theme and a large JSON body are refused with 413', async () => {
-    const big = 'back=' + 'a'.repeat(1024 * 1024);
-    const form = await new HttpSession().request('/api/theme', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: big });
+    const big = `back=${'a'.repeat(1024 * 1024)}`;
+    const form = await new HttpSession().request('/api/theme', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: big,
+    });
     expect(form.status).toBe(413);
     expect((await form.json()).error.code).toBe('body_too_large');
     const jsonRes = await s.charge.post('/api/patients', { givenName: 'x'.repeat(200 * 1024) });
@@ -327,8 +411,18 @@ describe('8. body caps: 413 before parsing', () => {
   });
 
   it('a body sent without a length (chunked) to a small-body route is refused with 411', async () => {
-    const stream = new ReadableStream({ start(c) { c.enqueue(new TextEncoder().encode('back=%2F')); c.close(); } });
-    const res = await fetch(`${APP_URL}/api/theme`, { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded', origin: new URL(APP_URL).origin }, body: stream, duplex: 'half' } as RequestInit);
+    const stream = new ReadableStream({
+      start(c) {
+        c.enqueue(new TextEncoder().encode('back=%2F'));
+        c.close();
+      },
+    });
+    const res = await fetch(`${APP_URL}/api/theme`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded', origin: new URL(APP_URL).origin },
+      body: stream,
+      duplex: 'half',
+    } as RequestInit);
     expect(res.status).toBe(411);
   });
 });

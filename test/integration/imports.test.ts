@@ -4,25 +4,50 @@ import { countRows, createAdmittedPatient, unique } from '../support/db.ts';
 import { useWard } from '../support/ward.ts';
 
 const { db, unit, s, ids } = useWard({
-  beds: 6, otherBeds: 1,
-  people: { nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], otherNurse: ['nurse', 'other'], intensivist: ['intensivist', null] },
+  beds: 6,
+  otherBeds: 1,
+  people: {
+    nurse: ['nurse', 'unit'],
+    charge: ['charge', 'unit'],
+    otherNurse: ['nurse', 'other'],
+    intensivist: ['intensivist', null],
+  },
 });
 
 async function patientInBed(bedIndex: number, from: Date) {
   return (await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: from })).patientId;
 }
 
-const MAPPING = { time: 'Recorded', spo2: 'Sat %', heartRate: 'Pulse', perfusionIndex: 'PI', quality: 'Signal', timeMode: 'iso' };
+const MAPPING = {
+  time: 'Recorded',
+  spo2: 'Sat %',
+  heartRate: 'Pulse',
+  perfusionIndex: 'PI',
+  quality: 'Signal',
+  timeMode: 'iso',
+};
 
-function upload(session: HttpSession, patientId: number, step: 'preview' | 'commit', csv: string | Buffer, mapping: Record<string, string> = MAPPING, extra: Record<string, string> = {}) {
+function upload(
+  session: HttpSession,
+  patientId: number,
+  step: 'preview' | 'commit',
+  csv: string | Buffer,
+  mapping: Record<string, string> = MAPPING,
+  extra: Record<string, string> = {},
+) {
   const q = new URLSearchParams({ ...mapping, fileName: 'bed-monitor-export.csv', ...extra });
-  return session.request(`/api/patients/${patientId}/imports/${step}?${q}`, { method: 'POST', headers: { 'content-type': 'text/csv' }, body: typeof csv === 'string' ? csv : new Uint8Array(csv) });
+  return session.request(`/api/patients/${patientId}/imports/${step}?${q}`, {
+    method: 'POST',
+    headers: { 'content-type': 'text/csv' },
+    body: typeof csv === 'string' ? csv : new Uint8Array(csv),
+  });
 }
 
 /** A trend file with its columns in an unusual order and names, one row a minute from `start` (ms). */
 function trendCsv(start: number, n: number, opts: { spo2?: (i: number) => number | string; salt?: string } = {}) {
   const lines = ['Signal,Pulse,Bed,Recorded,PI,Sat %'];
-  for (let i = 0; i < n; i++) lines.push(`clean,${70 + (i % 10)},X,${new Date(start + i * 60_000).toISOString()},1.8,${opts.spo2?.(i) ?? 94}`);
+  for (let i = 0; i < n; i++)
+    lines.push(`clean,${70 + (i % 10)},X,${new Date(start + i * 60_000).toISOString()},1.8,${opts.spo2?.(i) ?? 94}`);
   if (opts.salt) lines.push(`# ${opts.salt}`.replace(/^# /, ''));
   return `${lines.join('\n')}\n`;
 }
@@ -39,7 +64,10 @@ describe('trend file upload: who may', () => {
     expect((await upload(s.intensivist, p, 'commit', csv)).status).toBe(403);
     expect((await upload(s.otherNurse, p, 'commit', csv)).status).toBe(403);
     expect((await upload(s.charge, p, 'preview', csv)).status).toBe(200);
-    const wrongType = await s.nurse.request(`/api/patients/${p}/imports/preview?${new URLSearchParams({ ...MAPPING, fileName: 'a.csv' })}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
+    const wrongType = await s.nurse.request(
+      `/api/patients/${p}/imports/preview?${new URLSearchParams({ ...MAPPING, fileName: 'a.csv' })}`,
+      { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' },
+    );
     expect(wrongType.status).toBe(415);
     expect(await countRows(db, 'observations')).toBe(before);
     expect(await countRows(db, 'observation_imports')).toBe(importsBefore);
@@ -50,7 +78,9 @@ describe('trend file upload: preview and commit', () => {
   let patientId: number;
   // Whole seconds, so "the same second as a stored reading" below does not depend on the clock's milliseconds.
   const admittedAt = Math.floor(Date.now() / 1000) * 1000 - 10 * 3_600_000;
-  beforeAll(async () => { patientId = await patientInBed(1, new Date(admittedAt)); });
+  beforeAll(async () => {
+    patientId = await patientInBed(1, new Date(admittedAt));
+  });
 
   it('previews with the chosen mapping without storing anything, then commits exactly what it previewed as one import', async () => {
     const start = Date.now() - 4 * 3_600_000;
@@ -60,9 +90,22 @@ describe('trend file upload: preview and commit', () => {
     const res = await upload(s.nurse, patientId, 'preview', csv);
     expect(res.status, await res.clone().text()).toBe(200);
     const { preview } = await res.json();
-    expect(preview).toMatchObject({ rowCount: 120, readable: 119, toStore: 119, fileName: 'bed-monitor-export.csv', timeZone: 'Europe/London' });
-    expect(preview.span).toEqual({ first: new Date(start).toISOString(), last: new Date(start + 119 * 60_000).toISOString() });
-    expect(preview.refused).toMatchObject({ count: 1, rows: [{ line: 9, reason: 'SpO₂ "n/a" is not a number' }], groups: [{ reason: 'SpO₂ is not a number', field: 'spo2', count: 1, firstLines: [9] }] });
+    expect(preview).toMatchObject({
+      rowCount: 120,
+      readable: 119,
+      toStore: 119,
+      fileName: 'bed-monitor-export.csv',
+      timeZone: 'Europe/London',
+    });
+    expect(preview.span).toEqual({
+      first: new Date(start).toISOString(),
+      last: new Date(start + 119 * 60_000).toISOString(),
+    });
+    expect(preview.refused).toMatchObject({
+      count: 1,
+      rows: [{ line: 9, reason: 'SpO₂ "n/a" is not a number' }],
+      groups: [{ reason: 'SpO₂ is not a number', field: 'spo2', count: 1, firstLines: [9] }],
+    });
     expect(preview.headers).toEqual(['Signal', 'Pulse', 'Bed', 'Recorded', 'PI', 'Sat %']);
     expect(await countRows(db, 'observations')).toBe(obsBefore);
     expect(await countRows(db, 'observation_imports')).toBe(impBefore);
@@ -70,13 +113,31 @@ describe('trend file upload: preview and commit', () => {
     const commit = await upload(s.nurse, patientId, 'commit', csv, MAPPING, { expectHash: preview.fileHash });
     expect(commit.status, await commit.clone().text()).toBe(201);
     const body = await commit.json();
-    expect(body.import).toMatchObject({ rowsInFile: 120, rowsStored: 119, rowsRefused: 1, rowsSkipped: 0, fileName: 'bed-monitor-export.csv', committedBy: 'Fixture nurse', withdrawnAt: null });
+    expect(body.import).toMatchObject({
+      rowsInFile: 120,
+      rowsStored: 119,
+      rowsRefused: 1,
+      rowsSkipped: 0,
+      fileName: 'bed-monitor-export.csv',
+      committedBy: 'Fixture nurse',
+      withdrawnAt: null,
+    });
     const rows = await importRows(patientId).orderBy('taken_at');
     expect(rows).toHaveLength(119);
-    expect(rows[0]).toMatchObject({ spo2: 90, heart_rate: 70, trace: 'clean', import_id: body.import.id, recorded_by: ids.nurse, status: 'current', bed_id: unit.bedIds[1] });
+    expect(rows[0]).toMatchObject({
+      spo2: 90,
+      heart_rate: 70,
+      trace: 'clean',
+      import_id: body.import.id,
+      recorded_by: ids.nurse,
+      status: 'current',
+      bed_id: unit.bedIds[1],
+    });
     expect(Number(rows[0].perfusion_index)).toBe(1.8);
     expect(new Date(rows[0].taken_at).toISOString()).toBe(new Date(start).toISOString());
-    const audit = await db('audit_log').where({ entity: 'observation_import', entity_id: String(body.import.id) }).pluck('action');
+    const audit = await db('audit_log')
+      .where({ entity: 'observation_import', entity_id: String(body.import.id) })
+      .pluck('action');
     expect(audit).toEqual(['import.commit']);
 
     // The mapping is remembered for the unit.
@@ -109,19 +170,32 @@ describe('trend file upload: preview and commit', () => {
     const missing = await upload(s.nurse, patientId, 'preview', csv, { ...MAPPING, quality: 'Trace' });
     expect(missing.status).toBe(400);
     expect((await missing.json()).error.fields.quality).toMatch(/"Trace" is not in the file/);
-    const noMode = await upload(s.nurse, patientId, 'preview', csv, { time: 'Recorded', spo2: 'Sat %', heartRate: 'Pulse' });
+    const noMode = await upload(s.nurse, patientId, 'preview', csv, {
+      time: 'Recorded',
+      spo2: 'Sat %',
+      heartRate: 'Pulse',
+    });
     expect(Object.keys((await noMode.json()).error.fields)).toEqual(['timeMode']);
   });
 
   it('skips rows outside the admission and rows at the second of a stored reading, and says which', async () => {
     // Starts 30 min before admission; one stored device reading sits at the 40th minute.
     const start = admittedAt - 30 * 60_000;
-    await db('observations').insert({ patient_id: patientId, taken_at: new Date(start + 40 * 60_000 + 300), source: 'device', spo2: 97, trace: 'clean' });
+    await db('observations').insert({
+      patient_id: patientId,
+      taken_at: new Date(start + 40 * 60_000 + 300),
+      source: 'device',
+      spo2: 97,
+      trace: 'clean',
+    });
     const csv = trendCsv(start, 60);
     const { preview } = await (await upload(s.nurse, patientId, 'preview', csv)).json();
     expect(preview.outsideAdmission.count).toBe(30);
     expect(preview.outsideAdmission.examples[0]).toEqual({ line: 2, at: new Date(start).toISOString() });
-    expect(preview.overlapping).toEqual({ count: 1, examples: [{ line: 42, at: new Date(start + 40 * 60_000).toISOString() }] });
+    expect(preview.overlapping).toEqual({
+      count: 1,
+      examples: [{ line: 42, at: new Date(start + 40 * 60_000).toISOString() }],
+    });
     expect(preview.toStore).toBe(29);
     const body = await (await upload(s.nurse, patientId, 'commit', csv)).json();
     expect(body.import).toMatchObject({ rowsStored: 29, rowsSkipped: 31 });
@@ -136,18 +210,25 @@ describe('trend file upload: preview and commit', () => {
 
 describe('trend file upload: unit local time across daylight-saving changes (Europe/London)', () => {
   let patientId: number;
-  beforeAll(async () => { patientId = await patientInBed(2, new Date('2026-03-01T00:00:00Z')); });
+  beforeAll(async () => {
+    patientId = await patientInBed(2, new Date('2026-03-01T00:00:00Z'));
+  });
   const local = { time: 'Time', spo2: 'SpO2', heartRate: 'HR', timeMode: 'local' };
   // An unmapped column unique to this run, so rerunning against the same database is not "the same file twice".
   const run = unique('run');
-  const tag = (csv: string) => csv.split('\n').map((l, i) => (l === '' ? l : `${l},${i === 0 ? 'Monitor' : run}`)).join('\n');
+  const tag = (csv: string) =>
+    csv
+      .split('\n')
+      .map((l, i) => (l === '' ? l : `${l},${i === 0 ? 'Monitor' : run}`))
+      .join('\n');
 
   it('reads the repeated autumn hour in file order: every minute once, in time order', async () => {
     // 25 Oct 2026: 00:30 to 02:29 on the wall clock, a reading a minute; 01:00–01:59 comes twice.
     const lines = ['Time,SpO2,HR'];
     const pad = (n: number) => String(n).padStart(2, '0');
     for (let m = 30; m < 60; m++) lines.push(`2026-10-25 00:${pad(m)}:00,95,80`);
-    for (let pass = 0; pass < 2; pass++) for (let m = 0; m < 60; m++) lines.push(`2026-10-25 01:${pad(m)}:00,${pass === 0 ? 95 : 93},80`);
+    for (let pass = 0; pass < 2; pass++)
+      for (let m = 0; m < 60; m++) lines.push(`2026-10-25 01:${pad(m)}:00,${pass === 0 ? 95 : 93},80`);
     for (let m = 0; m < 30; m++) lines.push(`2026-10-25 02:${pad(m)}:00,95,80`);
     const csv = tag(`${lines.join('\n')}\n`);
     const { preview } = await (await upload(s.nurse, patientId, 'preview', csv, local)).json();
@@ -156,7 +237,12 @@ describe('trend file upload: unit local time across daylight-saving changes (Eur
     expect(preview.span).toEqual({ first: '2026-10-24T23:30:00.000Z', last: '2026-10-25T02:29:00.000Z' });
     expect(preview.notes.map((n: { line: number }) => n.line)).toEqual([32, 92]);
     expect((await upload(s.nurse, patientId, 'commit', csv, local)).status).toBe(201);
-    const times = (await importRows(patientId).andWhere('taken_at', '>=', new Date('2026-10-24T00:00:00Z')).orderBy('id').select('taken_at', 'spo2')).map((r) => ({ t: new Date(r.taken_at).getTime(), spo2: r.spo2 }));
+    const times = (
+      await importRows(patientId)
+        .andWhere('taken_at', '>=', new Date('2026-10-24T00:00:00Z'))
+        .orderBy('id')
+        .select('taken_at', 'spo2')
+    ).map((r) => ({ t: new Date(r.taken_at).getTime(), spo2: r.spo2 }));
     expect(times).toHaveLength(180);
     for (let i = 1; i < times.length; i++) expect(times[i]!.t - times[i - 1]!.t).toBe(60_000);
     // The second pass (SpO₂ 93) is 01:00–01:59 GMT = 01:00–01:59 UTC.
@@ -164,7 +250,9 @@ describe('trend file upload: unit local time across daylight-saving changes (Eur
   });
 
   it('refuses the spring hour that does not exist, with line numbers, and stores the rest', async () => {
-    const csv = tag('Time,SpO2,HR\n29/03/2026 00:58:00,96,70\n29/03/2026 00:59:00,96,70\n29/03/2026 01:00:00,96,70\n29/03/2026 01:59:00,96,70\n29/03/2026 02:00:00,96,70\n');
+    const csv = tag(
+      'Time,SpO2,HR\n29/03/2026 00:58:00,96,70\n29/03/2026 00:59:00,96,70\n29/03/2026 01:00:00,96,70\n29/03/2026 01:59:00,96,70\n29/03/2026 02:00:00,96,70\n',
+    );
     const { preview } = await (await upload(s.nurse, patientId, 'preview', csv, local)).json();
     expect(preview.refused.rows).toMatchObject([
       { line: 4, reason: 'time 2026-03-29 01:00:00 does not exist in Europe/London (the clocks went forward)' },
@@ -189,15 +277,30 @@ describe('withdrawing an import', () => {
     const noReason = await s.nurse.post(`/api/imports/${imp.id}/withdraw`, { reason: '' });
     expect(Object.keys((await noReason.json()).error.fields)).toEqual(['reason']);
 
-    const res = await s.charge.post(`/api/imports/${imp.id}/withdraw`, { reason: 'Exported from the neighbouring monitor' });
+    const res = await s.charge.post(`/api/imports/${imp.id}/withdraw`, {
+      reason: 'Exported from the neighbouring monitor',
+    });
     expect(res.status, await res.clone().text()).toBe(200);
-    expect((await res.json()).import).toMatchObject({ readingsWithdrawn: 60, withdrawnBy: 'Fixture charge', withdrawReason: 'Exported from the neighbouring monitor' });
+    expect((await res.json()).import).toMatchObject({
+      readingsWithdrawn: 60,
+      withdrawnBy: 'Fixture charge',
+      withdrawReason: 'Exported from the neighbouring monitor',
+    });
     expect(await countRows(db, 'observations')).toBe(total);
     const rows = await importRows(p);
     expect(rows).toHaveLength(60);
-    expect(rows.every((r) => r.status === 'withdrawn' && r.status_by === ids.charge && /neighbouring monitor/.test(r.status_reason))).toBe(true);
+    expect(
+      rows.every(
+        (r) => r.status === 'withdrawn' && r.status_by === ids.charge && /neighbouring monitor/.test(r.status_reason),
+      ),
+    ).toBe(true);
     expect((await (await s.nurse.get(`/api/patients/${p}/series?hours=6`)).json()).rawCounts.spo2).toBe(0);
-    expect(await db('audit_log').where({ entity: 'observation_import', entity_id: String(imp.id) }).orderBy('id').pluck('action')).toEqual(['import.commit', 'import.withdraw']);
+    expect(
+      await db('audit_log')
+        .where({ entity: 'observation_import', entity_id: String(imp.id) })
+        .orderBy('id')
+        .pluck('action'),
+    ).toEqual(['import.commit', 'import.withdraw']);
     expect((await s.charge.post(`/api/imports/${imp.id}/withdraw`, { reason: 'again please' })).status).toBe(409);
     expect((await s.charge.post('/api/imports/99999999/withdraw', { reason: 'no such' })).status).toBe(404);
 

@@ -12,7 +12,10 @@ async function patientInBed(bedId: number, from: Date, to: Date | null = null) {
 }
 
 async function newKey(bedIndex: number) {
-  const res = await s.admin.post('/api/admin/device-keys', { bedId: unit.bedIds[bedIndex], label: `gateway ${bedIndex}` });
+  const res = await s.admin.post('/api/admin/device-keys', {
+    bedId: unit.bedIds[bedIndex],
+    label: `gateway ${bedIndex}`,
+  });
   expect(res.status, await res.clone().text()).toBe(201);
   return (await res.json()) as { key: string; deviceKey: { id: number; prefix: string } };
 }
@@ -28,7 +31,13 @@ function send(key: string | null, body: unknown, extra: Record<string, string> =
 /** n readings one second apart ending `endAgoMs` before now. */
 function readings(n: number, endAgoMs: number, spo2 = 95) {
   const end = Date.now() - endAgoMs;
-  return Array.from({ length: n }, (_, i) => ({ at: new Date(end - (n - 1 - i) * 1000).toISOString(), spo2, heartRate: 82, perfusionIndex: 2.1, trace: 'clean' }));
+  return Array.from({ length: n }, (_, i) => ({
+    at: new Date(end - (n - 1 - i) * 1000).toISOString(),
+    spo2,
+    heartRate: 82,
+    perfusionIndex: 2.1,
+    trace: 'clean',
+  }));
 }
 
 const deviceRows = (patientId: number) => db('observations').where({ patient_id: patientId, source: 'device' });
@@ -50,12 +59,21 @@ describe('device keys (admin)', () => {
     expect(JSON.stringify(list)).not.toContain(key.slice(10));
     expect(list.keys.find((k: { id: number }) => k.id === deviceKey.id).prefix).toBe(key.slice(0, 10));
 
-    expect((await s.charge.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'moved' })).status).toBe(403);
+    expect((await s.charge.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'moved' })).status).toBe(
+      403,
+    );
     expect((await s.admin.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: '' })).status).toBe(400);
-    expect((await s.admin.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'gateway replaced' })).status).toBe(200);
+    expect(
+      (await s.admin.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'gateway replaced' })).status,
+    ).toBe(200);
     expect((await s.admin.post(`/api/admin/device-keys/${deviceKey.id}/revoke`, { reason: 'again' })).status).toBe(409);
-    const audit = await db('audit_log').where({ entity: 'device_key', entity_id: String(deviceKey.id) }).orderBy('id');
-    expect(audit.map((a) => [a.action, a.actor_id])).toEqual([['device_key.create', ids.admin], ['device_key.revoke', ids.admin]]);
+    const audit = await db('audit_log')
+      .where({ entity: 'device_key', entity_id: String(deviceKey.id) })
+      .orderBy('id');
+    expect(audit.map((a) => [a.action, a.actor_id])).toEqual([
+      ['device_key.create', ids.admin],
+      ['device_key.revoke', ids.admin],
+    ]);
     expect(JSON.stringify(audit)).not.toContain(key.slice(10));
   });
 });
@@ -68,18 +86,31 @@ describe('POST /api/ingest', () => {
     key = (await newKey(1)).key;
   });
 
-  it('stores readings for the patient in the key\'s bed with the right key', async () => {
+  it("stores readings for the patient in the key's bed with the right key", async () => {
     const res = await send(key, { readings: readings(10, 3_600_000) });
     expect(res.status, await res.clone().text()).toBe(200);
     expect(await res.json()).toMatchObject({ received: 10, stored: 10, duplicates: 0, withoutPatient: 0 });
     const rows = await deviceRows(patientId);
     expect(rows).toHaveLength(10);
-    expect(rows.every((r) => r.bed_id === unit.bedIds[1] && r.spo2 === 95 && r.trace === 'clean' && Number(r.perfusion_index) === 2.1 && r.status === 'current')).toBe(true);
+    expect(
+      rows.every(
+        (r) =>
+          r.bed_id === unit.bedIds[1] &&
+          r.spo2 === 95 &&
+          r.trace === 'clean' &&
+          Number(r.perfusion_index) === 2.1 &&
+          r.status === 'current',
+      ),
+    ).toBe(true);
   });
 
   it('refuses a wrong key, a missing key and a malformed header, storing nothing', async () => {
     const before = await countRows(db, 'observations');
-    for (const [k, code] of [[`${key}x`, 'invalid_device_key'], ['ebw_' + 'A'.repeat(43), 'invalid_device_key'], [null, 'device_key_required']] as const) {
+    for (const [k, code] of [
+      [`${key}x`, 'invalid_device_key'],
+      [`ebw_${'A'.repeat(43)}`, 'invalid_device_key'],
+      [null, 'device_key_required'],
+    ] as const) {
       const res = await send(k, { readings: readings(3, 3_500_000) });
       expect(res.status).toBe(401);
       expect((await res.json()).error.code).toBe(code);
@@ -110,7 +141,11 @@ describe('POST /api/ingest', () => {
     // (One call: two calls of readings() a millisecond apart would give two different times.)
     const fresh = readings(10, 2_900_000);
     const mixed = [...batch.slice(10), ...fresh, fresh[0]];
-    expect(await (await send(key, { readings: mixed })).json()).toMatchObject({ received: 21, stored: 10, duplicates: 11 });
+    expect(await (await send(key, { readings: mixed })).json()).toMatchObject({
+      received: 21,
+      stored: 10,
+      duplicates: 11,
+    });
     const times = (await deviceRows(patientId).select('taken_at')).map((r) => new Date(r.taken_at).getTime());
     expect(new Set(times).size).toBe(times.length);
   });
@@ -148,7 +183,7 @@ describe('POST /api/ingest', () => {
   });
 });
 
-describe('readings follow the patient in the bed at each reading\'s time', () => {
+describe("readings follow the patient in the bed at each reading's time", () => {
   it('says so when the bed is empty and stores nothing', async () => {
     const { key } = await newKey(2);
     const before = await countRows(db, 'observations');
@@ -167,7 +202,11 @@ describe('readings follow the patient in the bed at each reading\'s time', () =>
     const second = await patientInBed(bed, new Date(t0 + 15 * 60_000));
     const { key } = await newKey(3);
     // One reading a minute for 30 minutes from t0: 10 to the first patient, 5 to nobody, 15 to the second.
-    const batch = Array.from({ length: 30 }, (_, i) => ({ at: new Date(t0 + i * 60_000).toISOString(), spo2: 96, heartRate: 70 }));
+    const batch = Array.from({ length: 30 }, (_, i) => ({
+      at: new Date(t0 + i * 60_000).toISOString(),
+      spo2: 96,
+      heartRate: 70,
+    }));
     const body = await (await send(key, { readings: batch })).json();
     expect(body).toMatchObject({ received: 30, stored: 25, withoutPatient: 5 });
     expect(body.message).toMatch(/some of those times/);

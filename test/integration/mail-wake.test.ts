@@ -5,15 +5,28 @@ import { closeDb, db } from '../../src/lib/server/queries/db.ts';
 import { onMailCommitted } from '../../src/lib/server/mail/wake.ts';
 import { unique } from '../support/db.ts';
 
-afterAll(async () => { await closeDb(); });
+afterAll(async () => {
+  await closeDb();
+});
 
-const row = (key: string) => ({ idempotency_key: key, escalation_id: null, to_addresses: 'wake@fixture.example', subject: 'wake', text_body: 'x', html_body: '<p>x</p>', created_at: new Date() });
+const row = (key: string) => ({
+  idempotency_key: key,
+  escalation_id: null,
+  to_addresses: 'wake@fixture.example',
+  subject: 'wake',
+  text_body: 'x',
+  html_body: '<p>x</p>',
+  created_at: new Date(),
+});
 
 /** Records each wake-up with whether the row was visible to another connection at that moment. */
 function watch(key: string) {
   const seen: boolean[] = [];
   const off = onMailCommitted(() => {
-    void db()('mail_outbox').where({ idempotency_key: key }).first().then((r) => seen.push(Boolean(r)));
+    void db()('mail_outbox')
+      .where({ idempotency_key: key })
+      .first()
+      .then((r) => seen.push(Boolean(r)));
   });
   return { seen, off };
 }
@@ -38,10 +51,12 @@ describe('outbox wake-up after commit', () => {
   it('a rolled-back transaction wakes nobody', async () => {
     const key = unique('wake');
     const w = watch(key);
-    await expect(db().transaction(async (trx) => {
-      await enqueueMail(trx, row(key));
-      throw new Error('roll back');
-    })).rejects.toThrow('roll back');
+    await expect(
+      db().transaction(async (trx) => {
+        await enqueueMail(trx, row(key));
+        throw new Error('roll back');
+      }),
+    ).rejects.toThrow('roll back');
     await settle();
     w.off();
     expect(w.seen).toEqual([]);
@@ -52,7 +67,9 @@ describe('outbox wake-up after commit', () => {
     const w = watch(key);
     let wokenAfterInner = false;
     await db().transaction(async (outer) => {
-      await outer.transaction(async (inner) => { await enqueueMail(inner, row(key)); });
+      await outer.transaction(async (inner) => {
+        await enqueueMail(inner, row(key));
+      });
       await settle();
       wokenAfterInner = w.seen.length > 0;
     });

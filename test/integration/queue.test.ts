@@ -3,16 +3,39 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { createAdmittedPatient, unique } from '../support/db.ts';
 import { useWard } from '../support/ward.ts';
 
-const { db, unit, s, ids } = useWard({ beds: 3, people: { nurse: ['nurse', 'unit'], outreach: ['outreach', null], intensivist: ['intensivist', null], charge: ['charge', 'unit'] } });
+const { db, unit, s, ids } = useWard({
+  beds: 3,
+  people: {
+    nurse: ['nurse', 'unit'],
+    outreach: ['outreach', null],
+    intensivist: ['intensivist', null],
+    charge: ['charge', 'unit'],
+  },
+});
 beforeAll(async () => {
   await db('unit_settings').insert({ unit_id: unit.unitId, outreach_emails: `${unique('q')}@fixture.example` });
 });
 
 async function belowBandPatient(bedIndex: number) {
-  const { patientId: id } = await createAdmittedPatient(db, { bedId: unit.bedIds[bedIndex], since: Date.now() - 6 * 3_600_000, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 } });
-  for (const [spo2, minsAgo] of [[90, 25], [89, 12], [88, 2]] as const) {
+  const { patientId: id } = await createAdmittedPatient(db, {
+    bedId: unit.bedIds[bedIndex],
+    since: Date.now() - 6 * 3_600_000,
+    band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: Date.now() - 5 * 3_600_000 },
+  });
+  for (const [spo2, minsAgo] of [
+    [90, 25],
+    [89, 12],
+    [88, 2],
+  ] as const) {
     const res = await s.nurse.post(`/api/patients/${id}/observations`, {
-      takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(), spo2, heartRate: 100, respRate: 22, device: 'simple_mask', flowLpm: 6, fio2: 0.4, trace: 'clean',
+      takenAt: new Date(Date.now() - minsAgo * 60_000).toISOString(),
+      spo2,
+      heartRate: 100,
+      respRate: 22,
+      device: 'simple_mask',
+      flowLpm: 6,
+      fio2: 0.4,
+      trace: 'clean',
     });
     expect(res.status).toBe(201);
   }
@@ -30,18 +53,29 @@ describe('outreach queue data', () => {
     expect(e.unit.timeZone).toBe('Europe/London');
 
     // Kind filter.
-    const probes = await (await s.outreach.get(`/api/escalations?state=open&unit=${unit.code}&kind=probe_check`)).json();
+    const probes = await (
+      await s.outreach.get(`/api/escalations?state=open&unit=${unit.code}&kind=probe_check`)
+    ).json();
     expect(probes.escalations.some((x: { patient: { id: number } }) => x.patient.id === p)).toBe(false);
 
     expect((await s.outreach.post(`/api/escalations/${e.id}/claim`)).status).toBe(200);
-    expect((await s.outreach.post(`/api/escalations/${e.id}/close`, { outcome: 'reviewed_by_outreach' })).status).toBe(200);
+    expect((await s.outreach.post(`/api/escalations/${e.id}/close`, { outcome: 'reviewed_by_outreach' })).status).toBe(
+      200,
+    );
     // An old closed one (8 days ago) is not in the Closed tab.
     const old = await belowBandPatient(1);
     const oldEsc = await db('escalations').where({ patient_id: old }).first();
-    await db('escalations').where({ id: oldEsc.id }).update({ state: 'closed', closed_at: new Date(Date.now() - 8 * 24 * 3_600_000), outcome: 'other' });
+    await db('escalations')
+      .where({ id: oldEsc.id })
+      .update({ state: 'closed', closed_at: new Date(Date.now() - 8 * 24 * 3_600_000), outcome: 'other' });
     const closed = await (await s.outreach.get(`/api/escalations?state=closed&unit=${unit.code}`)).json();
     const c = closed.escalations.find((x: { id: number }) => x.id === e.id);
-    expect(c).toMatchObject({ outcome: 'reviewed_by_outreach', outcomeLabel: 'Reviewed by outreach', raisedToClaimedMin: 0, claimedToClosedMin: 0 });
+    expect(c).toMatchObject({
+      outcome: 'reviewed_by_outreach',
+      outcomeLabel: 'Reviewed by outreach',
+      raisedToClaimedMin: 0,
+      claimedToClosedMin: 0,
+    });
     expect(c.closedBy).toMatch(/^Fixture outreach/);
     expect(closed.escalations.some((x: { id: number }) => x.id === oldEsc.id)).toBe(false);
   });
@@ -91,7 +125,8 @@ describe('what the signed-in person may do with each escalation (can, decided on
     // Closed: nothing more for anyone.
     const closed = await s.charge.post(`/api/escalations/${id}/close`, { outcome: 'treated_at_bedside' });
     expect((await closed.json()).can).toEqual({ claim: false, close: false });
-    for (const who of ['nurse', 'charge', 'outreach', 'intensivist']) expect(await canIn(who, 'closed', p), who).toEqual({ claim: false, close: false });
+    for (const who of ['nurse', 'charge', 'outreach', 'intensivist'])
+      expect(await canIn(who, 'closed', p), who).toEqual({ claim: false, close: false });
   });
 
   it('the board as a whole: charge nurses assign nurses; nurses and charge nurses may keep to their own beds', async () => {

@@ -19,11 +19,19 @@ function routesOnDisk(): string[] {
   const walk = (dir: string) => {
     for (const name of readdirSync(dir)) {
       const full = join(dir, name);
-      if (statSync(full).isDirectory()) { walk(full); continue; }
+      if (statSync(full).isDirectory()) {
+        walk(full);
+        continue;
+      }
       if (!/\.(ts|js)$/.test(name) || name.startsWith('_')) continue;
-      const route = '/api/' + relative(API_DIR, full).replace(/\.(ts|js)$/, '').replace(/(^|\/)index$/, '');
+      const route =
+        '/api/' +
+        relative(API_DIR, full)
+          .replace(/\.(ts|js)$/, '')
+          .replace(/(^|\/)index$/, '');
       const src = readFileSync(full, 'utf8');
-      for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE)\b/g)) out.push(`${m[1]} ${route.replace(/\/$/, '')}`);
+      for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE)\b/g))
+        out.push(`${m[1]} ${route.replace(/\/$/, '')}`);
     }
   };
   walk(API_DIR);
@@ -35,8 +43,14 @@ describe('the role matrix table', () => {
     const inTable = ROLE_MATRIX.map((r) => r.route);
     expect(new Set(inTable).size, 'duplicate rows').toBe(inTable.length);
     const onDisk = routesOnDisk();
-    expect(onDisk.filter((r) => !inTable.includes(r)), 'routes without a row in test/integration/role-matrix.table.ts').toEqual([]);
-    expect(inTable.filter((r) => !onDisk.includes(r)), 'rows for routes that no longer exist').toEqual([]);
+    expect(
+      onDisk.filter((r) => !inTable.includes(r)),
+      'routes without a row in test/integration/role-matrix.table.ts',
+    ).toEqual([]);
+    expect(
+      inTable.filter((r) => !onDisk.includes(r)),
+      'rows for routes that no longer exist',
+    ).toEqual([]);
   });
 
   it('has eight statuses in every row', () => {
@@ -54,15 +68,42 @@ describe('every route × every caller', () => {
     const a = await createUnit(db, 2);
     const b = await createUnit(db, 1);
     const people = await signInPeople(db, {
-      nurse: ['nurse', a.unitId], xNurse: ['nurse', b.unitId], charge: ['charge', a.unitId], xCharge: ['charge', b.unitId],
-      int: ['intensivist', null], out: ['outreach', null], admin: ['admin', null],
+      nurse: ['nurse', a.unitId],
+      xNurse: ['nurse', b.unitId],
+      charge: ['charge', a.unitId],
+      xCharge: ['charge', b.unitId],
+      int: ['intensivist', null],
+      out: ['outreach', null],
+      admin: ['admin', null],
     });
     Object.assign(s, people.sessions);
-    const { patientId: patient } = await createAdmittedPatient(db, { bedId: a.bedIds[0], since: Date.now() - 3_600_000 });
-    const [obs] = await db('observations').insert({ patient_id: patient, bed_id: a.bedIds[0], taken_at: new Date(Date.now() - 600_000), recorded_at: new Date(), source: 'charted', spo2: 95, device: 'room_air', fio2: 0.21, trace: 'clean', recorded_by: people.ids.nurse });
-    Object.assign(fx, { patient: String(patient), obs: String(obs), bed: String(a.bedIds[1]), unit: a.code, missing: '987654321' });
+    const { patientId: patient } = await createAdmittedPatient(db, {
+      bedId: a.bedIds[0],
+      since: Date.now() - 3_600_000,
+    });
+    const [obs] = await db('observations').insert({
+      patient_id: patient,
+      bed_id: a.bedIds[0],
+      taken_at: new Date(Date.now() - 600_000),
+      recorded_at: new Date(),
+      source: 'charted',
+      spo2: 95,
+      device: 'room_air',
+      fio2: 0.21,
+      trace: 'clean',
+      recorded_by: people.ids.nurse,
+    });
+    Object.assign(fx, {
+      patient: String(patient),
+      obs: String(obs),
+      bed: String(a.bedIds[1]),
+      unit: a.code,
+      missing: '987654321',
+    });
   });
-  afterAll(async () => { await db.destroy(); });
+  afterAll(async () => {
+    await db.destroy();
+  });
 
   async function call(caller: Caller, row: MatrixRow): Promise<number> {
     const [method] = row.route.split(' ');
@@ -71,22 +112,40 @@ describe('every route × every caller', () => {
     const body = row.body;
     let res: Response;
     if (body === undefined) res = await session.request(path, { method });
-    else if ('form' in body) res = await session.request(path, { method, headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams(body.form).toString() });
-    else if ('csv' in body) res = await session.request(path, { method, headers: { 'content-type': 'text/csv' }, body: body.csv });
+    else if ('form' in body)
+      res = await session.request(path, {
+        method,
+        headers: { 'content-type': 'application/x-www-form-urlencoded' },
+        body: new URLSearchParams(body.form).toString(),
+      });
+    else if ('csv' in body)
+      res = await session.request(path, { method, headers: { 'content-type': 'text/csv' }, body: body.csv });
     else res = await session.request(path, { method, json: body });
     await res.arrayBuffer();
     return res.status;
   }
 
   it('answers each cell as the table says (and stores nothing for PROBE bodies)', async () => {
-    const counts = async () => Promise.all(['patients', 'observations', 'target_orders', 'bed_stays', 'device_keys', 'pleth_checks', 'observation_imports'].map(async (t) => Number((await db(t).count({ n: '*' }).first())!.n)));
+    const counts = async () =>
+      Promise.all(
+        [
+          'patients',
+          'observations',
+          'target_orders',
+          'bed_stays',
+          'device_keys',
+          'pleth_checks',
+          'observation_imports',
+        ].map(async (t) => Number((await db(t).count({ n: '*' }).first())!.n)),
+      );
     const before = await counts();
     const wrong: string[] = [];
     for (const row of ROLE_MATRIX) {
       const want = row.expect.trim().split(/\s+/).map(Number);
       const got: number[] = [];
       for (const caller of CALLERS) got.push(await call(caller, row));
-      if (got.join(' ') !== want.join(' ')) wrong.push(`${row.route}\n  want ${want.join(' ')}\n  got  ${got.join(' ')}`);
+      if (got.join(' ') !== want.join(' '))
+        wrong.push(`${row.route}\n  want ${want.join(' ')}\n  got  ${got.join(' ')}`);
     }
     expect(wrong, `cells that differ (columns: ${CALLERS.join(' ')})`).toEqual([]);
     expect(await counts()).toEqual(before);

@@ -16,7 +16,13 @@ let there: { id: number; mrn: string };
 let gone: { id: number; mrn: string };
 
 async function admit(who: HttpSession, bedId: number, familyName: string, givenName = 'Marguerite') {
-  const res = await who.post('/api/patients', { givenName, familyName, mrn: unique('SR').toUpperCase().slice(0, 20), dateOfBirth: '1948-09-30', bedId });
+  const res = await who.post('/api/patients', {
+    givenName,
+    familyName,
+    mrn: unique('SR').toUpperCase().slice(0, 20),
+    dateOfBirth: '1948-09-30',
+    bedId,
+  });
   expect(res.status, await res.clone().text()).toBe(201);
   return (await res.json()).patient as { id: number; mrn: string };
 }
@@ -26,8 +32,12 @@ beforeAll(async () => {
   unit = await createUnit(db, 3);
   other = await createUnit(db, 2);
   const people = await signInPeople(db, {
-    nurse: ['nurse', unit.unitId], charge: ['charge', unit.unitId], otherCharge: ['charge', other.unitId],
-    intensivist: ['intensivist', null], outreach: ['outreach', null], admin: ['admin', null],
+    nurse: ['nurse', unit.unitId],
+    charge: ['charge', unit.unitId],
+    otherCharge: ['charge', other.unitId],
+    intensivist: ['intensivist', null],
+    outreach: ['outreach', null],
+    admin: ['admin', null],
   });
   Object.assign(s, people.sessions);
   Object.assign(ids, people.ids);
@@ -36,12 +46,14 @@ beforeAll(async () => {
   expect((await s.charge.post(`/api/patients/${gone.id}/discharge`, {})).status).toBe(200);
   there = await admit(s.otherCharge, other.bedIds[0], otherFamily);
 });
-afterAll(async () => { await db.destroy(); });
+afterAll(async () => {
+  await db.destroy();
+});
 
 const find = async (who: HttpSession, q: string, extra = '') => {
   const res = await who.get(`/api/patients/search?q=${encodeURIComponent(q)}${extra}`);
   expect(res.status, await res.clone().text()).toBe(200);
-  return ((await res.json()).results as { id: number; discharged: boolean; bedLabel: string }[]);
+  return (await res.json()).results as { id: number; discharged: boolean; bedLabel: string }[];
 };
 
 describe('patient search', () => {
@@ -90,7 +102,14 @@ describe('audit reader', () => {
 
   it('filters by person, action and patient (their obs too), pages, and shows times in the unit zone', async () => {
     // One charted obs for `here`, so the patient filter must gather patient and observation rows.
-    const obs = await s.nurse.post(`/api/patients/${here.id}/observations`, { takenAt: new Date(Date.now() - 60_000).toISOString(), spo2: 95, heartRate: 80, respRate: 16, device: 'room_air', trace: 'clean' });
+    const obs = await s.nurse.post(`/api/patients/${here.id}/observations`, {
+      takenAt: new Date(Date.now() - 60_000).toISOString(),
+      spo2: 95,
+      heartRate: 80,
+      respRate: 16,
+      device: 'room_air',
+      trace: 'clean',
+    });
     expect(obs.status, await obs.clone().text()).toBe(201);
 
     let res = await s.admin.get(`/api/admin/audit?patient=${here.mrn}&unit=${unit.code}`);
@@ -119,14 +138,27 @@ describe('audit reader', () => {
   it('reads date ranges as whole days in the unit zone', async () => {
     const actor = ids.admin;
     const at = new Date('2026-07-01T23:30:00Z'); // 00:30 on 2 July in London (BST)
-    await db('audit_log').insert({ actor_id: actor, action: 'test.zone_probe', entity: 'unit', entity_id: String(unit.unitId), before: null, after: null, at });
-    const q = (from: string, to: string) => s.admin.get(`/api/admin/audit?action=test.zone_probe&from=${from}&to=${to}&unit=${unit.code}`).then((r) => r.json());
+    await db('audit_log').insert({
+      actor_id: actor,
+      action: 'test.zone_probe',
+      entity: 'unit',
+      entity_id: String(unit.unitId),
+      before: null,
+      after: null,
+      at,
+    });
+    const q = (from: string, to: string) =>
+      s.admin
+        .get(`/api/admin/audit?action=test.zone_probe&from=${from}&to=${to}&unit=${unit.code}`)
+        .then((r) => r.json());
     expect((await q('2026-07-02', '2026-07-02')).total).toBe(1);
     expect((await q('2026-07-01', '2026-07-01')).total).toBe(0);
   });
 
   it('downloads the filtered rows as CSV with unit-zone times', async () => {
-    const res = await s.admin.get(`/api/admin/audit?actorId=${ids.charge}&action=patient.&unit=${unit.code}&format=csv`);
+    const res = await s.admin.get(
+      `/api/admin/audit?actorId=${ids.charge}&action=patient.&unit=${unit.code}&format=csv`,
+    );
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toMatch(/text\/csv/);
     expect(res.headers.get('content-disposition')).toMatch(/attachment/);

@@ -5,7 +5,14 @@ import { countRows, createUser, unique } from '../support/db.ts';
 import { useWard } from '../support/ward.ts';
 
 const { db, unit, s, ids } = useWard({
-  beds: 2, people: { admin: ['admin', null], admin2: ['admin', null], nurse: ['nurse', 'unit'], charge: ['charge', 'unit'], intensivist: ['intensivist', null] },
+  beds: 2,
+  people: {
+    admin: ['admin', null],
+    admin2: ['admin', null],
+    nurse: ['nurse', 'unit'],
+    charge: ['charge', 'unit'],
+    intensivist: ['intensivist', null],
+  },
 });
 const GOOD = 'tidal harbour lantern quietly';
 
@@ -40,7 +47,8 @@ describe('staff accounts: who may manage them', () => {
     for (const who of ['nurse', 'charge', 'intensivist']) {
       expect((await s[who].post('/api/admin/users', body)).status, who).toBe(403);
       expect((await patch(s[who], `/api/admin/users/${ids.nurse}`, { role: 'charge' })).status, who).toBe(403);
-      for (const action of ['deactivate', 'reactivate', 'send-link']) expect((await s[who].post(`/api/admin/users/${ids.nurse}/${action}`, {})).status, `${who} ${action}`).toBe(403);
+      for (const action of ['deactivate', 'reactivate', 'send-link'])
+        expect((await s[who].post(`/api/admin/users/${ids.nurse}/${action}`, {})).status, `${who} ${action}`).toBe(403);
     }
     expect(await db('users').where({ email: body.email }).first()).toBeUndefined();
   });
@@ -53,10 +61,20 @@ describe('creating a person', () => {
     let res = await s.admin.post('/api/admin/users', { name: 'Nia Okafor', email: newEmail(), role: 'nurse' });
     expect(res.status).toBe(400);
     expect((await res.json()).error.fields).toEqual({ unitCode: expect.stringMatching(/needs a unit/) });
-    res = await s.admin.post('/api/admin/users', { name: 'Nia Okafor', email: newEmail(), role: 'intensivist', unitCode: unit.code });
+    res = await s.admin.post('/api/admin/users', {
+      name: 'Nia Okafor',
+      email: newEmail(),
+      role: 'intensivist',
+      unitCode: unit.code,
+    });
     expect(res.status).toBe(400);
     expect((await res.json()).error.fields.unitCode).toMatch(/across units/);
-    res = await s.admin.post('/api/admin/users', { name: 'Nia Okafor', email: newEmail(), role: 'nurse', unitCode: 'NOPE99' });
+    res = await s.admin.post('/api/admin/users', {
+      name: 'Nia Okafor',
+      email: newEmail(),
+      role: 'nurse',
+      unitCode: 'NOPE99',
+    });
     expect(res.status).toBe(400);
     expect((await res.json()).error.fields.unitCode).toMatch(/No unit/);
     res = await s.admin.post('/api/admin/users', { name: 'N', email: 'not-an-email', role: 'matron' });
@@ -67,7 +85,12 @@ describe('creating a person', () => {
   });
 
   it('refuses a duplicate e-mail with 409, whatever its case', async () => {
-    const res = await s.admin.post('/api/admin/users', { name: 'Copy Cat', email: 'NURSE@harbourside.example', role: 'nurse', unitCode: unit.code });
+    const res = await s.admin.post('/api/admin/users', {
+      name: 'Copy Cat',
+      email: 'NURSE@harbourside.example',
+      role: 'nurse',
+      unitCode: unit.code,
+    });
     expect(res.status).toBe(409);
     const { error } = await res.json();
     expect(error.code).toBe('duplicate_email');
@@ -83,7 +106,13 @@ describe('creating a person', () => {
     expect(link.token_hash).toHaveLength(64);
     expect(link.token_hash).not.toContain(token);
     expect(new Date(link.expires_at).getTime() - new Date(link.created_at).getTime()).toBe(24 * 3_600_000);
-    const actions = (await db('audit_log').where({ entity: 'user', entity_id: String(id) }).select('action', 'actor_id')).map((r) => r.action).sort();
+    const actions = (
+      await db('audit_log')
+        .where({ entity: 'user', entity_id: String(id) })
+        .select('action', 'actor_id')
+    )
+      .map((r) => r.action)
+      .sort();
     expect(actions).toEqual(['user.create', 'user.password_link']);
     // Once sent, the outbox row keeps the mail but not the token; the admin Mail page never shows it.
     let sent: { status: string; text_body: string; html_body: string } | undefined;
@@ -142,13 +171,18 @@ describe('set-password links', () => {
     const unknown = await anon.get('/set-password?token=abcdefghijklmnopqrstuvwxyz012345');
     expect(unknown.status).toBe(404);
     expect(await unknown.text()).toContain('not one Ebbwatch sent');
-    let res = await anon.post('/api/account/password-link', { token: 'abcdefghijklmnopqrstuvwxyz012345', password: GOOD });
+    let res = await anon.post('/api/account/password-link', {
+      token: 'abcdefghijklmnopqrstuvwxyz012345',
+      password: GOOD,
+    });
     expect(res.status).toBe(404);
     expect((await res.json()).error.code).toBe('link_unknown');
 
     const { email, id } = await createNurse();
     const token = await linkTokenFor(email);
-    await db('password_links').where({ user_id: id }).update({ expires_at: new Date(Date.now() - 1000) });
+    await db('password_links')
+      .where({ user_id: id })
+      .update({ expires_at: new Date(Date.now() - 1000) });
     const hashBefore = (await db('users').where({ id }).first()).password_hash;
     const page = await anon.get(`/set-password?token=${token}`);
     expect(page.status).toBe(410);
@@ -169,7 +203,9 @@ describe('set-password links', () => {
     res = await s.admin.post(`/api/admin/users/${u.id}/send-link`, {});
     const mails = await waitForMail((m) => m.to.includes(email) && !m.text.includes(first), 20_000);
     const second = mails[0].text.match(/token=([A-Za-z0-9_-]+)/)![1];
-    expect((await new HttpSession().post('/api/account/password-link', { token: first, password: GOOD })).status).toBe(410);
+    expect((await new HttpSession().post('/api/account/password-link', { token: first, password: GOOD })).status).toBe(
+      410,
+    );
 
     // Signed in with the old password: everything but My account waits for a new one.
     const board = await nurse.get(`/api/board?unit=${unit.code}`);
@@ -184,7 +220,9 @@ describe('set-password links', () => {
     expect(res.status, await res.clone().text()).toBe(200);
     expect((await nurse.get(`/api/board?unit=${unit.code}`)).status).toBe(200);
     // The unused second link died with the change.
-    expect((await new HttpSession().post('/api/account/password-link', { token: second, password: `${GOOD} two` })).status).toBe(410);
+    expect(
+      (await new HttpSession().post('/api/account/password-link', { token: second, password: `${GOOD} two` })).status,
+    ).toBe(410);
   });
 
   it('refuses a link for a deactivated account', async () => {
@@ -201,7 +239,9 @@ describe('own password', () => {
     const email = newEmail();
     await createUser(db, { role: 'charge', unitId: unit.unitId, email, password: 'fixture-password' });
     const me = await signedIn(email, 'fixture-password');
-    expect((await new HttpSession().post('/api/account/password', { currentPassword: 'x', newPassword: GOOD })).status).toBe(401);
+    expect(
+      (await new HttpSession().post('/api/account/password', { currentPassword: 'x', newPassword: GOOD })).status,
+    ).toBe(401);
     let res = await me.post('/api/account/password', { currentPassword: 'wrong-password', newPassword: GOOD });
     expect(res.status).toBe(400);
     expect((await res.json()).error.fields.currentPassword).toBeTruthy();
@@ -214,7 +254,11 @@ describe('own password', () => {
     expect(res.status).toBe(200);
     expect((await new HttpSession().signIn(email, 'fixture-password')).ok).toBe(false);
     expect((await new HttpSession().signIn(email, GOOD)).ok).toBe(true);
-    expect(await db('audit_log').where({ action: 'user.password_change', actor_id: (await db('users').where({ email }).first()).id }).first()).toBeTruthy();
+    expect(
+      await db('audit_log')
+        .where({ action: 'user.password_change', actor_id: (await db('users').where({ email }).first()).id })
+        .first(),
+    ).toBeTruthy();
   });
 });
 
@@ -238,7 +282,10 @@ describe('changing role or unit, deactivating, reactivating', () => {
     expect(res.status).toBe(400);
     res = await patch(s.admin, '/api/admin/users/99999999', { name: 'Nobody Here' });
     expect(res.status).toBe(404);
-    const audit = await db('audit_log').where({ action: 'user.update', entity_id: String(u.id) }).orderBy('id').select('before', 'after');
+    const audit = await db('audit_log')
+      .where({ action: 'user.update', entity_id: String(u.id) })
+      .orderBy('id')
+      .select('before', 'after');
     expect(audit).toHaveLength(2);
     expect(asJson(audit[1].before)).toMatchObject({ role: 'charge' });
     expect(asJson(audit[1].after)).toMatchObject({ role: 'intensivist', unitCode: null });
@@ -259,12 +306,19 @@ describe('changing role or unit, deactivating, reactivating', () => {
     const again = new HttpSession();
     expect((await again.signIn(email, 'fixture-password')).ok).toBe(true);
     expect((await again.get('/api/me')).status).toBe(200);
-    const actions = (await db('audit_log').where({ entity: 'user', entity_id: String(u.id) }).orderBy('id').select('action')).map((r) => r.action);
+    const actions = (
+      await db('audit_log')
+        .where({ entity: 'user', entity_id: String(u.id) })
+        .orderBy('id')
+        .select('action')
+    ).map((r) => r.action);
     expect(actions.filter((a: string) => a.startsWith('user.'))).toEqual(['user.deactivate', 'user.reactivate']); // sign-ins are audited too
   });
 
   it('refuses to deactivate or demote the last active administrator (409), and two admins cannot remove each other at once', async () => {
-    const others = (await db('users').where({ role: 'admin', active: true }).whereNotIn('id', [ids.admin, ids.admin2]).select('id')).map((r) => r.id);
+    const others = (
+      await db('users').where({ role: 'admin', active: true }).whereNotIn('id', [ids.admin, ids.admin2]).select('id')
+    ).map((r) => r.id);
     await db('users').whereIn('id', others).update({ active: false });
     try {
       // Two active admins deactivate each other at the same moment: the row locks let exactly one through.
@@ -276,7 +330,9 @@ describe('changing role or unit, deactivating, reactivating', () => {
       // winner committed, by the per-request user lookup (401): never both deactivated.
       expect([a.status, b.status].filter((x) => x === 200)).toHaveLength(1);
       expect([409, 401]).toContain(a.status === 200 ? b.status : a.status);
-      expect(await db('users').whereIn('id', [ids.admin, ids.admin2]).where({ active: true }).count({ n: '*' })).toEqual([{ n: 1 }]);
+      expect(
+        await db('users').whereIn('id', [ids.admin, ids.admin2]).where({ active: true }).count({ n: '*' }),
+      ).toEqual([{ n: 1 }]);
       const survivor = a.status === 200 ? s.admin : s.admin2;
       const survivorId = a.status === 200 ? ids.admin : ids.admin2;
       const res = await survivor.post(`/api/admin/users/${survivorId}/deactivate`, {});
@@ -286,7 +342,9 @@ describe('changing role or unit, deactivating, reactivating', () => {
       expect(await db('users').where({ role: 'admin', active: true }).count({ n: '*' })).toEqual([{ n: 1 }]);
       await survivor.post(`/api/admin/users/${survivorId === ids.admin ? ids.admin2 : ids.admin}/reactivate`, {});
     } finally {
-      await db('users').whereIn('id', [...others, ids.admin, ids.admin2]).update({ active: true });
+      await db('users')
+        .whereIn('id', [...others, ids.admin, ids.admin2])
+        .update({ active: true });
     }
   });
 });

@@ -7,20 +7,46 @@ import { describe, expect, it } from 'vitest';
 import { createAdmittedPatient } from '../support/db.ts';
 import { useWard } from '../support/ward.ts';
 
-const { db, unit, s, ids } = useWard({ beds: 3, people: { charge: ['charge', 'unit'], intensivist: ['intensivist', null] } });
+const { db, unit, s, ids } = useWard({
+  beds: 3,
+  people: { charge: ['charge', 'unit'], intensivist: ['intensivist', null] },
+});
 const min = 60_000;
 
 async function patientWithDeviceReadings(bedIndex: number, secondsAgo: number[], spo2 = 88) {
   const now = Date.now();
   const bedId = unit.bedIds[bedIndex]!;
-  const { patientId: id } = await createAdmittedPatient(db, { bedId, since: now - 6 * 60 * min, band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: now - 5 * 60 * min } });
-  await db('observations').insert(secondsAgo.map((sec) => ({ patient_id: id, bed_id: bedId, taken_at: new Date(now - sec * 1000), source: 'device', spo2, heart_rate: 96, trace: 'clean' })));
+  const { patientId: id } = await createAdmittedPatient(db, {
+    bedId,
+    since: now - 6 * 60 * min,
+    band: { low: 92, high: 96, orderedBy: ids.intensivist, orderedAt: now - 5 * 60 * min },
+  });
+  await db('observations').insert(
+    secondsAgo.map((sec) => ({
+      patient_id: id,
+      bed_id: bedId,
+      taken_at: new Date(now - sec * 1000),
+      source: 'device',
+      spo2,
+      heart_rate: 96,
+      trace: 'clean',
+    })),
+  );
   return id;
 }
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const tileOf = async (label: string) => ((await (await s.charge.get(`/api/board?unit=${unit.code}`)).json()).tiles as { bedLabel: string; state: Record<string, unknown>; monitor: Record<string, unknown> | null; concern: { reason: string }; latest: Record<string, unknown> }[]).find((t) => t.bedLabel === label)!;
+const tileOf = async (label: string) =>
+  (
+    (await (await s.charge.get(`/api/board?unit=${unit.code}`)).json()).tiles as {
+      bedLabel: string;
+      state: Record<string, unknown>;
+      monitor: Record<string, unknown> | null;
+      concern: { reason: string };
+      latest: Record<string, unknown>;
+    }[]
+  ).find((t) => t.bedLabel === label)!;
 
-describe('time on the board and in the escalations (real database, the app\'s sweep)', () => {
+describe("time on the board and in the escalations (real database, the app's sweep)", () => {
   it('two trusted below-band device readings 5 min apart with nothing between: no escalation, and the board agrees', async () => {
     const p = await patientWithDeviceReadings(0, [360, 60]); // 6 min and 1 min ago
     await sleep(3_000); // the sweep (every second in tests) has judged the patient
@@ -46,6 +72,8 @@ describe('time on the board and in the escalations (real database, the app\'s sw
     const tile = await tileOf('F-2');
     expect(tile.monitor).toMatchObject({ silent: true });
     expect(tile.state).toMatchObject({ name: 'no_reading', was: 'below' });
-    expect(tile.concern.reason).toMatch(/^Probe check: monitor silent since \d\d:\d\d — check the probe at the bedside$/);
+    expect(tile.concern.reason).toMatch(
+      /^Probe check: monitor silent since \d\d:\d\d — check the probe at the bedside$/,
+    );
   });
 });

@@ -31,7 +31,8 @@ export class HttpSession {
   async request(path: string, init: RequestInit & { json?: unknown } = {}): Promise<Response> {
     const headers = new Headers(init.headers);
     if (this.cookies.size) headers.set('cookie', this.cookieHeader());
-    if (!headers.has('origin') && init.method && init.method !== 'GET') headers.set('origin', new URL(this.base).origin);
+    if (!headers.has('origin') && init.method && init.method !== 'GET')
+      headers.set('origin', new URL(this.base).origin);
     let body = init.body;
     if (init.json !== undefined) {
       headers.set('content-type', 'application/json');
@@ -74,4 +75,3 @@ export async function signedIn(email: string, password = DEMO_PASSWORD): Promise
   if (!result.ok) throw new Error(`sign-in as ${email} failed: ${result.url}`);
   return session;
 }
-

@@ -1,6 +1,13 @@
 /** Debian's Chromium driven by playwright-core: never a downloaded browser. */
 import { afterAll, beforeAll } from 'vitest';
-import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Locator, type Page } from 'playwright-core';
+import {
+  chromium,
+  type Browser,
+  type BrowserContext,
+  type BrowserContextOptions,
+  type Locator,
+  type Page,
+} from 'playwright-core';
 import { APP_URL, DEMO_PASSWORD } from './app.ts';
 import { demoPatientId } from './pages.ts';
 
@@ -9,8 +16,15 @@ export async function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--disable-background-networking', '--disable-component-update',
-      '--disable-sync', '--no-first-run'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+    ],
   });
 }
 
@@ -23,16 +37,28 @@ export type TestBrowser = Pick<Browser, 'newContext'>;
  */
 export function useBrowser(): TestBrowser {
   let browser: Browser | undefined;
-  beforeAll(async () => { browser = await launchBrowser(); });
-  afterAll(async () => { await browser?.close(); });
+  beforeAll(async () => {
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
   return { newContext: (options) => browser!.newContext(options) };
 }
 
-export async function signInThroughForm(page: Page, email: string, password = DEMO_PASSWORD, base = APP_URL): Promise<void> {
+export async function signInThroughForm(
+  page: Page,
+  email: string,
+  password = DEMO_PASSWORD,
+  base = APP_URL,
+): Promise<void> {
   await page.goto(`${base}/signin`);
   await page.getByLabel('Email').fill(email);
   await page.getByLabel('Password').fill(password);
-  await Promise.all([page.waitForURL((url) => !url.pathname.startsWith('/signin') || url.search.includes('error')), page.getByRole('button', { name: 'Sign in' }).click()]);
+  await Promise.all([
+    page.waitForURL((url) => !url.pathname.startsWith('/signin') || url.search.includes('error')),
+    page.getByRole('button', { name: 'Sign in' }).click(),
+  ]);
 }
 
 /**
@@ -41,10 +67,14 @@ export async function signInThroughForm(page: Page, email: string, password = DE
  */
 export async function waitForIsland(page: Page, testId: string, timeout = 20_000): Promise<void> {
   await page.getByTestId(testId).first().waitFor({ timeout });
-  await page.waitForFunction((id) => {
-    const island = document.querySelector(`[data-testid="${id}"]`)?.closest('astro-island');
-    return island !== null && island !== undefined && !island.hasAttribute('ssr');
-  }, testId, { timeout });
+  await page.waitForFunction(
+    (id) => {
+      const island = document.querySelector(`[data-testid="${id}"]`)?.closest('astro-island');
+      return island !== null && island !== undefined && !island.hasAttribute('ssr');
+    },
+    testId,
+    { timeout },
+  );
 }
 
 export interface OpenOptions {
@@ -58,7 +88,10 @@ export interface OpenOptions {
 }
 
 /** A fresh context (its own cookies) signed in through the form, optionally on a page with its island ready. The test closes the context. */
-export async function openSignedIn(browser: TestBrowser, o: OpenOptions): Promise<{ context: BrowserContext; page: Page }> {
+export async function openSignedIn(
+  browser: TestBrowser,
+  o: OpenOptions,
+): Promise<{ context: BrowserContext; page: Page }> {
   const context = await browser.newContext(o.context);
   const page = await context.newPage();
   const who = typeof o.as === 'string' ? { email: o.as, password: DEMO_PASSWORD } : o.as;

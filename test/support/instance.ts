@@ -2,7 +2,10 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { resolve } from 'node:path';
 
-export async function startInstance(port: number, env: Record<string, string>): Promise<{ url: string; stop: () => Promise<void>; child: ChildProcess }> {
+export async function startInstance(
+  port: number,
+  env: Record<string, string>,
+): Promise<{ url: string; stop: () => Promise<void>; child: ChildProcess }> {
   const entry = resolve(process.env.EBB_OUT_DIR ?? 'dist', 'server/entry.mjs');
   const child: ChildProcess = spawn(process.execPath, [entry], {
     env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), EBB_BACKGROUND: 'off', ...env },
@@ -22,6 +25,10 @@ export async function startInstance(port: number, env: Record<string, string>): 
   return {
     url,
     child,
-    stop: () => new Promise((done) => { child.once('exit', () => done()); child.kill(); }),
+    stop: () =>
+      new Promise((done) => {
+        child.once('exit', () => done());
+        child.kill();
+      }),
   };
 }

@@ -1,7 +1,16 @@
 /** The SMTP fake's HTTP side, as tests see it. */
 export const FAKE_API = process.env.SMTP_FAKE_API_URL ?? 'http://127.0.0.1:5500';
 
-export interface FakeMessage { id: number; receivedAt: string; messageId: string | null; key: string | null; to: string[]; subject: string; text: string; html: string }
+export interface FakeMessage {
+  id: number;
+  receivedAt: string;
+  messageId: string | null;
+  key: string | null;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+}
 
 export async function received(): Promise<FakeMessage[]> {
   const res = await fetch(`${FAKE_API}/messages`);

@@ -7,7 +7,12 @@ import { countRows } from './db.ts';
 export type RefusalCase = [patch: Record<string, unknown>, field: string, reason?: RegExp];
 
 /** Sends each case; every one must come back 400 naming its field, and `table` must keep its row count. */
-export async function expectEachRefused(db: Knex, table: string, cases: RefusalCase[], send: (patch: Record<string, unknown>) => Promise<Response>) {
+export async function expectEachRefused(
+  db: Knex,
+  table: string,
+  cases: RefusalCase[],
+  send: (patch: Record<string, unknown>) => Promise<Response>,
+) {
   const before = await countRows(db, table);
   for (const [patch, field, reason] of cases) {
     const res = await send(patch);

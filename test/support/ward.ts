@@ -40,13 +40,19 @@ export function useWard(spec: WardSpec): Ward {
     if (spec.otherBeds !== undefined) Object.assign(ward.other, await createUnit(ward.db, spec.otherBeds));
     const unitIdOf = (home: WardHome) => {
       if (home === null) return null;
-      if (home === 'other' && spec.otherBeds === undefined) throw new Error('useWard: a person in the other unit needs otherBeds');
+      if (home === 'other' && spec.otherBeds === undefined)
+        throw new Error('useWard: a person in the other unit needs otherBeds');
       return ward[home].unitId;
     };
-    const people = await signInPeople(ward.db, Object.fromEntries(Object.entries(spec.people).map(([key, [role, home]]) => [key, [role, unitIdOf(home)]])));
+    const people = await signInPeople(
+      ward.db,
+      Object.fromEntries(Object.entries(spec.people).map(([key, [role, home]]) => [key, [role, unitIdOf(home)]])),
+    );
     Object.assign(ward.s, people.sessions);
     Object.assign(ward.ids, people.ids);
   });
-  afterAll(async () => { await ward.db.destroy(); });
+  afterAll(async () => {
+    await ward.db.destroy();
+  });
   return ward;
 }

@@ -19,12 +19,19 @@ function setup(p: PatientDetail, opts: { initial?: boolean } = {}) {
     'GET /api/patients/3/series?hours=24': () => ({ body: series({ hours: 24, from: T0 - 24 * 3_600_000 }) }),
     'GET /api/patients/3/observations': () => ({ body: { items: [obs()], page: 1, pageSize: 20, total: 1 } }),
     'GET /api/patients/3/targets': () => ({ body: { orders: p.orders } }),
-    'POST /api/patients/3/observations': (c) => ({ status: 201, body: { observation: obs({ id: 200, takenAt: String((c.body as { takenAt: string }).takenAt) }) } }),
+    'POST /api/patients/3/observations': (c) => ({
+      status: 201,
+      body: { observation: obs({ id: 200, takenAt: String((c.body as { takenAt: string }).takenAt) }) },
+    }),
   });
   vi.stubGlobal('fetch', vi.fn(stub.fn));
   render(
     <Fresh>
-      <BedChartPage patientId={3} initial={opts.initial === false ? undefined : { patient: p }} chartSize={{ width: 800, height: 320 }} />
+      <BedChartPage
+        patientId={3}
+        initial={opts.initial === false ? undefined : { patient: p }}
+        chartSize={{ width: 800, height: 320 }}
+      />
     </Fresh>,
   );
   return stub;
@@ -51,7 +58,9 @@ describe('BedChartPage', () => {
     setup(patient({ can: { chart: true, order: false, admit: false } }));
     expect(screen.getByRole('heading', { level: 2, name: 'Bed 4 · AQ·123' }).textContent).toBe('Bed 4 · AQ·123');
     expect(screen.getByRole('group', { name: 'Chart window' })).toBeTruthy();
-    await waitFor(() => expect(screen.getByTestId('chart-summary').textContent).toContain('latest 90 % at 11:50, below band 92–96 %'));
+    await waitFor(() =>
+      expect(screen.getByTestId('chart-summary').textContent).toContain('latest 90 % at 11:50, below band 92–96 %'),
+    );
     expect(screen.getByTestId('derived-figures')).toBeTruthy();
     expect(screen.getByTestId('obs-entry-form')).toBeTruthy();
     await waitFor(() => expect(document.getElementById('obs-101')).not.toBeNull());
@@ -75,7 +84,9 @@ describe('BedChartPage', () => {
   it('loads the patient itself when the page gave none', async () => {
     const stub = setup(patient(), { initial: false });
     expect(screen.getByText('Loading the bed chart…')).toBeTruthy();
-    await waitFor(() => expect(screen.getByRole('heading', { level: 2, name: 'Bed 4 · AQ·123' }).textContent).toBe('Bed 4 · AQ·123'));
+    await waitFor(() =>
+      expect(screen.getByRole('heading', { level: 2, name: 'Bed 4 · AQ·123' }).textContent).toBe('Bed 4 · AQ·123'),
+    );
     expect(stub.calls.some((c) => c.url === '/api/patients/3')).toBe(true);
   });
 
@@ -95,10 +106,16 @@ describe('BedChartPage', () => {
     await waitFor(() => expect(screen.getByTestId('chart-summary')).toBeTruthy());
     await waitFor(() => expect(document.getElementById('obs-101')).not.toBeNull());
     const count = (url: string) => stub.calls.filter((c) => c.method === 'GET' && c.url.startsWith(url)).length;
-    const before = { series: count('/api/patients/3/series'), obs: count('/api/patients/3/observations'), patient: stub.calls.filter((c) => c.url === '/api/patients/3').length };
+    const before = {
+      series: count('/api/patients/3/series'),
+      obs: count('/api/patients/3/observations'),
+      patient: stub.calls.filter((c) => c.url === '/api/patients/3').length,
+    };
     fireEvent.change(screen.getByLabelText('SpO₂ (%)'), { target: { value: '95' } });
     fireEvent.click(screen.getByRole('button', { name: 'Save obs' }));
-    await waitFor(() => expect(screen.getAllByRole('status').some((s) => s.textContent?.startsWith('Saved'))).toBe(true));
+    await waitFor(() =>
+      expect(screen.getAllByRole('status').some((s) => s.textContent?.startsWith('Saved'))).toBe(true),
+    );
     expect(stub.calls.find((c) => c.method === 'POST')!.body).toMatchObject({ spo2: 95, fio2: 0.4, takenAt: iso(T0) });
     await waitFor(() => {
       expect(count('/api/patients/3/series')).toBeGreaterThan(before.series);

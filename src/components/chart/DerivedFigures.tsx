@@ -32,10 +32,25 @@ const NEWS2_RESPONSE_WORDS: Record<string, string> = {
 
 const minutes = (m: number) => `${Math.round(m)} min`;
 
-function Figure({ label, value, detail, testId, icon }: { label: string; value: ReactNode; detail?: ReactNode; testId: string; icon?: ReactNode }) {
+function Figure({
+  label,
+  value,
+  detail,
+  testId,
+  icon,
+}: {
+  label: string;
+  value: ReactNode;
+  detail?: ReactNode;
+  testId: string;
+  icon?: ReactNode;
+}) {
   return (
     <div className="rounded-md border border-ink-100 p-2 dark:border-ink-800" data-testid={testId}>
-      <dt className="flex min-w-0 items-center gap-1 hyphens-auto break-words text-xs font-bold uppercase tracking-wide text-ink-500 [overflow-wrap:anywhere] dark:text-ink-400">{icon}{label}</dt>
+      <dt className="flex min-w-0 items-center gap-1 hyphens-auto break-words text-xs font-bold uppercase tracking-wide text-ink-500 [overflow-wrap:anywhere] dark:text-ink-400">
+        {icon}
+        {label}
+      </dt>
       <dd className="text-xl font-bold">{value}</dd>
       {detail && <dd className="text-xs text-ink-600 dark:text-ink-300">{detail}</dd>}
     </div>
@@ -46,21 +61,27 @@ export default function DerivedFigures({ derived, timeZone }: DerivedFiguresProp
   if (!derived) {
     return (
       <section aria-labelledby="derived-title">
-        <h2 id="derived-title" className="text-lg font-bold">Figures</h2>
+        <h2 id="derived-title" className="text-lg font-bold">
+          Figures
+        </h2>
         <p className="text-ink-500">Loading figures…</p>
       </section>
     );
   }
   const c = derived.compliance;
   const l = derived.latest;
-  const fio2Words = l.fio2 === null ? null : `FiO₂ ${fmtFio2(l.fio2)}${l.fio2Estimated ? ' (estimated from device and flow)' : ''}`;
+  const fio2Words =
+    l.fio2 === null ? null : `FiO₂ ${fmtFio2(l.fio2)}${l.fio2Estimated ? ' (estimated from device and flow)' : ''}`;
   const news2 = l.news2;
 
   return (
     <section aria-labelledby="derived-title" data-testid="derived-figures">
-      <h2 id="derived-title" className="text-lg font-bold">Figures · last {derived.window.hours} h</h2>
+      <h2 id="derived-title" className="text-lg font-bold">
+        Figures · last {derived.window.hours} h
+      </h2>
       <p className="text-xs text-ink-500 dark:text-ink-400">
-        {formatClock(derived.window.from, timeZone)}–{formatClock(derived.window.to, timeZone)} · untrusted readings are left out of band time and counted apart
+        {formatClock(derived.window.from, timeZone)}–{formatClock(derived.window.to, timeZone)} · untrusted readings are
+        left out of band time and counted apart
       </p>
       <dl className="mt-2 grid grid-cols-2 gap-2 lg:grid-cols-3">
         <Figure
@@ -68,10 +89,24 @@ export default function DerivedFigures({ derived, timeZone }: DerivedFiguresProp
           label="Time in band"
           icon={<StateIcon state="in" className="h-3 w-3 text-glass-600" />}
           value={c.inBandPct === null ? '—' : `${Math.round(c.inBandPct)} %`}
-          detail={c.inBandPct === null ? `no band ordered for ${minutes(c.noBandMin)}` : `${minutes(c.inBandMin)} of ${minutes(c.windowMin)}`}
+          detail={
+            c.inBandPct === null
+              ? `no band ordered for ${minutes(c.noBandMin)}`
+              : `${minutes(c.inBandMin)} of ${minutes(c.windowMin)}`
+          }
         />
-        <Figure testId="fig-below" label="Below band" icon={<StateIcon state="below" className="h-3 w-3 text-coral-600" />} value={minutes(c.belowMin)} />
-        <Figure testId="fig-above" label="Above band" icon={<StateIcon state="above" className="h-3 w-3 text-iris-600" />} value={minutes(c.aboveMin)} />
+        <Figure
+          testId="fig-below"
+          label="Below band"
+          icon={<StateIcon state="below" className="h-3 w-3 text-coral-600" />}
+          value={minutes(c.belowMin)}
+        />
+        <Figure
+          testId="fig-above"
+          label="Above band"
+          icon={<StateIcon state="above" className="h-3 w-3 text-iris-600" />}
+          value={minutes(c.aboveMin)}
+        />
         <Figure
           testId="fig-untrusted"
           label="Untrusted"
@@ -79,16 +114,35 @@ export default function DerivedFigures({ derived, timeZone }: DerivedFiguresProp
           value={minutes(c.untrustedMin)}
           detail={`${c.untrustedReadings} untrusted of ${c.trustedReadings + c.untrustedReadings} readings`}
         />
-        <Figure testId="fig-no-reading" label="No reading" value={minutes(c.noReadingMin)} detail={c.noBandMin > 0 ? `no band ordered: ${minutes(c.noBandMin)}` : undefined} />
-        <Figure testId="fig-burden" label="Hypoxaemic burden" value={`${Math.round(c.burdenPctMin)} %·min`} detail="area below the band" />
+        <Figure
+          testId="fig-no-reading"
+          label="No reading"
+          value={minutes(c.noReadingMin)}
+          detail={c.noBandMin > 0 ? `no band ordered: ${minutes(c.noBandMin)}` : undefined}
+        />
+        <Figure
+          testId="fig-burden"
+          label="Hypoxaemic burden"
+          value={`${Math.round(c.burdenPctMin)} %·min`}
+          detail="area below the band"
+        />
         <Figure
           testId="fig-sf"
           label="S/F"
           value={l.sf === null ? '—' : Math.round(l.sf)}
-          detail={l.sf === null ? 'needs SpO₂ and FiO₂' : `SpO₂ ${l.spo2} % · ${fio2Words}${l.takenAt ? ` · ${formatClock(l.takenAt, timeZone)}` : ''}`}
+          detail={
+            l.sf === null
+              ? 'needs SpO₂ and FiO₂'
+              : `SpO₂ ${l.spo2} % · ${fio2Words}${l.takenAt ? ` · ${formatClock(l.takenAt, timeZone)}` : ''}`
+          }
         />
         {l.rox !== null && (
-          <Figure testId="fig-rox" label="ROX" value={l.rox.toFixed(2)} detail={l.roxNote ?? (l.device ? DEVICE_LABELS[l.device] : undefined)} />
+          <Figure
+            testId="fig-rox"
+            label="ROX"
+            value={l.rox.toFixed(2)}
+            detail={l.roxNote ?? (l.device ? DEVICE_LABELS[l.device] : undefined)}
+          />
         )}
         <Figure
           testId="fig-news2"
@@ -98,7 +152,9 @@ export default function DerivedFigures({ derived, timeZone }: DerivedFiguresProp
             news2 ? (
               <>
                 {news2.response && <>Response: {NEWS2_RESPONSE_WORDS[news2.response] ?? news2.response}. </>}
-                {!news2.complete && news2.missing.length > 0 && <>missing: {news2.missing.map((m) => NEWS2_PARAMETER_WORDS[m] ?? m).join(', ')}. </>}
+                {!news2.complete && news2.missing.length > 0 && (
+                  <>missing: {news2.missing.map((m) => NEWS2_PARAMETER_WORDS[m] ?? m).join(', ')}. </>
+                )}
                 from obs at {formatClock(news2.takenAt, timeZone)}
               </>
             ) : (

@@ -41,19 +41,30 @@ export default function EnteredInErrorForm({ url, label, what, onDone, onCancel 
   return (
     <form onSubmit={submit} noValidate aria-label={label} className="max-w-xl">
       <p className="mb-2 text-sm">{what} stays in the record, struck through, with your name and reason.</p>
-      <label htmlFor={`${uid}-reason`} className="mb-0.5 block text-sm font-bold">Reason this entry is in error</label>
+      <label htmlFor={`${uid}-reason`} className="mb-0.5 block text-sm font-bold">
+        Reason this entry is in error
+      </label>
       <input
         id={`${uid}-reason`}
         className="field"
         value={reason}
         autoComplete="off"
+        // biome-ignore lint/a11y/noAutofocus: the form opens on the person's own click, and its one field is what they came to type
         autoFocus
         aria-invalid={fieldError ? true : undefined}
         aria-describedby={fieldError ? `${uid}-reason-error` : undefined}
         onChange={(e) => setReason(e.target.value)}
       />
-      {fieldError && <p id={`${uid}-reason-error`} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300">{fieldError}</p>}
-      {alert && <p role="alert" className="mt-1 text-sm text-coral-800 dark:text-coral-200">{alert}</p>}
+      {fieldError && (
+        <p id={`${uid}-reason-error`} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300">
+          {fieldError}
+        </p>
+      )}
+      {alert && (
+        <p role="alert" className="mt-1 text-sm text-coral-800 dark:text-coral-200">
+          {alert}
+        </p>
+      )}
       <FormButtons action="Mark entered in error" onCancel={onCancel} busy={busy} className="mt-2 flex gap-2" />
     </form>
   );

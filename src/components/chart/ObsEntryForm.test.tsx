@@ -13,11 +13,25 @@ afterEach(() => {
 // A correction posts { reason, obs }; a new obs posts the obs itself.
 const savedObs = (posted: Record<string, unknown>): ObsView => {
   const body = (posted.obs ?? posted) as Record<string, unknown>;
-  return obs({ id: 555, takenAt: String(body.takenAt), spo2: (body.spo2 as number) ?? null, notices: (body.spo2 as number) < 70 ? ['Below calibrated range — confirm with arterial blood gas'] : [] });
+  return obs({
+    id: 555,
+    takenAt: String(body.takenAt),
+    spo2: (body.spo2 as number) ?? null,
+    notices: (body.spo2 as number) < 70 ? ['Below calibrated range — confirm with arterial blood gas'] : [],
+  });
 };
 
-function setup(opts: { lastCharted?: ObsView | null; correcting?: ObsView; post?: (c: StubCall) => { status?: number; body: unknown }; timeZone?: string } = {}) {
-  const post = opts.post ?? ((c: StubCall) => ({ status: 201, body: { observation: savedObs(c.body as Record<string, unknown>) } }));
+function setup(
+  opts: {
+    lastCharted?: ObsView | null;
+    correcting?: ObsView;
+    post?: (c: StubCall) => { status?: number; body: unknown };
+    timeZone?: string;
+  } = {},
+) {
+  const post =
+    opts.post ??
+    ((c: StubCall) => ({ status: 201, body: { observation: savedObs(c.body as Record<string, unknown>) } }));
   const stub = stubFetch({
     'POST /api/patients/3/observations': post,
     [`POST /api/observations/${opts.correcting?.id ?? 0}/correct`]: post,
@@ -47,7 +61,11 @@ const posts = (calls: StubCall[]) => calls.filter((c) => c.method === 'POST');
 /** The error text an input points at through aria-describedby. */
 function describedErrors(el: HTMLElement): string {
   const ids = (el.getAttribute('aria-describedby') ?? '').split(' ').filter(Boolean);
-  return ids.map((id) => document.getElementById(id)).filter((n) => n?.hasAttribute('data-field-error')).map((n) => n!.textContent).join(' | ');
+  return ids
+    .map((id) => document.getElementById(id))
+    .filter((n) => n?.hasAttribute('data-field-error'))
+    .map((n) => n!.textContent)
+    .join(' | ');
 }
 
 describe('ObsEntryForm', () => {
@@ -62,7 +80,19 @@ describe('ObsEntryForm', () => {
 
   describe('time taken: date + 24-hour HH:MM in the unit zone (issue 10 point 8)', () => {
     const wall = (ms: number, timeZone: string) => {
-      const p = Object.fromEntries(new Intl.DateTimeFormat('en-GB', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(new Date(ms)).map((x) => [x.type, x.value]));
+      const p = Object.fromEntries(
+        new Intl.DateTimeFormat('en-GB', {
+          timeZone,
+          year: 'numeric',
+          month: '2-digit',
+          day: '2-digit',
+          hour: '2-digit',
+          minute: '2-digit',
+          hourCycle: 'h23',
+        })
+          .formatToParts(new Date(ms))
+          .map((x) => [x.type, x.value]),
+      );
       return { date: `${p.year}-${p.month}-${p.day}`, time: `${p.hour}:${p.minute}` };
     };
 
@@ -72,7 +102,11 @@ describe('ObsEntryForm', () => {
       expect(input('Time taken').value).toBe(wall(T0, 'America/New_York').time);
       expect(input('Time taken').type).toBe('text');
       // No browser date or time widget of any kind (they follow the browser's locale).
-      expect(document.querySelector(['datetime' + '-local', 'date', 'time'].map((type) => `input[type="${type}"]`).join(', '))).toBeNull();
+      expect(
+        document.querySelector(
+          ['datetime' + '-local', 'date', 'time'].map((type) => `input[type="${type}"]`).join(', '),
+        ),
+      ).toBeNull();
     });
 
     it('−5 and −15 min step back from now; Now returns', () => {
@@ -89,11 +123,15 @@ describe('ObsEntryForm', () => {
       const { calls } = setup({ timeZone: 'America/New_York' });
       const tenAgo = wall(T0 - 10 * 60_000, 'America/New_York');
       type('Time taken', tenAgo.time.replace(':', '')); // "0604" typed without the colon
-      expect(screen.getByTestId('taken-at-reads').textContent).toMatch(/^Reads \d{1,2} [A-Z][a-z]{2} \d\d:\d\d \(unit time\)/);
+      expect(screen.getByTestId('taken-at-reads').textContent).toMatch(
+        /^Reads \d{1,2} [A-Z][a-z]{2} \d\d:\d\d \(unit time\)/,
+      );
       type('SpO₂ (%)', '95');
       save();
       await waitFor(() => expect(posts(calls)).toHaveLength(1));
-      expect((posts(calls)[0]!.body as { takenAt: string }).takenAt).toBe(iso(Math.floor((T0 - 10 * 60_000) / 60_000) * 60_000));
+      expect((posts(calls)[0]!.body as { takenAt: string }).takenAt).toBe(
+        iso(Math.floor((T0 - 10 * 60_000) / 60_000) * 60_000),
+      );
     });
 
     it('a 12-hour time is refused in words and nothing is posted', () => {
@@ -139,28 +177,35 @@ describe('ObsEntryForm', () => {
     expect(input('Respiratory rate (/min)').getAttribute('aria-invalid')).toBeNull();
   });
 
-  it.each([['40'], ['0.4'], ['40 '], ['0,4']])('posts FiO₂ typed as %j as the fraction 0.4 (the schema output)', async (typed) => {
-    const { calls } = setup({ lastCharted: obs({ device: 'simple_mask', fio2: 0.6, flowLpm: 8 }) });
-    type('SpO₂ (%)', '93');
-    type('FiO₂', typed);
-    save();
-    await waitFor(() => expect(posts(calls)).toHaveLength(1));
-    const body = posts(calls)[0]!.body as Record<string, unknown>;
-    expect(body.fio2).toBe(0.4);
-    expect(body.spo2).toBe(93);
-    expect(body.device).toBe('simple_mask');
-    expect(body.flowLpm).toBe(8);
-    expect(body.trace).toBe('clean');
-    expect(body.takenAt).toBe(iso(T0));
-    // Empty fields are left out, not sent as "".
-    expect('heartRate' in body).toBe(false);
-  });
+  it.each([['40'], ['0.4'], ['40 '], ['0,4']])(
+    'posts FiO₂ typed as %j as the fraction 0.4 (the schema output)',
+    async (typed) => {
+      const { calls } = setup({ lastCharted: obs({ device: 'simple_mask', fio2: 0.6, flowLpm: 8 }) });
+      type('SpO₂ (%)', '93');
+      type('FiO₂', typed);
+      save();
+      await waitFor(() => expect(posts(calls)).toHaveLength(1));
+      const body = posts(calls)[0]!.body as Record<string, unknown>;
+      expect(body.fio2).toBe(0.4);
+      expect(body.spo2).toBe(93);
+      expect(body.device).toBe('simple_mask');
+      expect(body.flowLpm).toBe(8);
+      expect(body.trace).toBe('clean');
+      expect(body.takenAt).toBe(iso(T0));
+      // Empty fields are left out, not sent as "".
+      expect('heartRate' in body).toBe(false);
+    },
+  );
 
   it('shows the calibrated-range notice for SpO₂ 65 and still posts it', async () => {
     const { calls } = setup();
     type('SpO₂ (%)', '65');
-    expect(screen.getByTestId('spo2-notice').textContent).toContain('Below calibrated range — confirm with arterial blood gas');
-    expect(input('SpO₂ (%)').getAttribute('aria-describedby')).toContain(screen.getByTestId('spo2-notice').parentElement!.id);
+    expect(screen.getByTestId('spo2-notice').textContent).toContain(
+      'Below calibrated range — confirm with arterial blood gas',
+    );
+    expect(input('SpO₂ (%)').getAttribute('aria-describedby')).toContain(
+      screen.getByTestId('spo2-notice').parentElement!.id,
+    );
     save();
     await waitFor(() => expect(posts(calls)).toHaveLength(1));
     expect((posts(calls)[0]!.body as { spo2: number }).spo2).toBe(65);
@@ -177,7 +222,16 @@ describe('ObsEntryForm', () => {
     setup({
       post: () => ({
         status: 400,
-        body: { error: { code: 'invalid', message: 'Check the highlighted fields', fields: { 'obs.heartRate': 'Heart rate disagrees with the monitor', takenAt: 'Obs can be back-dated by 4 hours at most' } } },
+        body: {
+          error: {
+            code: 'invalid',
+            message: 'Check the highlighted fields',
+            fields: {
+              'obs.heartRate': 'Heart rate disagrees with the monitor',
+              takenAt: 'Obs can be back-dated by 4 hours at most',
+            },
+          },
+        },
       }),
     });
     type('SpO₂ (%)', '95');
@@ -228,7 +282,14 @@ describe('ObsEntryForm', () => {
   });
 
   it('corrects an obs: prefilled, needs a reason, posts { reason, obs } to /correct', async () => {
-    const original = obs({ id: 101, takenAt: iso(T0 - 30 * 60_000), spo2: 49, heartRate: 88, fio2: 0.4, device: 'simple_mask' });
+    const original = obs({
+      id: 101,
+      takenAt: iso(T0 - 30 * 60_000),
+      spo2: 49,
+      heartRate: 88,
+      fio2: 0.4,
+      device: 'simple_mask',
+    });
     const { calls } = setup({ correcting: original });
     expect(input('SpO₂ (%)').value).toBe('49');
     expect(input('Heart rate (/min)').value).toBe('88');

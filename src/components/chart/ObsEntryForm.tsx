@@ -50,12 +50,44 @@ export interface ObsEntryFormProps {
 }
 
 type FieldName =
-  | 'takenDate' | 'takenAt' | 'spo2' | 'heartRate' | 'respRate' | 'device' | 'fio2' | 'flowLpm' | 'trace' | 'perfusionIndex'
-  | 'probeSite' | 'systolic' | 'temperature' | 'consciousness' | 'note' | 'reason';
+  | 'takenDate'
+  | 'takenAt'
+  | 'spo2'
+  | 'heartRate'
+  | 'respRate'
+  | 'device'
+  | 'fio2'
+  | 'flowLpm'
+  | 'trace'
+  | 'perfusionIndex'
+  | 'probeSite'
+  | 'systolic'
+  | 'temperature'
+  | 'consciousness'
+  | 'note'
+  | 'reason';
 type Values = Record<FieldName, string>;
 
-const VITALS: FieldName[] = ['spo2', 'heartRate', 'respRate', 'perfusionIndex', 'systolic', 'temperature', 'consciousness', 'note'];
-const NUMERIC: FieldName[] = ['spo2', 'heartRate', 'respRate', 'fio2', 'flowLpm', 'perfusionIndex', 'systolic', 'temperature'];
+const VITALS: FieldName[] = [
+  'spo2',
+  'heartRate',
+  'respRate',
+  'perfusionIndex',
+  'systolic',
+  'temperature',
+  'consciousness',
+  'note',
+];
+const NUMERIC: FieldName[] = [
+  'spo2',
+  'heartRate',
+  'respRate',
+  'fio2',
+  'flowLpm',
+  'perfusionIndex',
+  'systolic',
+  'temperature',
+];
 
 const TRACE_LABELS: Record<string, string> = {
   clean: 'Clean',
@@ -70,7 +102,12 @@ const QUICK_MINUTES = [5, 15];
 const pct = (fraction: number) => String(Math.round(fraction * 1000) / 10);
 const str = (v: number | string | null | undefined) => (v === null || v === undefined ? '' : String(v));
 
-function initialValues(lastCharted: ObsView | null, correcting: ObsView | null | undefined, now: Date, timeZone: string): Values {
+function initialValues(
+  lastCharted: ObsView | null,
+  correcting: ObsView | null | undefined,
+  now: Date,
+  timeZone: string,
+): Values {
   const src = correcting ?? null;
   const deviceFrom = src ?? lastCharted;
   const device = deviceFrom?.device ?? '';
@@ -98,7 +135,15 @@ function initialValues(lastCharted: ObsView | null, correcting: ObsView | null |
   };
 }
 
-export default function ObsEntryForm({ patientId, lastCharted, timeZone, correcting, onSaved, onCancel, now = () => new Date() }: ObsEntryFormProps) {
+export default function ObsEntryForm({
+  patientId,
+  lastCharted,
+  timeZone,
+  correcting,
+  onSaved,
+  onCancel,
+  now = () => new Date(),
+}: ObsEntryFormProps) {
   const uid = useId();
   const id = (f: string) => `${uid}-${f}`;
   const formRef = useRef<HTMLFormElement>(null);
@@ -160,7 +205,24 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   }
 
   function focusFirstError(errs: FieldErrors) {
-    const order: FieldName[] = ['takenDate', 'takenAt', 'spo2', 'heartRate', 'respRate', 'device', 'fio2', 'flowLpm', 'trace', 'perfusionIndex', 'probeSite', 'systolic', 'temperature', 'consciousness', 'note', 'reason'];
+    const order: FieldName[] = [
+      'takenDate',
+      'takenAt',
+      'spo2',
+      'heartRate',
+      'respRate',
+      'device',
+      'fio2',
+      'flowLpm',
+      'trace',
+      'perfusionIndex',
+      'probeSite',
+      'systolic',
+      'temperature',
+      'consciousness',
+      'note',
+      'reason',
+    ];
     const first = order.find((f) => errs[f]);
     const el = first ? formRef.current?.elements.namedItem(first) : null;
     if (el instanceof HTMLElement) el.focus();
@@ -189,7 +251,10 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
         return;
       }
       url = `/api/observations/${correcting.id}/correct`;
-      body = { reason: parsed.data.reason, obs: { ...parsed.data.obs, takenAt: parsed.data.obs.takenAt.toISOString() } };
+      body = {
+        reason: parsed.data.reason,
+        obs: { ...parsed.data.obs, takenAt: parsed.data.obs.takenAt.toISOString() },
+      };
     } else {
       const parsed = obsInputSchema(at).safeParse(raw);
       if (!parsed.success) {
@@ -202,7 +267,10 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
       body = { ...parsed.data, takenAt: parsed.data.takenAt.toISOString() };
     }
     setErrors({});
-    const res = await run(() => postJson<{ observation: ObsView }>(url, body), { failurePrefix: 'Not saved: ', onRefused: focusFirstError });
+    const res = await run(() => postJson<{ observation: ObsView }>(url, body), {
+      failurePrefix: 'Not saved: ',
+      onRefused: focusFirstError,
+    });
     if (res !== undefined) {
       const saved = res?.observation;
       if (!correcting) {
@@ -242,7 +310,10 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
     'aria-describedby': describedBy(f, extra),
     className: `field ${errors[f] ? 'border-coral-600 ring-1 ring-coral-600 dark:border-coral-400' : ''}`,
   });
-  const numberInput = (f: FieldName, opts: { decimal?: boolean; extra?: string[]; inputRef?: Ref<HTMLInputElement> } = {}) => (
+  const numberInput = (
+    f: FieldName,
+    opts: { decimal?: boolean; extra?: string[]; inputRef?: Ref<HTMLInputElement> } = {},
+  ) => (
     <input
       {...fieldProps(f, opts.extra)}
       ref={opts.inputRef}
@@ -254,15 +325,28 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   );
 
   // A render function, not a component: a component defined in here would remount its input on every keystroke.
-  const field = (f: FieldName, label: ReactNode, children: ReactNode, { hint, wide }: { hint?: ReactNode; wide?: boolean } = {}) => (
+  const field = (
+    f: FieldName,
+    label: ReactNode,
+    children: ReactNode,
+    { hint, wide }: { hint?: ReactNode; wide?: boolean } = {},
+  ) => (
     <div className={wide ? 'sm:col-span-2' : ''}>
-      <label htmlFor={id(f)} className="mb-0.5 block text-sm font-bold">{label}</label>
+      <label htmlFor={id(f)} className="mb-0.5 block text-sm font-bold">
+        {label}
+      </label>
       {children}
-      {hint && <p id={id(`${f}-hint`)} className="mt-0.5 text-xs text-ink-500 dark:text-ink-400">{hint}</p>}
+      {hint && (
+        <p id={id(`${f}-hint`)} className="mt-0.5 text-xs text-ink-500 dark:text-ink-400">
+          {hint}
+        </p>
+      )}
       {errors[f] && (
         <p className="mt-0.5 flex items-start gap-1 text-sm text-coral-700 dark:text-coral-300">
           <span aria-hidden="true">✕</span>
-          <span id={id(`${f}-error`)} data-field-error={f}>{errors[f]}</span>
+          <span id={id(`${f}-error`)} data-field-error={f}>
+            {errors[f]}
+          </span>
         </p>
       )}
     </div>
@@ -274,91 +358,203 @@ export default function ObsEntryForm({ patientId, lastCharted, timeZone, correct
   const unknownServerFields = Object.keys(errors).filter((k) => !(k in values));
 
   return (
-    <form ref={formRef} onSubmit={submit} onKeyDown={onKeyDown} noValidate aria-label={title} data-testid={correcting ? 'obs-correct-form' : 'obs-entry-form'}>
+    <form
+      ref={formRef}
+      onSubmit={submit}
+      onKeyDown={onKeyDown}
+      noValidate
+      aria-label={title}
+      data-testid={correcting ? 'obs-correct-form' : 'obs-entry-form'}
+    >
       <h3 className="mb-2 text-lg font-bold">{title}</h3>
       <div className="grid grid-cols-1 gap-x-3 gap-y-2 sm:grid-cols-2">
         <fieldset className="sm:col-span-2" aria-describedby={id('takenAt-hint')} data-testid="taken-at">
           <legend className="mb-0.5 block text-sm font-bold">Time taken</legend>
           <div className="flex flex-wrap items-end gap-2">
-            <label className="text-xs">Date
-              <input {...fieldProps('takenDate')} type="text" inputMode="numeric" autoComplete="off" placeholder="yyyy-mm-dd" size={11}
-                aria-label="Date taken" onChange={(e) => set('takenDate', e.target.value)} />
+            <label className="text-xs">
+              Date
+              <input
+                {...fieldProps('takenDate')}
+                type="text"
+                inputMode="numeric"
+                autoComplete="off"
+                placeholder="yyyy-mm-dd"
+                size={11}
+                aria-label="Date taken"
+                onChange={(e) => set('takenDate', e.target.value)}
+              />
             </label>
-            <label className="text-xs">Time (24 h)
-              <input {...fieldProps('takenAt')} type="text" inputMode="numeric" autoComplete="off" placeholder="hh:mm" size={6}
-                aria-label="Time taken" onChange={(e) => set('takenAt', e.target.value)} />
+            <label className="text-xs">
+              Time (24 h)
+              <input
+                {...fieldProps('takenAt')}
+                type="text"
+                inputMode="numeric"
+                autoComplete="off"
+                placeholder="hh:mm"
+                size={6}
+                aria-label="Time taken"
+                onChange={(e) => set('takenAt', e.target.value)}
+              />
             </label>
             <span className="flex gap-1" role="group" aria-label="Quick times">
-              <button type="button" className="btn-quiet" onClick={() => setTakenAgo(0)}>Now</button>
-              {QUICK_MINUTES.map((m) => <button key={m} type="button" className="btn-quiet" onClick={() => setTakenAgo(m)} aria-label={`${m} minutes ago`}>−{m} min</button>)}
+              <button type="button" className="btn-quiet" onClick={() => setTakenAgo(0)}>
+                Now
+              </button>
+              {QUICK_MINUTES.map((m) => (
+                <button
+                  key={m}
+                  type="button"
+                  className="btn-quiet"
+                  onClick={() => setTakenAgo(m)}
+                  aria-label={`${m} minutes ago`}
+                >
+                  −{m} min
+                </button>
+              ))}
             </span>
           </div>
-          <p id={id('takenAt-hint')} className="mt-0.5 text-xs text-ink-500 dark:text-ink-400" data-testid="taken-at-reads">
-            {'at' in typedTaken ? `Reads ${formatDayTime(typedTaken.at, timeZone)} (unit time). ` : ''}Now, or up to {correcting ? 'a few days' : `${MAX_BACKDATE_HOURS} h`} earlier{correcting ? '' : ` (from ${formatDayTime(earliest, timeZone)})`}.
+          <p
+            id={id('takenAt-hint')}
+            className="mt-0.5 text-xs text-ink-500 dark:text-ink-400"
+            data-testid="taken-at-reads"
+          >
+            {'at' in typedTaken ? `Reads ${formatDayTime(typedTaken.at, timeZone)} (unit time). ` : ''}Now, or up to{' '}
+            {correcting ? 'a few days' : `${MAX_BACKDATE_HOURS} h`} earlier
+            {correcting ? '' : ` (from ${formatDayTime(earliest, timeZone)})`}.
           </p>
-          {(['takenDate', 'takenAt'] as const).map((f) => errors[f] && (
-            <p key={f} className="mt-0.5 flex items-start gap-1 text-sm text-coral-700 dark:text-coral-300">
-              <span aria-hidden="true">✕</span>
-              <span id={id(`${f}-error`)} data-field-error={f}>{errors[f]}</span>
-            </p>
-          ))}
+          {(['takenDate', 'takenAt'] as const).map(
+            (f) =>
+              errors[f] && (
+                <p key={f} className="mt-0.5 flex items-start gap-1 text-sm text-coral-700 dark:text-coral-300">
+                  <span aria-hidden="true">✕</span>
+                  <span id={id(`${f}-error`)} data-field-error={f}>
+                    {errors[f]}
+                  </span>
+                </p>
+              ),
+          )}
         </fieldset>
-        {field('spo2', 'SpO₂ (%)', numberInput('spo2', { inputRef: spo2Ref, extra: spo2Notices.length ? [id('spo2-hint')] : [] }), {
-          hint: spo2Notices.length ? (
-            <span className="font-bold text-amberline-700 dark:text-amberline-400" data-testid="spo2-notice">
-              <span aria-hidden="true">! </span>{spo2Notices.join('; ')}
-            </span>
-          ) : undefined,
-        })}
+        {field(
+          'spo2',
+          'SpO₂ (%)',
+          numberInput('spo2', { inputRef: spo2Ref, extra: spo2Notices.length ? [id('spo2-hint')] : [] }),
+          {
+            hint: spo2Notices.length ? (
+              <span className="font-bold text-amberline-700 dark:text-amberline-400" data-testid="spo2-notice">
+                <span aria-hidden="true">! </span>
+                {spo2Notices.join('; ')}
+              </span>
+            ) : undefined,
+          },
+        )}
         {field('heartRate', 'Heart rate (/min)', numberInput('heartRate'))}
         {field('respRate', 'Respiratory rate (/min)', numberInput('respRate'))}
-        {field('device', 'Oxygen device', (
+        {field(
+          'device',
+          'Oxygen device',
           <select {...fieldProps('device')} onChange={(e) => set('device', e.target.value)}>
             <option value="">Choose…</option>
-            {OXYGEN_DEVICES.map((d) => <option key={d} value={d}>{DEVICE_LABELS[d]}</option>)}
-          </select>
-        ))}
+            {OXYGEN_DEVICES.map((d) => (
+              <option key={d} value={d}>
+                {DEVICE_LABELS[d]}
+              </option>
+            ))}
+          </select>,
+        )}
         {field('fio2', 'FiO₂', numberInput('fio2', { decimal: true, extra: [id('fio2-hint')] }), {
           hint: `21–100 % or 0.21–1.0${fio2Required ? ' · as set on the machine' : ''}`,
         })}
         {showFlow && field('flowLpm', 'Flow (L/min)', numberInput('flowLpm', { decimal: true }))}
-        {field('trace', 'Trace quality', (
+        {field(
+          'trace',
+          'Trace quality',
           <select {...fieldProps('trace')} onChange={(e) => set('trace', e.target.value)}>
-            {TRACE_QUALITIES.map((t) => <option key={t} value={t}>{TRACE_LABELS[t]}</option>)}
-          </select>
-        ))}
+            {TRACE_QUALITIES.map((t) => (
+              <option key={t} value={t}>
+                {TRACE_LABELS[t]}
+              </option>
+            ))}
+          </select>,
+        )}
         {field('perfusionIndex', 'Perfusion index (%)', numberInput('perfusionIndex', { decimal: true }))}
-        {field('probeSite', 'Probe site', (
-          <input {...fieldProps('probeSite')} type="text" autoComplete="off" placeholder="e.g. left index finger" onChange={(e) => set('probeSite', e.target.value)} />
-        ))}
+        {field(
+          'probeSite',
+          'Probe site',
+          <input
+            {...fieldProps('probeSite')}
+            type="text"
+            autoComplete="off"
+            placeholder="e.g. left index finger"
+            onChange={(e) => set('probeSite', e.target.value)}
+          />,
+        )}
         {field('systolic', 'Systolic BP (mmHg)', numberInput('systolic'))}
         {field('temperature', 'Temperature (°C)', numberInput('temperature', { decimal: true }))}
-        {field('consciousness', 'Consciousness', (
+        {field(
+          'consciousness',
+          'Consciousness',
           <select {...fieldProps('consciousness')} onChange={(e) => set('consciousness', e.target.value)}>
             <option value="">Not assessed</option>
-            {CONSCIOUSNESS.map((c) => <option key={c} value={c}>{CONSCIOUSNESS_LABELS[c]}</option>)}
-          </select>
-        ))}
-        {field('note', 'Note', (
-          <input {...fieldProps('note')} type="text" autoComplete="off" onChange={(e) => set('note', e.target.value)} />
-        ), { wide: true })}
-        {correcting && field('reason', 'Reason for the correction', (
-          <input {...fieldProps('reason')} type="text" autoComplete="off" onChange={(e) => set('reason', e.target.value)} />
-        ), { wide: true })}
+            {CONSCIOUSNESS.map((c) => (
+              <option key={c} value={c}>
+                {CONSCIOUSNESS_LABELS[c]}
+              </option>
+            ))}
+          </select>,
+        )}
+        {field(
+          'note',
+          'Note',
+          <input
+            {...fieldProps('note')}
+            type="text"
+            autoComplete="off"
+            onChange={(e) => set('note', e.target.value)}
+          />,
+          { wide: true },
+        )}
+        {correcting &&
+          field(
+            'reason',
+            'Reason for the correction',
+            <input
+              {...fieldProps('reason')}
+              type="text"
+              autoComplete="off"
+              onChange={(e) => set('reason', e.target.value)}
+            />,
+            { wide: true },
+          )}
       </div>
       {formError && (
-        <div role="alert" className="mt-3 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200">
+        <div
+          role="alert"
+          className="mt-3 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200"
+        >
           <p>{formError}</p>
           {unknownServerFields.length > 0 && (
-            <ul className="list-disc pl-5">{unknownServerFields.map((k) => <li key={k}>{errors[k]}</li>)}</ul>
+            <ul className="list-disc pl-5">
+              {unknownServerFields.map((k) => (
+                <li key={k}>{errors[k]}</li>
+              ))}
+            </ul>
           )}
         </div>
       )}
       <div className="mt-3 flex flex-wrap items-center gap-3">
-        <button type="submit" className="btn-primary" disabled={busy}>{busy ? 'Saving…' : correcting ? 'Save correction' : 'Save obs'}</button>
-        {onCancel && <button type="button" className="btn-quiet" onClick={onCancel}>Cancel</button>}
+        <button type="submit" className="btn-primary" disabled={busy}>
+          {busy ? 'Saving…' : correcting ? 'Save correction' : 'Save obs'}
+        </button>
+        {onCancel && (
+          <button type="button" className="btn-quiet" onClick={onCancel}>
+            Cancel
+          </button>
+        )}
         <span className="text-xs text-ink-500 dark:text-ink-400">Enter saves</span>
-        <p role="status" aria-live="polite" className="text-sm font-bold text-glass-700 dark:text-glass-300">{status}</p>
+        <p role="status" aria-live="polite" className="text-sm font-bold text-glass-700 dark:text-glass-300">
+          {status}
+        </p>
       </div>
     </form>
   );

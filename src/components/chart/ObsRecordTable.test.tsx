@@ -11,30 +11,65 @@ afterEach(() => {
 });
 
 const rows = [
-  obs({ id: 130, takenAt: iso(T0 - 10 * 60_000), source: 'device', spo2: 84, trace: 'noisy', recordedBy: null, fio2: 0.32, fio2Estimated: true, device: 'nasal_cannula', flowLpm: 3 }),
+  obs({
+    id: 130,
+    takenAt: iso(T0 - 10 * 60_000),
+    source: 'device',
+    spo2: 84,
+    trace: 'noisy',
+    recordedBy: null,
+    fio2: 0.32,
+    fio2Estimated: true,
+    device: 'nasal_cannula',
+    flowLpm: 3,
+  }),
   obs({ id: 120, takenAt: iso(T0 - 30 * 60_000), spo2: 94, replacesId: 101, recordedBy: 'Nurse Rowan Pike' }),
   obs({ id: 110, takenAt: iso(T0 - 40 * 60_000), spo2: 89, heartRate: 97 }),
   obs({
-    id: 101, takenAt: iso(T0 - 30 * 60_000), spo2: 49, status: 'superseded', replacedById: 120,
-    statusReason: 'Typed 49 for 94', statusBy: 'Nurse Rowan Pike', statusAt: iso(T0 - 20 * 60_000),
+    id: 101,
+    takenAt: iso(T0 - 30 * 60_000),
+    spo2: 49,
+    status: 'superseded',
+    replacedById: 120,
+    statusReason: 'Typed 49 for 94',
+    statusBy: 'Nurse Rowan Pike',
+    statusAt: iso(T0 - 20 * 60_000),
   }),
   obs({
-    id: 99, takenAt: iso(T0 - 60 * 60_000), spo2: 97, status: 'entered_in_error',
-    statusReason: 'Charted on the wrong patient', statusBy: 'Nurse Tamsin Hale', statusAt: iso(T0 - 50 * 60_000),
+    id: 99,
+    takenAt: iso(T0 - 60 * 60_000),
+    spo2: 97,
+    status: 'entered_in_error',
+    statusReason: 'Charted on the wrong patient',
+    statusBy: 'Nurse Tamsin Hale',
+    statusAt: iso(T0 - 50 * 60_000),
   }),
 ];
 
-function setup(opts: { canChart?: boolean; total?: number; errorPost?: (c: StubCall) => { status?: number; body: unknown } } = {}) {
-  const page = (n: number): ObsPage => ({ items: n === 1 ? rows : [obs({ id: 50, takenAt: iso(T0 - 5 * 3_600_000), spo2: 91 })], page: n, pageSize: 20, total: opts.total ?? rows.length });
+function setup(
+  opts: { canChart?: boolean; total?: number; errorPost?: (c: StubCall) => { status?: number; body: unknown } } = {},
+) {
+  const page = (n: number): ObsPage => ({
+    items: n === 1 ? rows : [obs({ id: 50, takenAt: iso(T0 - 5 * 3_600_000), spo2: 91 })],
+    page: n,
+    pageSize: 20,
+    total: opts.total ?? rows.length,
+  });
   const stub = stubFetch({
     'GET /api/patients/3/observations?page=1&pageSize=20': () => ({ body: page(1) }),
     'GET /api/patients/3/observations?page=2&pageSize=20': () => ({ body: page(2) }),
-    'POST /api/observations/110/entered-in-error': opts.errorPost ?? (() => ({ body: { observation: { ...rows[2], status: 'entered_in_error' } } })),
+    'POST /api/observations/110/entered-in-error':
+      opts.errorPost ?? (() => ({ body: { observation: { ...rows[2], status: 'entered_in_error' } } })),
   });
   vi.stubGlobal('fetch', vi.fn(stub.fn));
   render(
     <Fresh>
-      <ObsRecordTable patientId={3} timeZone="Europe/London" canChart={opts.canChart ?? true} orders={[order({ low: 92, high: 96, orderedAt: iso(T0 - 10 * 3_600_000) })]} />
+      <ObsRecordTable
+        patientId={3}
+        timeZone="Europe/London"
+        canChart={opts.canChart ?? true}
+        orders={[order({ low: 92, high: 96, orderedAt: iso(T0 - 10 * 3_600_000) })]}
+      />
     </Fresh>,
   );
   return stub;
@@ -59,7 +94,11 @@ describe('ObsRecordTable', () => {
     const link = within(r).getByRole('link', { name: /correcting row/i });
     expect(link.getAttribute('href')).toBe('#obs-120');
     // The correcting row says what it replaced.
-    expect(within(row(120)).getByRole('link', { name: /corrects an earlier row/i }).getAttribute('href')).toBe('#obs-101');
+    expect(
+      within(row(120))
+        .getByRole('link', { name: /corrects an earlier row/i })
+        .getAttribute('href'),
+    ).toBe('#obs-101');
   });
 
   it('keeps an entered-in-error row, struck through, with the reason', async () => {

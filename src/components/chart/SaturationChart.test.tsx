@@ -11,7 +11,15 @@ afterEach(() => cleanup());
 describe('SaturationChart', () => {
   it('shows the window buttons with 12 h pressed, and changes window on click', () => {
     const onHoursChange = vi.fn();
-    render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={onHoursChange} size={{ width: 800, height: 320 }} />);
+    render(
+      <SaturationChart
+        series={series()}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={onHoursChange}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const group = screen.getByRole('group', { name: 'Chart window' });
     const buttons = Array.from(group.querySelectorAll('button'));
     expect(buttons.map((b) => b.textContent)).toEqual(['6 h', '12 h', '24 h', '72 h']);
@@ -21,7 +29,15 @@ describe('SaturationChart', () => {
   });
 
   it('says in words what the chart shows, in the unit’s time zone', () => {
-    render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    render(
+      <SaturationChart
+        series={series()}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const summary = screen.getByTestId('chart-summary');
     expect(summary.className).toContain('sr-only');
     // 12:00Z on 12 March is 12:00 in London (GMT); the latest reading is 10 min earlier.
@@ -38,10 +54,18 @@ describe('SaturationChart', () => {
     expect(latest.querySelector('[data-state="below"]')!.textContent).toBe('below band');
   });
 
-  it('heads the chart with the newest reading itself and its source, not the last drawn point (a minute\'s mean on long windows)', () => {
+  it("heads the chart with the newest reading itself and its source, not the last drawn point (a minute's mean on long windows)", () => {
     const s = series({ newestReading: { t: T0 - 30_000, v: 86, trusted: true, source: 'device' } });
     s.spo2[s.spo2.length - 1] = { t: T0 - 60_000, v: 86.8, trusted: true, source: 'device' };
-    render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    render(
+      <SaturationChart
+        series={s}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const latest = screen.getByTestId('latest-spo2');
     expect(latest.textContent).toContain('86 %');
     expect(latest.textContent).not.toContain('86.8');
@@ -54,14 +78,28 @@ describe('SaturationChart', () => {
       { id: 2, t: T0 - 60 * 60_000, sao2: 86, spo2AtSample: 93, sampleType: 'arterial' as const, occult: true },
     ];
     const s = series({ bloodGases: gases });
-    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }}
-      extraMarks={{ name: 'SaO₂ (blood gas)', marks: gasMarksOf(s) }} />);
-    expect(container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"]:not([data-flag])')).toHaveLength(1);
-    const occult = container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"][data-flag="occult hypoxaemia"]');
+    const { container } = render(
+      <SaturationChart
+        series={s}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+        extraMarks={{ name: 'SaO₂ (blood gas)', marks: gasMarksOf(s) }}
+      />,
+    );
+    expect(container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"]:not([data-flag])')).toHaveLength(
+      1,
+    );
+    const occult = container.querySelectorAll(
+      '[data-testid="panel-spo2"] [data-mark="extra"][data-flag="occult hypoxaemia"]',
+    );
     expect(occult).toHaveLength(1);
     expect(occult[0]!.querySelector('circle')).not.toBeNull(); // ringed
     expect(occult[0]!.textContent).toBe('occult hypoxaemia'); // and named beside the mark
-    expect(screen.getByTestId('chart-summary').textContent).toContain('Blood gas at 11:00: SaO₂ 86 % while SpO₂ read 93 % — occult hypoxaemia.');
+    expect(screen.getByTestId('chart-summary').textContent).toContain(
+      'Blood gas at 11:00: SaO₂ 86 % while SpO₂ read 93 % — occult hypoxaemia.',
+    );
   });
 
   it('uses the unit’s zone, not the browser’s, for times', () => {
@@ -71,7 +109,15 @@ describe('SaturationChart', () => {
   });
 
   it('draws trusted readings filled and untrusted hollow when given a size', () => {
-    const { container } = render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    const { container } = render(
+      <SaturationChart
+        series={series()}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const svg = container.querySelector('svg.recharts-surface');
     expect(svg).not.toBeNull();
     const hollow = container.querySelectorAll('[data-mark="untrusted"]');
@@ -82,7 +128,15 @@ describe('SaturationChart', () => {
   });
 
   it('draws SpO₂ alone in its panel, heart rate and FiO₂ (labelled with device and flow) in their own', () => {
-    const { container } = render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    const { container } = render(
+      <SaturationChart
+        series={series()}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const spo2 = container.querySelector('[data-testid="panel-spo2"]')!;
     const hr = container.querySelector('[data-testid="panel-hr"]')!;
     const o2 = container.querySelector('[data-testid="panel-o2"]')!;
@@ -99,30 +153,61 @@ describe('SaturationChart', () => {
 
   it('shows a band ordered a second ago as a visible step', () => {
     const s = series();
-    s.bands = [{ ...s.bands[0]!, to: s.to - 1000 }, { from: s.to - 1000, to: s.to, low: 88, high: 92 }];
-    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    s.bands = [
+      { ...s.bands[0]!, to: s.to - 1000 },
+      { from: s.to - 1000, to: s.to, low: 88, high: 92 },
+    ];
+    const { container } = render(
+      <SaturationChart
+        series={s}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const rects = [...container.querySelectorAll('[data-testid="panel-spo2"] .recharts-reference-area-rect')];
     expect(rects).toHaveLength(2);
     expect(Number(rects[1]!.getAttribute('width'))).toBeGreaterThan(15);
   });
 
   it('reads every value at a time from the keyboard', () => {
-    render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }} />);
+    render(
+      <SaturationChart
+        series={series()}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
     const area = screen.getByTestId('chart-area');
     expect(area.getAttribute('tabindex')).toBe('0');
     fireEvent.keyDown(area, { key: 'End' });
     // The newest reading is 10 min old: at "now" the chart says there is no reading, not an old one.
-    expect(screen.getByTestId('chart-readout').textContent).toBe('12 Mar 12:00 · SpO₂ no reading · band 92–96 % · HR no reading · FiO₂ 0.50 High-flow nasal 40 L/min');
+    expect(screen.getByTestId('chart-readout').textContent).toBe(
+      '12 Mar 12:00 · SpO₂ no reading · band 92–96 % · HR no reading · FiO₂ 0.50 High-flow nasal 40 L/min',
+    );
     fireEvent.keyDown(area, { key: 'ArrowLeft' }); // a 120th of the window: 6 min
-    expect(screen.getByTestId('chart-readout').textContent).toBe('12 Mar 11:54 · SpO₂ 90 % below band, charted · band 92–96 % · HR 104/min · FiO₂ 0.50 High-flow nasal 40 L/min');
+    expect(screen.getByTestId('chart-readout').textContent).toBe(
+      '12 Mar 11:54 · SpO₂ 90 % below band, charted · band 92–96 % · HR 104/min · FiO₂ 0.50 High-flow nasal 40 L/min',
+    );
     fireEvent.keyDown(area, { key: 'Home' });
     expect(screen.getByTestId('chart-readout').textContent).toContain('12 Mar 00:00 · SpO₂ no reading · band 94–98 %');
   });
 
   it('takes an extra set of marks on the SpO₂ panel', () => {
     const s = series();
-    const { container } = render(<SaturationChart series={s} timeZone="Europe/London" hours={12} onHoursChange={() => {}} size={{ width: 800, height: 320 }}
-      extraMarks={{ name: 'SaO₂ (blood gas)', marks: [{ key: 1, t: s.to - 3_600_000, v: 86, label: 'SaO₂ 86 %' }] }} />);
+    const { container } = render(
+      <SaturationChart
+        series={s}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        size={{ width: 800, height: 320 }}
+        extraMarks={{ name: 'SaO₂ (blood gas)', marks: [{ key: 1, t: s.to - 3_600_000, v: 86, label: 'SaO₂ 86 %' }] }}
+      />,
+    );
     expect(container.querySelectorAll('[data-testid="panel-spo2"] [data-mark="extra"]')).toHaveLength(1);
     expect(screen.getByText('SaO₂ (blood gas)')).toBeTruthy();
   });
@@ -135,8 +220,19 @@ describe('SaturationChart', () => {
   });
 
   it('keeps the last chart with a stale notice when a refresh fails', () => {
-    render(<SaturationChart series={series()} timeZone="Europe/London" hours={12} onHoursChange={() => {}} error={new Error('offline')} size={{ width: 800, height: 320 }} />);
-    expect(screen.getByRole('alert').textContent).toBe('Could not refresh the chart — showing data from 12:00 (offline)');
+    render(
+      <SaturationChart
+        series={series()}
+        timeZone="Europe/London"
+        hours={12}
+        onHoursChange={() => {}}
+        error={new Error('offline')}
+        size={{ width: 800, height: 320 }}
+      />,
+    );
+    expect(screen.getByRole('alert').textContent).toBe(
+      'Could not refresh the chart — showing data from 12:00 (offline)',
+    );
     expect(screen.getByTestId('chart-summary')).toBeTruthy();
   });
 
@@ -172,8 +268,13 @@ describe('DerivedFigures', () => {
   it('shows ROX with its note, a complete NEWS2 with its response, and the P/F refusal note', () => {
     const d = series().derived;
     d.latest = {
-      ...d.latest, device: 'high_flow_nasal', fio2Estimated: false, rox: 4.12, roxNote: 'ROX between 3.85 and 4.88 at 12 h: reassess',
-      imputedPf: null, imputedPfNote: 'Not imputed: SpO₂ above 96 %',
+      ...d.latest,
+      device: 'high_flow_nasal',
+      fio2Estimated: false,
+      rox: 4.12,
+      roxNote: 'ROX between 3.85 and 4.88 at 12 h: reassess',
+      imputedPf: null,
+      imputedPfNote: 'Not imputed: SpO₂ above 96 %',
       news2: { total: 6, complete: true, missing: [], response: 'medium', scale: 2, takenAt: d.latest.takenAt! },
     };
     render(<DerivedFigures derived={d} timeZone="Europe/London" />);

@@ -11,10 +11,36 @@ afterEach(() => {
 });
 
 const first: OrderView[] = [
-  order({ id: 7, low: 92, high: 96, preset: 'tsanz_most', reason: 'Pneumonia, improving', orderedBy: 'Dr Imogen Vale' }),
-  order({ id: 6, low: 94, high: 98, preset: 'bts_most', reason: 'Admission', orderedAt: iso(T0 - 30 * 3_600_000), orderedBy: 'Dr Osric Lamb', supersedesId: null }),
+  order({
+    id: 7,
+    low: 92,
+    high: 96,
+    preset: 'tsanz_most',
+    reason: 'Pneumonia, improving',
+    orderedBy: 'Dr Imogen Vale',
+  }),
+  order({
+    id: 6,
+    low: 94,
+    high: 98,
+    preset: 'bts_most',
+    reason: 'Admission',
+    orderedAt: iso(T0 - 30 * 3_600_000),
+    orderedBy: 'Dr Osric Lamb',
+    supersedesId: null,
+  }),
 ];
-const newer = order({ id: 8, low: 88, high: 92, preset: 'bts_hypercapnic', news2Scale: 2, reason: 'CO₂ retention on gas', orderedAt: iso(T0 - 60_000), orderedBy: 'Dr Nell Farrow', supersedesId: 7 });
+const newer = order({
+  id: 8,
+  low: 88,
+  high: 92,
+  preset: 'bts_hypercapnic',
+  news2Scale: 2,
+  reason: 'CO₂ retention on gas',
+  orderedAt: iso(T0 - 60_000),
+  orderedBy: 'Dr Nell Farrow',
+  supersedesId: 7,
+});
 
 function setup(opts: { canOrder?: boolean; post?: (c: StubCall) => { status?: number; body: unknown } } = {}) {
   let served = first;
@@ -80,7 +106,12 @@ describe('TargetOrderPanel', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Order band' }));
     await waitFor(() => expect(posts(stub.calls)).toHaveLength(1));
     expect(posts(stub.calls)[0]!.body).toEqual({
-      low: 94, high: 98, preset: 'bts_most', reason: 'Off high-flow, settled', news2Scale: 1, basedOnOrderId: 7,
+      low: 94,
+      high: 98,
+      preset: 'bts_most',
+      reason: 'Off high-flow, settled',
+      news2Scale: 1,
+      basedOnOrderId: 7,
     });
     await waitFor(() => expect(screen.getByRole('status').textContent).toBe('Band 94–98 % ordered'));
     expect(field('Lower limit (%)').value).toBe('');
@@ -113,7 +144,10 @@ describe('TargetOrderPanel', () => {
   it('on 409 says someone ordered in between, refreshes the history and bases the next order on the new one', async () => {
     let n = 0;
     const stub = setup({
-      post: () => (++n === 1 ? { status: 409, body: { error: { code: 'stale_order', message: 'A newer order exists' } } } : { status: 201, body: {} }),
+      post: () =>
+        ++n === 1
+          ? { status: 409, body: { error: { code: 'stale_order', message: 'A newer order exists' } } }
+          : { status: 201, body: {} },
     });
     const gets = () => stub.calls.filter((c) => c.method === 'GET').length;
     // Let the first load settle, so the refreshed history below can only come from the 409 handling.
@@ -124,11 +158,15 @@ describe('TargetOrderPanel', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Order band' }));
     await waitFor(() => expect(screen.getByRole('alert').textContent).toBe(STALE_ORDER_MESSAGE));
     await waitFor(() => expect(gets()).toBe(2));
-    expect(STALE_ORDER_MESSAGE).toBe('Someone ordered a new band while you were editing — the history is refreshed; check it and order again');
+    expect(STALE_ORDER_MESSAGE).toBe(
+      'Someone ordered a new band while you were editing — the history is refreshed; check it and order again',
+    );
     expect((posts(stub.calls)[0]!.body as { basedOnOrderId: number }).basedOnOrderId).toBe(7);
     // The history now shows the order that came in between.
     await waitFor(() => expect(screen.getByTestId('current-band').textContent).toContain('88–92'));
-    expect(within(screen.getByTestId('order-history')).getAllByRole('listitem')[0]!.textContent).toContain('Dr Nell Farrow');
+    expect(within(screen.getByTestId('order-history')).getAllByRole('listitem')[0]!.textContent).toContain(
+      'Dr Nell Farrow',
+    );
     // The typed order stays; ordering again is based on the order now in force.
     expect(field('Lower limit (%)').value).toBe('94');
     fireEvent.click(screen.getByRole('button', { name: 'Order band' }));
@@ -137,12 +175,25 @@ describe('TargetOrderPanel', () => {
   });
 
   it('shows the server’s field errors against the inputs', async () => {
-    setup({ post: () => ({ status: 400, body: { error: { code: 'invalid', message: 'Check the band', fields: { high: 'The upper limit must be at least 2 points above the lower' } } } }) });
+    setup({
+      post: () => ({
+        status: 400,
+        body: {
+          error: {
+            code: 'invalid',
+            message: 'Check the band',
+            fields: { high: 'The upper limit must be at least 2 points above the lower' },
+          },
+        },
+      }),
+    });
     fireEvent.change(field('Lower limit (%)'), { target: { value: '90' } });
     fireEvent.change(field('Upper limit (%)'), { target: { value: '94' } });
     fireEvent.change(field('Reason for this band'), { target: { value: 'Trial' } });
     fireEvent.click(screen.getByRole('button', { name: 'Order band' }));
-    await waitFor(() => expect(screen.getByText('The upper limit must be at least 2 points above the lower')).toBeTruthy());
+    await waitFor(() =>
+      expect(screen.getByText('The upper limit must be at least 2 points above the lower')).toBeTruthy(),
+    );
     expect(field('Upper limit (%)').getAttribute('aria-invalid')).toBe('true');
     expect(screen.getByRole('alert').textContent).toContain('Check the band');
   });

@@ -28,7 +28,8 @@ export interface TargetOrderPanelProps {
   co2RetentionRisk?: boolean;
 }
 
-export const STALE_ORDER_MESSAGE = 'Someone ordered a new band while you were editing — the history is refreshed; check it and order again';
+export const STALE_ORDER_MESSAGE =
+  'Someone ordered a new band while you were editing — the history is refreshed; check it and order again';
 
 /** Short name of a preset's source for its button ("BTS 2017"); the full text is shown beside it. */
 export function presetShortSource(p: { id: string; source: string }): string {
@@ -38,10 +39,23 @@ export function presetShortSource(p: { id: string; source: string }): string {
 }
 const presetById = (id: string | null) => TARGET_PRESETS.find((p) => p.id === id) ?? null;
 
-interface FormValues { low: string; high: string; preset: string | null; reason: string; news2Scale: '1' | '2'; scaleReason: string }
+interface FormValues {
+  low: string;
+  high: string;
+  preset: string | null;
+  reason: string;
+  news2Scale: '1' | '2';
+  scaleReason: string;
+}
 const EMPTY: FormValues = { low: '', high: '', preset: null, reason: '', news2Scale: '1', scaleReason: '' };
 
-export default function TargetOrderPanel({ patientId, timeZone, canOrder, initialOrders, co2RetentionRisk }: TargetOrderPanelProps) {
+export default function TargetOrderPanel({
+  patientId,
+  timeZone,
+  canOrder,
+  initialOrders,
+  co2RetentionRisk,
+}: TargetOrderPanelProps) {
   const keys = chartKeys(patientId);
   const { data, error } = usePolled<{ orders: OrderView[] }>(keys.targets, POLL_MS, {
     fallbackData: initialOrders ? { orders: initialOrders } : undefined,
@@ -51,36 +65,63 @@ export default function TargetOrderPanel({ patientId, timeZone, canOrder, initia
 
   return (
     <section aria-labelledby="target-title" data-testid="target-panel">
-      <h2 id="target-title" className="text-lg font-bold">Target band</h2>
+      <h2 id="target-title" className="text-lg font-bold">
+        Target band
+      </h2>
       {current ? (
         <div className="mt-1" data-testid="current-band">
           <p className="text-4xl font-bold tracking-tight text-ink-800 dark:text-glass-200">
             {current.low}–{current.high} <span className="text-2xl">%</span>
           </p>
           <p className="text-sm">
-            NEWS2 Scale {current.news2Scale} · ordered by {current.orderedBy}, {formatDateTime(current.orderedAt, timeZone)}
+            NEWS2 Scale {current.news2Scale} · ordered by {current.orderedBy},{' '}
+            {formatDateTime(current.orderedAt, timeZone)}
           </p>
           <p className="text-sm text-ink-600 dark:text-ink-300">Reason: {current.reason}</p>
         </div>
       ) : (
-        <p className="mt-1 font-bold" data-testid="current-band">No band ordered yet — time in band cannot be judged.</p>
+        <p className="mt-1 font-bold" data-testid="current-band">
+          No band ordered yet — time in band cannot be judged.
+        </p>
       )}
-      {error && <p role="alert" className="mt-2 text-sm text-coral-800 dark:text-coral-200">Could not refresh the orders: {errorText(error)}</p>}
+      {error && (
+        <p role="alert" className="mt-2 text-sm text-coral-800 dark:text-coral-200">
+          Could not refresh the orders: {errorText(error)}
+        </p>
+      )}
 
-      {canOrder && <OrderForm patientId={patientId} newestId={current?.id ?? null} co2RetentionRisk={co2RetentionRisk} timeZone={timeZone} />}
+      {canOrder && (
+        <OrderForm
+          patientId={patientId}
+          newestId={current?.id ?? null}
+          co2RetentionRisk={co2RetentionRisk}
+          timeZone={timeZone}
+        />
+      )}
 
       <h3 className="mt-4 text-base font-bold">Order history</h3>
       {orders.length === 0 ? (
         <p className="text-sm text-ink-500">No orders.</p>
       ) : (
-        <ol className="mt-1 divide-y divide-ink-100 text-sm dark:divide-ink-800" data-testid="order-history" aria-label="Order history, newest first">
+        <ol
+          className="mt-1 divide-y divide-ink-100 text-sm dark:divide-ink-800"
+          data-testid="order-history"
+          aria-label="Order history, newest first"
+        >
           {orders.map((o, i) => {
             const preset = presetById(o.preset);
             return (
               <li key={o.id} className="py-1.5" data-order-id={o.id}>
                 <p>
-                  <strong>{o.low}–{o.high} %</strong> · NEWS2 Scale {o.news2Scale}
-                  {i === 0 && <span className="ml-2 rounded bg-glass-100 px-1.5 text-xs font-bold text-glass-800 dark:bg-glass-900 dark:text-glass-200">in force</span>}
+                  <strong>
+                    {o.low}–{o.high} %
+                  </strong>{' '}
+                  · NEWS2 Scale {o.news2Scale}
+                  {i === 0 && (
+                    <span className="ml-2 rounded bg-glass-100 px-1.5 text-xs font-bold text-glass-800 dark:bg-glass-900 dark:text-glass-200">
+                      in force
+                    </span>
+                  )}
                 </p>
                 <p className="text-ink-600 dark:text-ink-300">
                   {formatDateTime(o.orderedAt, timeZone)} · {o.orderedBy}
@@ -88,7 +129,11 @@ export default function TargetOrderPanel({ patientId, timeZone, canOrder, initia
                 <p>Reason: {o.reason}</p>
                 {o.scaleReason && <p>Scale reason: {o.scaleReason}</p>}
                 {o.scale2Basis && <p data-testid="scale2-basis">Blood gas: {o.scale2Basis}</p>}
-                {preset && <p className="text-xs text-ink-500 dark:text-ink-400">Preset: {presetShortSource(preset)} — {preset.source}</p>}
+                {preset && (
+                  <p className="text-xs text-ink-500 dark:text-ink-400">
+                    Preset: {presetShortSource(preset)} — {preset.source}
+                  </p>
+                )}
               </li>
             );
           })}
@@ -103,17 +148,35 @@ function Scale2Gas({ patientId, timeZone }: { patientId: number; timeZone: strin
   const { data } = usePolled<BloodGasList>(`${chartKeys(patientId).patient}/blood-gases`, POLL_MS);
   if (!data) return null;
   const g = data.bloodGases.find((x) => x.status === 'current' && x.sampleType !== 'venous') ?? null;
-  if (!g) return <p className="mt-1 text-sm font-bold" data-testid="scale2-gas">No blood gas supports Scale 2: no arterial or capillary PaCO₂ charted. The order will say so.</p>;
+  if (!g)
+    return (
+      <p className="mt-1 text-sm font-bold" data-testid="scale2-gas">
+        No blood gas supports Scale 2: no arterial or capillary PaCO₂ charted. The order will say so.
+      </p>
+    );
   const supports = supportsScale2({ sampleType: g.sampleType, paco2MmHg: g.paco2MmHg });
   return (
     <p className="mt-1 text-sm" data-testid="scale2-gas">
-      Most recent gas ({g.sampleType}, {formatDayTime(g.sampledAt, timeZone)}): <strong>PaCO₂ {formatGas(g.paco2MmHg, data.gasUnit)}</strong>, <strong>pH {g.ph.toFixed(2)}</strong>
-      {supports ? ' — shows hypercapnia.' : ' — does not show hypercapnia (PaCO₂ not above 6.0 kPa / 45 mmHg); the order will say so.'}
+      Most recent gas ({g.sampleType}, {formatDayTime(g.sampledAt, timeZone)}):{' '}
+      <strong>PaCO₂ {formatGas(g.paco2MmHg, data.gasUnit)}</strong>, <strong>pH {g.ph.toFixed(2)}</strong>
+      {supports
+        ? ' — shows hypercapnia.'
+        : ' — does not show hypercapnia (PaCO₂ not above 6.0 kPa / 45 mmHg); the order will say so.'}
     </p>
   );
 }
 
-function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patientId: number; newestId: number | null; co2RetentionRisk?: boolean; timeZone: string }) {
+function OrderForm({
+  patientId,
+  newestId,
+  co2RetentionRisk,
+  timeZone,
+}: {
+  patientId: number;
+  newestId: number | null;
+  co2RetentionRisk?: boolean;
+  timeZone: string;
+}) {
   const uid = useId();
   const id = (f: string) => `${uid}-${f}`;
   const refresh = useRefreshChart(patientId);
@@ -179,14 +242,24 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
   }
 
   const err = (f: string) =>
-    errors[f] ? <p id={id(`${f}-error`)} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300" data-field-error={f}>{errors[f]}</p> : null;
+    errors[f] ? (
+      <p id={id(`${f}-error`)} className="mt-0.5 text-sm text-coral-700 dark:text-coral-300" data-field-error={f}>
+        {errors[f]}
+      </p>
+    ) : null;
   const aria = (f: string, extra?: string) => ({
     'aria-invalid': errors[f] ? (true as const) : undefined,
     'aria-describedby': [extra, errors[f] ? id(`${f}-error`) : undefined].filter(Boolean).join(' ') || undefined,
   });
 
   return (
-    <form onSubmit={submit} noValidate aria-label="Order a new band" className="mt-4 rounded-md border border-ink-200 p-3 dark:border-ink-700" data-testid="order-form">
+    <form
+      onSubmit={submit}
+      noValidate
+      aria-label="Order a new band"
+      className="mt-4 rounded-md border border-ink-200 p-3 dark:border-ink-700"
+      data-testid="order-form"
+    >
       <h3 className="text-base font-bold">Order a new band</h3>
       {co2RetentionRisk && <p className="text-sm">This patient is marked at risk of CO₂ retention.</p>}
       <fieldset className="mt-2">
@@ -201,8 +274,12 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
               aria-describedby={id(`src-${p.id}`)}
               onClick={() => edit({ low: String(p.low), high: String(p.high), preset: p.id })}
             >
-              <span>{p.low}–{p.high} % · {presetShortSource(p)}</span>
-              <span id={id(`src-${p.id}`)} className="text-xs font-normal text-ink-500 dark:text-ink-400">{p.source}</span>
+              <span>
+                {p.low}–{p.high} % · {presetShortSource(p)}
+              </span>
+              <span id={id(`src-${p.id}`)} className="text-xs font-normal text-ink-500 dark:text-ink-400">
+                {p.source}
+              </span>
             </button>
           ))}
         </div>
@@ -210,29 +287,75 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
       </fieldset>
       <div className="mt-3 grid grid-cols-2 gap-3">
         <div>
-          <label htmlFor={id('low')} className="block text-sm font-bold">Lower limit (%)</label>
-          <input id={id('low')} className="field" type="text" inputMode="numeric" autoComplete="off" value={v.low} onChange={(e) => edit({ low: e.target.value })} {...aria('low')} />
+          <label htmlFor={id('low')} className="block text-sm font-bold">
+            Lower limit (%)
+          </label>
+          <input
+            id={id('low')}
+            className="field"
+            type="text"
+            inputMode="numeric"
+            autoComplete="off"
+            value={v.low}
+            onChange={(e) => edit({ low: e.target.value })}
+            {...aria('low')}
+          />
           {err('low')}
         </div>
         <div>
-          <label htmlFor={id('high')} className="block text-sm font-bold">Upper limit (%)</label>
-          <input id={id('high')} className="field" type="text" inputMode="numeric" autoComplete="off" value={v.high} onChange={(e) => edit({ high: e.target.value })} {...aria('high')} />
+          <label htmlFor={id('high')} className="block text-sm font-bold">
+            Upper limit (%)
+          </label>
+          <input
+            id={id('high')}
+            className="field"
+            type="text"
+            inputMode="numeric"
+            autoComplete="off"
+            value={v.high}
+            onChange={(e) => edit({ high: e.target.value })}
+            {...aria('high')}
+          />
           {err('high')}
         </div>
       </div>
       <div className="mt-3">
-        <label htmlFor={id('reason')} className="block text-sm font-bold">Reason for this band</label>
-        <input id={id('reason')} className="field" type="text" autoComplete="off" value={v.reason} onChange={(e) => edit({ reason: e.target.value })} {...aria('reason')} />
+        <label htmlFor={id('reason')} className="block text-sm font-bold">
+          Reason for this band
+        </label>
+        <input
+          id={id('reason')}
+          className="field"
+          type="text"
+          autoComplete="off"
+          value={v.reason}
+          onChange={(e) => edit({ reason: e.target.value })}
+          {...aria('reason')}
+        />
         {err('reason')}
       </div>
       <fieldset className="mt-3" {...aria('news2Scale', id('scale-hint'))}>
         <legend className="text-sm font-bold">NEWS2 SpO₂ scale</legend>
         <div className="flex gap-4">
           <label className="inline-flex items-center gap-1">
-            <input type="radio" name={id('scale')} value="1" checked={v.news2Scale === '1'} onChange={() => edit({ news2Scale: '1' })} /> Scale 1
+            <input
+              type="radio"
+              name={id('scale')}
+              value="1"
+              checked={v.news2Scale === '1'}
+              onChange={() => edit({ news2Scale: '1' })}
+            />{' '}
+            Scale 1
           </label>
           <label className="inline-flex items-center gap-1">
-            <input type="radio" name={id('scale')} value="2" checked={v.news2Scale === '2'} onChange={() => edit({ news2Scale: '2' })} /> Scale 2
+            <input
+              type="radio"
+              name={id('scale')}
+              value="2"
+              checked={v.news2Scale === '2'}
+              onChange={() => edit({ news2Scale: '2' })}
+            />{' '}
+            Scale 2
           </label>
         </div>
         <p id={id('scale-hint')} className="text-xs text-ink-500 dark:text-ink-400" data-testid="scale-hint">
@@ -245,19 +368,42 @@ function OrderForm({ patientId, newestId, co2RetentionRisk, timeZone }: { patien
       </fieldset>
       {needsScaleReason && (
         <div className="mt-2">
-          <label htmlFor={id('scaleReason')} className="block text-sm font-bold">Reason for Scale 2 with this band</label>
-          <input id={id('scaleReason')} className="field" type="text" autoComplete="off" value={v.scaleReason} onChange={(e) => edit({ scaleReason: e.target.value })} {...aria('scaleReason')} />
+          <label htmlFor={id('scaleReason')} className="block text-sm font-bold">
+            Reason for Scale 2 with this band
+          </label>
+          <input
+            id={id('scaleReason')}
+            className="field"
+            type="text"
+            autoComplete="off"
+            value={v.scaleReason}
+            onChange={(e) => edit({ scaleReason: e.target.value })}
+            {...aria('scaleReason')}
+          />
           {err('scaleReason')}
         </div>
       )}
       {!needsScaleReason && err('scaleReason')}
       {newerArrived && !alert && (
-        <p className="mt-2 text-sm font-bold text-amberline-700 dark:text-amberline-400">A newer order has arrived since you began — check the history before ordering.</p>
+        <p className="mt-2 text-sm font-bold text-amberline-700 dark:text-amberline-400">
+          A newer order has arrived since you began — check the history before ordering.
+        </p>
       )}
-      {alert && <p role="alert" className="mt-2 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200">{alert}</p>}
+      {alert && (
+        <p
+          role="alert"
+          className="mt-2 rounded-md border border-coral-300 bg-coral-50 p-2 text-sm text-coral-800 dark:border-coral-700 dark:bg-coral-900/30 dark:text-coral-200"
+        >
+          {alert}
+        </p>
+      )}
       <div className="mt-3 flex items-center gap-3">
-        <button type="submit" className="btn-primary" disabled={busy}>{busy ? 'Ordering…' : 'Order band'}</button>
-        <p role="status" aria-live="polite" className="text-sm font-bold text-glass-700 dark:text-glass-300">{status}</p>
+        <button type="submit" className="btn-primary" disabled={busy}>
+          {busy ? 'Ordering…' : 'Order band'}
+        </button>
+        <p role="status" aria-live="polite" className="text-sm font-bold text-glass-700 dark:text-glass-300">
+          {status}
+        </p>
       </div>
     </form>
   );

@@ -84,17 +84,43 @@ const STATE_CLASSES: Record<BandStateName, string> = {
 /** Our own marks: chevron down (below), chevron up (above), dot (in band), hatched ring (untrusted). */
 export function StateIcon({ state, className = 'h-3.5 w-3.5' }: { state: BandStateName; className?: string }) {
   const hatchId = `hatch${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
-  const common = { className, viewBox: '0 0 16 16', 'aria-hidden': true as const, focusable: 'false' as const };
+  const common = { className, viewBox: '0 0 16 16', focusable: 'false' as const };
   switch (state) {
     case 'below':
-      return <svg {...common}><path d="M3 5.5 8 10.5 13 5.5" fill="none" stroke="currentColor" strokeWidth="2.4" strokeLinecap="round" strokeLinejoin="round" /></svg>;
+      return (
+        <svg {...common} aria-hidden="true">
+          <path
+            d="M3 5.5 8 10.5 13 5.5"
+            fill="none"
+            stroke="currentColor"
+            strokeWidth="2.4"
+            strokeLinecap="round"
+            strokeLinejoin="round"
+          />
+        </svg>
+      );
     case 'above':
-      return <svg {...common}><path d="M3 10.5 8 5.5 13 10.5" fill="none" stroke="currentColor" strokeWidth="2.4" strokeLinecap="round" strokeLinejoin="round" /></svg>;
+      return (
+        <svg {...common} aria-hidden="true">
+          <path
+            d="M3 10.5 8 5.5 13 10.5"
+            fill="none"
+            stroke="currentColor"
+            strokeWidth="2.4"
+            strokeLinecap="round"
+            strokeLinejoin="round"
+          />
+        </svg>
+      );
     case 'in':
-      return <svg {...common}><circle cx="8" cy="8" r="4" fill="currentColor" /></svg>;
+      return (
+        <svg {...common} aria-hidden="true">
+          <circle cx="8" cy="8" r="4" fill="currentColor" />
+        </svg>
+      );
     case 'untrusted':
       return (
-        <svg {...common}>
+        <svg {...common} aria-hidden="true">
           <defs>
             <pattern id={hatchId} width="3" height="3" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
               <line x1="0" y1="0" x2="0" y2="3" stroke="currentColor" strokeWidth="1" />
@@ -104,17 +130,23 @@ export function StateIcon({ state, className = 'h-3.5 w-3.5' }: { state: BandSta
         </svg>
       );
     default:
-      return <svg {...common}><line x1="4" y1="8" x2="12" y2="8" stroke="currentColor" strokeWidth="2" /></svg>;
+      return (
+        <svg {...common} aria-hidden="true">
+          <line x1="4" y1="8" x2="12" y2="8" stroke="currentColor" strokeWidth="2" />
+        </svg>
+      );
   }
 }
 
 /** Mark + word, e.g. "⌄ below band". */
 export function StateBadge({ state, className = '' }: { state: BandStateName; className?: string }) {
   return (
-    <span className={`inline-flex items-center gap-1 font-bold ${STATE_CLASSES[state]} ${className}`} data-state={state}>
+    <span
+      className={`inline-flex items-center gap-1 font-bold ${STATE_CLASSES[state]} ${className}`}
+      data-state={state}
+    >
       <StateIcon state={state} />
       <span>{bandStateWord(state)}</span>
     </span>
   );
 }
-

@@ -15,11 +15,25 @@ export default function PatientEscalations({ patientId, timeZone }: { patientId:
   return (
     <section aria-label="Open escalations" className="mb-4 space-y-2" data-testid="patient-escalations">
       {list.map((e) => (
-        <p key={e.id} className={`rounded-md border-l-8 bg-white p-3 shadow-sm dark:bg-ink-900 ${e.kind === 'below_band' ? 'border-coral-500' : e.kind === 'wean_prompt' ? 'border-iris-500' : 'border-ink-400'}`}>
-          <strong>{e.severity === 'urgent' ? 'URGENT · ' : ''}{e.kindLabel}</strong>
+        <p
+          key={e.id}
+          className={`rounded-md border-l-8 bg-white p-3 shadow-sm dark:bg-ink-900 ${e.kind === 'below_band' ? 'border-coral-500' : e.kind === 'wean_prompt' ? 'border-iris-500' : 'border-ink-400'}`}
+        >
+          <strong>
+            {e.severity === 'urgent' ? 'URGENT · ' : ''}
+            {e.kindLabel}
+          </strong>
           {' · '}raised {time(e.raisedAt)} · {e.state === 'claimed' ? `claimed by ${e.claimedBy}` : 'not yet claimed'}
           {e.backInBandAt ? ` · back in band since ${time(e.backInBandAt)}` : ''}
-          {e.kind !== 'wean_prompt' && <> · <a className="underline" href="/escalations">outreach queue</a></>}
+          {e.kind !== 'wean_prompt' && (
+            <>
+              {' '}
+              ·{' '}
+              <a className="underline" href="/escalations">
+                outreach queue
+              </a>
+            </>
+          )}
           {e.kind === 'wean_prompt' && ' — above band on oxygen: consider weaning, per the treating team'}
         </p>
       ))}

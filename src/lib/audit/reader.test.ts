@@ -12,7 +12,24 @@ describe('audit reader', () => {
   });
 
   it('writes times in the given zone, 24-hour, day first', () => {
-    const csv = auditCsv([{ id: 1, at: '2026-07-02T05:14:09.000Z', atLocal: '', actorId: 3, actorName: 'Ana Lim', actorEmail: 'ana@x.example', action: 'user.create', entity: 'user', entityId: '9', before: null, after: { role: 'nurse' } }], 'Europe/London');
+    const csv = auditCsv(
+      [
+        {
+          id: 1,
+          at: '2026-07-02T05:14:09.000Z',
+          atLocal: '',
+          actorId: 3,
+          actorName: 'Ana Lim',
+          actorEmail: 'ana@x.example',
+          action: 'user.create',
+          entity: 'user',
+          entityId: '9',
+          before: null,
+          after: { role: 'nurse' },
+        },
+      ],
+      'Europe/London',
+    );
     const [head, row] = csv.trim().split('\r\n');
     expect(head).toBe('time (Europe/London),person,e-mail,action,entity,entity id,before,after');
     // 05:14 UTC is 06:14 in London in July (BST, UTC+1).

@@ -16,7 +16,15 @@ const PAGE_RULES: { prefix: string; roles: readonly Role[] }[] = [
 
 // /api/ingest is authenticated by the device key in the endpoint, not by a session.
 // /set-password and its API are authorised by the single-use token in the link.
-export const PUBLIC_PATHS = ['/signin', '/api/health', '/api/theme', '/forbidden', '/api/ingest', '/set-password', '/api/account/password-link'];
+export const PUBLIC_PATHS = [
+  '/signin',
+  '/api/health',
+  '/api/theme',
+  '/forbidden',
+  '/api/ingest',
+  '/set-password',
+  '/api/account/password-link',
+];
 
 /** What a person who must choose a new password may still reach (everything else waits). */
 const PASSWORD_CHANGE_PATHS = ['/account', '/api/account/password', '/api/me', '/api/theme'];
@@ -26,10 +34,14 @@ export function allowedBeforePasswordChange(path: string): boolean {
 }
 
 export function isPublicPath(path: string): boolean {
-  return PUBLIC_PATHS.includes(path) || path.startsWith('/api/auth/') || path.startsWith('/_astro/') || path === '/favicon.svg';
+  return (
+    PUBLIC_PATHS.includes(path) ||
+    path.startsWith('/api/auth/') ||
+    path.startsWith('/_astro/') ||
+    path === '/favicon.svg'
+  );
 }
 
 export function pageRolesFor(path: string): readonly Role[] | null {
   return PAGE_RULES.find((rule) => path === rule.prefix || path.startsWith(`${rule.prefix}/`))?.roles ?? null;
 }
-

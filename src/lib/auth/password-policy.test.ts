@@ -27,7 +27,9 @@ describe('password policy (NIST SP 800-63B)', () => {
   });
 
   it('refuses the e-mail address itself', () => {
-    expect(passwordProblem('nurse.jones@harbourside.example', { email: 'nurse.jones@harbourside.example' })).toMatch(/e-mail/);
+    expect(passwordProblem('nurse.jones@harbourside.example', { email: 'nurse.jones@harbourside.example' })).toMatch(
+      /e-mail/,
+    );
   });
 
   it('estimates strength for the meter (zxcvbn scores 0–4)', () => {

@@ -27,23 +27,33 @@ export function isCommonPassword(password: string): boolean {
 /** The first reason a password is refused, or null when it is acceptable. */
 export function passwordProblem(password: string, context: { email?: string; name?: string } = {}): string | null {
   if ([...password].length < PASSWORD_MIN) return `Use at least ${PASSWORD_MIN} characters.`;
-  if (new TextEncoder().encode(password).length > PASSWORD_MAX_BYTES) return `Use at most ${PASSWORD_MAX_BYTES} bytes (about 64 characters).`;
+  if (new TextEncoder().encode(password).length > PASSWORD_MAX_BYTES)
+    return `Use at most ${PASSWORD_MAX_BYTES} bytes (about 64 characters).`;
   if (isCommonPassword(password)) return 'This password is on a list of commonly used passwords; choose another.';
   const email = context.email?.toLowerCase();
-  if (email && (password.toLowerCase() === email || password.toLowerCase() === email.split('@')[0])) return 'Do not use your e-mail address as your password.';
+  if (email && (password.toLowerCase() === email || password.toLowerCase() === email.split('@')[0]))
+    return 'Do not use your e-mail address as your password.';
   return null;
 }
 
 export const STRENGTH_WORDS = ['very weak', 'weak', 'fair', 'good', 'strong'] as const;
 
-export interface Strength { score: 0 | 1 | 2 | 3 | 4; word: (typeof STRENGTH_WORDS)[number]; hint: string | null }
+export interface Strength {
+  score: 0 | 1 | 2 | 3 | 4;
+  word: (typeof STRENGTH_WORDS)[number];
+  hint: string | null;
+}
 
 /** zxcvbn's estimate (0–4) with a word and its first suggestion; shown while typing, never a rule. */
 export function passwordStrength(password: string, userInputs: string[] = []): Strength {
   factory ??= new ZxcvbnFactory({ dictionary: { ...common.dictionary }, graphs: common.adjacencyGraphs });
   const result = factory.check(password.slice(0, 100), userInputs);
   const score = result.score as Strength['score'];
-  return { score, word: STRENGTH_WORDS[score], hint: result.feedback.warning ? warningText(result.feedback.warning) : null };
+  return {
+    score,
+    word: STRENGTH_WORDS[score],
+    hint: result.feedback.warning ? warningText(result.feedback.warning) : null,
+  };
 }
 
 // zxcvbn-ts returns warning keys when no translations are loaded; say them in plain words.

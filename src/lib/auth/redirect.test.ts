@@ -8,7 +8,18 @@ describe('safeLocalPath', () => {
   });
 
   it('refuses every way off the site the probe found, and the usual others', () => {
-    for (const bad of ['/\\evil.example', '/\t/evil.example', '/\n/evil.example', '//evil.example', 'https://evil.example', 'evil.example', '/\\/evil.example', ' /x', '', '/x\u0000']) {
+    for (const bad of [
+      '/\\evil.example',
+      '/\t/evil.example',
+      '/\n/evil.example',
+      '//evil.example',
+      'https://evil.example',
+      'evil.example',
+      '/\\/evil.example',
+      ' /x',
+      '',
+      '/x\u0000',
+    ]) {
       expect(safeLocalPath(bad), JSON.stringify(bad)).toBe('/');
     }
     expect(safeLocalPath(null)).toBe('/');

@@ -8,6 +8,7 @@ const BASE = 'http://ebbwatch.invalid';
 export function safeLocalPath(raw: string | null | undefined, fallback = '/'): string {
   if (typeof raw !== 'string' || raw.length === 0 || raw.length > 500) return fallback;
   if (!raw.startsWith('/') || raw.startsWith('//')) return fallback;
+  // biome-ignore lint/suspicious/noControlCharactersInRegex: refusing control characters is the point
   if (/[\\\u0000-\u001f\u007f\s]/.test(raw)) return fallback;
   try {
     const url = new URL(raw, BASE);

@@ -52,7 +52,11 @@ export function seesUnit(user: { role: Role; unitId: number | null }, unitId: nu
   return spansUnits(user.role) || (user.unitId !== null && user.unitId === unitId);
 }
 
-export interface NavItem { href: string; label: string; roles: readonly Role[] }
+export interface NavItem {
+  href: string;
+  label: string;
+  roles: readonly Role[];
+}
 
 /** The navigation, by role. Add an entry when a screen lands; a role sees only what it may open. */
 export const NAV_ITEMS: readonly NavItem[] = [

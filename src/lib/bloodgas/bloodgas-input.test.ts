@@ -2,7 +2,16 @@ import { describe, expect, it } from 'vitest';
 import { bloodGasInputSchema, gasBounds } from './bloodgas-input.ts';
 
 const now = new Date('2026-12-02T10:00:00Z');
-const ok = { sampledAt: '2026-12-02T09:30:00Z', sampleType: 'arterial', gasUnit: 'kPa', ph: 7.38, pao2: 8.1, paco2: 5.6, sao2: 91, fio2: 0.4 };
+const ok = {
+  sampledAt: '2026-12-02T09:30:00Z',
+  sampleType: 'arterial',
+  gasUnit: 'kPa',
+  ph: 7.38,
+  pao2: 8.1,
+  paco2: 5.6,
+  sao2: 91,
+  fio2: 0.4,
+};
 const fields = (body: unknown) => {
   const r = bloodGasInputSchema(now).safeParse(body);
   return r.success ? {} : Object.fromEntries(r.error.issues.map((i) => [i.path.join('.'), i.message]));

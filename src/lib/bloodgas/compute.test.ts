@@ -1,7 +1,21 @@
 import { describe, expect, it } from 'vitest';
 import {
-  aaGradient, alveolarPo2, berlinBand, deriveGas, formatGas, gasFlags, isOccultHypoxaemia, kpaToMmHg, MMHG_PER_KPA, mmHgToKpa, pfRatio,
-  runningBias, spo2Sao2Difference, supportsScale2, RESPIRATORY_QUOTIENT, WATER_VAPOUR_MMHG,
+  aaGradient,
+  alveolarPo2,
+  berlinBand,
+  deriveGas,
+  formatGas,
+  gasFlags,
+  isOccultHypoxaemia,
+  kpaToMmHg,
+  MMHG_PER_KPA,
+  mmHgToKpa,
+  pfRatio,
+  runningBias,
+  spo2Sao2Difference,
+  supportsScale2,
+  RESPIRATORY_QUOTIENT,
+  WATER_VAPOUR_MMHG,
 } from './compute.ts';
 
 describe('kPa ↔ mmHg (1 kPa = 7.50062 mmHg, from the definitions of the pascal and the mmHg)', () => {
@@ -57,28 +71,48 @@ describe('Occult hypoxaemia (Sjoding et al., N Engl J Med 2020;383:2477: SaO₂ 
 describe('SpO₂–SaO₂ difference and running bias (median over the pairs; our definition)', () => {
   it('difference is SpO₂ minus SaO₂', () => expect(spo2Sao2Difference(94, 86)).toBe(8));
   it('median of odd and even counts', () => {
-    expect(runningBias([{ spo2: 94, sao2: 86 }, { spo2: 95, sao2: 93 }, { spo2: 92, sao2: 89 }])).toEqual({ median: 3, pairs: 3 });
-    expect(runningBias([{ spo2: 94, sao2: 86 }, { spo2: 95, sao2: 93 }])).toEqual({ median: 5, pairs: 2 });
+    expect(
+      runningBias([
+        { spo2: 94, sao2: 86 },
+        { spo2: 95, sao2: 93 },
+        { spo2: 92, sao2: 89 },
+      ]),
+    ).toEqual({ median: 3, pairs: 3 });
+    expect(
+      runningBias([
+        { spo2: 94, sao2: 86 },
+        { spo2: 95, sao2: 93 },
+      ]),
+    ).toEqual({ median: 5, pairs: 2 });
     expect(runningBias([])).toBeNull();
   });
 });
 
 describe('deriveGas', () => {
   it('oxygen content from measured SaO₂ (standard physiology: Hb 15, 0.98, 100 mmHg → 20.0 mL/dL)', () => {
-    const d = deriveGas({ sampleType: 'arterial', pao2MmHg: 100, paco2MmHg: 40, sao2: 98, fio2: 0.21, hbGdl: 15, spo2AtSample: 97 }, 760);
+    const d = deriveGas(
+      { sampleType: 'arterial', pao2MmHg: 100, paco2MmHg: 40, sao2: 98, fio2: 0.21, hbGdl: 15, spo2AtSample: 97 },
+      760,
+    );
     expect(d.oxygenContent).toBe(20);
     expect(d.pf).toBe(476);
     expect(d.berlinBand).toBe('above_300');
     expect(d.spo2Difference).toBe(-1);
   });
   it('the REFERENCES.md alveolar check through deriveGas', () => {
-    const d = deriveGas({ sampleType: 'arterial', pao2MmHg: 90, paco2MmHg: 40, sao2: 97, fio2: 0.21, hbGdl: null, spo2AtSample: null }, 760);
+    const d = deriveGas(
+      { sampleType: 'arterial', pao2MmHg: 90, paco2MmHg: 40, sao2: 97, fio2: 0.21, hbGdl: null, spo2AtSample: null },
+      760,
+    );
     expect(d.alveolarPo2).toBe(99.7);
     expect(d.aaGradient).toBe(9.7);
     expect(d.oxygenContent).toBeNull();
   });
   it('a venous sample gives no arterial figures and says why', () => {
-    const d = deriveGas({ sampleType: 'venous', pao2MmHg: 40, paco2MmHg: 46, sao2: 70, fio2: 0.4, hbGdl: 12, spo2AtSample: 95 }, 760);
+    const d = deriveGas(
+      { sampleType: 'venous', pao2MmHg: 40, paco2MmHg: 46, sao2: 70, fio2: 0.4, hbGdl: 12, spo2AtSample: 95 },
+      760,
+    );
     expect(d.pf).toBeNull();
     expect(d.aaGradient).toBeNull();
     expect(d.notes[0]).toMatch(/arterial sample/);
@@ -86,7 +120,8 @@ describe('deriveGas', () => {
 });
 
 describe('Scale 2 support (hypercapnia PaCO₂ > 45 mmHg / 6.0 kPa: common practice, no single source)', () => {
-  it('supports with an arterial PaCO₂ above 45 mmHg', () => expect(supportsScale2({ sampleType: 'arterial', paco2MmHg: kpaToMmHg(7.2) })).toBe(true));
+  it('supports with an arterial PaCO₂ above 45 mmHg', () =>
+    expect(supportsScale2({ sampleType: 'arterial', paco2MmHg: kpaToMmHg(7.2) })).toBe(true));
   it('not at 45 mmHg, not from a venous gas, not without a gas', () => {
     expect(supportsScale2({ sampleType: 'arterial', paco2MmHg: 45 })).toBe(false);
     expect(supportsScale2({ sampleType: 'venous', paco2MmHg: 60 })).toBe(false);

@@ -88,7 +88,9 @@ export function isOccultHypoxaemia(sao2: number, spo2: number): boolean {
 }
 
 /** Median of SpO₂ − SaO₂ over a patient's pairs; null with no pairs. */
-export function runningBias(pairs: readonly { spo2: number; sao2: number }[]): { median: number; pairs: number } | null {
+export function runningBias(
+  pairs: readonly { spo2: number; sao2: number }[],
+): { median: number; pairs: number } | null {
   if (pairs.length === 0) return null;
   const d = pairs.map((p) => spo2Sao2Difference(p.spo2, p.sao2)).sort((a, b) => a - b);
   const mid = d.length >> 1;
@@ -96,7 +98,13 @@ export function runningBias(pairs: readonly { spo2: number; sao2: number }[]): {
 }
 
 export interface GasForDerivation {
-  sampleType: SampleType; pao2MmHg: number; paco2MmHg: number; sao2: number; fio2: number; hbGdl: number | null; spo2AtSample: number | null;
+  sampleType: SampleType;
+  pao2MmHg: number;
+  paco2MmHg: number;
+  sao2: number;
+  fio2: number;
+  hbGdl: number | null;
+  spo2AtSample: number | null;
 }
 
 export interface DerivedGas {
@@ -117,14 +125,26 @@ const r1 = (v: number) => Math.round(v * 10) / 10;
 /** Every figure a gas gives. A venous or capillary PO₂ is not arterial: no P/F, A–a or pair is made from it. */
 export function deriveGas(g: GasForDerivation, barometricMmHg: number): DerivedGas {
   if (g.sampleType !== 'arterial') {
-    return { pf: null, berlinBand: null, alveolarPo2: null, aaGradient: null, oxygenContent: null, spo2Difference: null,
-      notes: [`${g.sampleType === 'venous' ? 'Venous' : 'Capillary'} sample: P/F, A–a gradient, O₂ content and the SpO₂ pair need an arterial sample`] };
+    return {
+      pf: null,
+      berlinBand: null,
+      alveolarPo2: null,
+      aaGradient: null,
+      oxygenContent: null,
+      spo2Difference: null,
+      notes: [
+        `${g.sampleType === 'venous' ? 'Venous' : 'Capillary'} sample: P/F, A–a gradient, O₂ content and the SpO₂ pair need an arterial sample`,
+      ],
+    };
   }
   const pf = pfRatio(g.pao2MmHg, g.fio2);
   const pao2 = alveolarPo2(g.fio2, barometricMmHg, g.paco2MmHg);
   const notes = ['Berlin bands apply with PEEP or CPAP ≥ 5 cmH₂O; they are shown, not a diagnosis'];
   return {
-    pf: Math.round(pf), berlinBand: berlinBand(pf), alveolarPo2: r1(pao2), aaGradient: r1(pao2 - g.pao2MmHg),
+    pf: Math.round(pf),
+    berlinBand: berlinBand(pf),
+    alveolarPo2: r1(pao2),
+    aaGradient: r1(pao2 - g.pao2MmHg),
     oxygenContent: g.hbGdl === null ? null : r1(oxygenContent(g.hbGdl, g.sao2 / 100, g.pao2MmHg)),
     spo2Difference: g.spo2AtSample === null ? null : spo2Sao2Difference(g.spo2AtSample, g.sao2),
     notes,

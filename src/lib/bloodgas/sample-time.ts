@@ -10,7 +10,10 @@ export function unitDayOptions(now: Date, timeZone: string, days = 2): { value: 
   const out: { value: string; label: string }[] = [];
   for (let i = 0; i < days; i++) {
     const at = new Date(now.getTime() - i * 86_400_000);
-    out.push({ value: formatInTimeZone(at, timeZone, 'yyyy-MM-dd'), label: `${formatInTimeZone(at, timeZone, 'd MMM')}${i === 0 ? ' (today)' : i === 1 ? ' (yesterday)' : ''}` });
+    out.push({
+      value: formatInTimeZone(at, timeZone, 'yyyy-MM-dd'),
+      label: `${formatInTimeZone(at, timeZone, 'd MMM')}${i === 0 ? ' (today)' : i === 1 ? ' (yesterday)' : ''}`,
+    });
   }
   return out;
 }

@@ -11,15 +11,43 @@ function device(minsAgo: number, spo2: number, extra: Partial<Reading> = {}): Re
   return { at: now - minsAgo * min, spo2, trace: 'clean', source: 'device', heartRate: 90, ...extra };
 }
 function charted(minsAgo: number, spo2: number, extra: Partial<Reading> = {}): Reading {
-  return { at: now - minsAgo * min, spo2, trace: 'clean', source: 'charted', heartRate: 90, fio2: 0.28, device: 'nasal_cannula', ...extra };
+  return {
+    at: now - minsAgo * min,
+    spo2,
+    trace: 'clean',
+    source: 'charted',
+    heartRate: 90,
+    fio2: 0.28,
+    device: 'nasal_cannula',
+    ...extra,
+  };
 }
 function bed(label: string, unsorted: Reading[], over: Partial<BedInput> = {}): BedInput {
   const readings = [...unsorted].sort((a, b) => a.at - b.at);
   const lastCharted = [...readings].reverse().find((r) => r.source === 'charted');
   return {
-    bedId: label.length, bedLabel: label, patient: { id: 1, label: 'AB ·123', co2RetentionRisk: false }, band, readings,
-    lastCharted: lastCharted ? { at: lastCharted.at, spo2: lastCharted.spo2, heartRate: 90, respRate: 18, fio2: 0.28, fio2Estimated: true, device: 'nasal_cannula', systolic: 120, temperature: 37, consciousness: 'alert' } : null,
-    escalation: null, nurse: null, ...over,
+    bedId: label.length,
+    bedLabel: label,
+    patient: { id: 1, label: 'AB ·123', co2RetentionRisk: false },
+    band,
+    readings,
+    lastCharted: lastCharted
+      ? {
+          at: lastCharted.at,
+          spo2: lastCharted.spo2,
+          heartRate: 90,
+          respRate: 18,
+          fio2: 0.28,
+          fio2Estimated: true,
+          device: 'nasal_cannula',
+          systolic: 120,
+          temperature: 37,
+          consciousness: 'alert',
+        }
+      : null,
+    escalation: null,
+    nurse: null,
+    ...over,
   };
 }
 const everyMinute = (from: number, to: number, spo2: (m: number) => number, extra: Partial<Reading> = {}) =>
@@ -29,7 +57,11 @@ describe('board tiles', () => {
   const settings = DEFAULT_UNIT_SETTINGS;
 
   it('says below band with its duration when trusted device readings stay under the lower limit', () => {
-    const t = buildTile(bed('4-01', [charted(30, 94), ...everyMinute(40, 19, () => 94), ...everyMinute(18, 0, () => 88)]), now, settings);
+    const t = buildTile(
+      bed('4-01', [charted(30, 94), ...everyMinute(40, 19, () => 94), ...everyMinute(18, 0, () => 88)]),
+      now,
+      settings,
+    );
     expect(t.state).toMatchObject({ name: 'below', sinceMin: 18, was: null });
     expect(t.concern.key).toBe('below_band');
     expect(t.concern.reason).toBe('Below band 18 min');
@@ -43,7 +75,11 @@ describe('board tiles', () => {
   });
 
   it('never lets a poor trace make a below-band concern: it makes a cannot-verify concern instead', () => {
-    const t = buildTile(bed('4-03', [charted(30, 94), ...everyMinute(20, 0, () => 80, { trace: 'noisy' })]), now, settings);
+    const t = buildTile(
+      bed('4-03', [charted(30, 94), ...everyMinute(20, 0, () => 80, { trace: 'noisy' })]),
+      now,
+      settings,
+    );
     expect(t.concerns.belowBand).toBeNull();
     expect(t.concern.key).toBe('cannot_verify');
     expect(t.state.name).toBe('untrusted');
@@ -62,7 +98,11 @@ describe('board tiles', () => {
   });
 
   it('prompts weaning when above band on oxygen for 30 min', () => {
-    const t = buildTile(bed('4-02', [charted(20, 98, { fio2: 0.35 }), ...everyMinute(35, 0, () => 98, { fio2: 0.35 })]), now, settings);
+    const t = buildTile(
+      bed('4-02', [charted(20, 98, { fio2: 0.35 }), ...everyMinute(35, 0, () => 98, { fio2: 0.35 })]),
+      now,
+      settings,
+    );
     expect(t.concern.key).toBe('above_on_oxygen');
     expect(t.state.name).toBe('above');
   });
@@ -79,14 +119,40 @@ describe('board tiles', () => {
     const tiles = [
       buildTile({ ...bed('E', []), patient: null }, now, settings),
       buildTile(bed('IN', [charted(20, 94), ...everyMinute(5, 0, () => 94)]), now, settings),
-      buildTile(bed('ABOVE', [charted(20, 98, { fio2: 0.35 }), ...everyMinute(35, 0, () => 98, { fio2: 0.35 })]), now, settings),
+      buildTile(
+        bed('ABOVE', [charted(20, 98, { fio2: 0.35 }), ...everyMinute(35, 0, () => 98, { fio2: 0.35 })]),
+        now,
+        settings,
+      ),
       buildTile(bed('OVERDUE', [charted(90, 94), ...everyMinute(5, 0, () => 94)]), now, settings),
       buildTile(bed('NOBAND', [charted(20, 94)], { band: null }), now, settings),
       buildTile(bed('CV', [charted(20, 94), ...everyMinute(20, 0, () => 80, { trace: 'noisy' })]), now, settings),
       buildTile(bed('BELOW', [charted(20, 94), ...everyMinute(10, 0, () => 89)]), now, settings),
-      buildTile(bed('URGENT', [charted(20, 94), ...everyMinute(3, 0, () => 91)], { escalation: { id: 1, kind: 'below_band', severity: 'urgent', state: 'raised', raisedAt: now, claimedBy: null } }), now, settings),
+      buildTile(
+        bed('URGENT', [charted(20, 94), ...everyMinute(3, 0, () => 91)], {
+          escalation: {
+            id: 1,
+            kind: 'below_band',
+            severity: 'urgent',
+            state: 'raised',
+            raisedAt: now,
+            claimedBy: null,
+          },
+        }),
+        now,
+        settings,
+      ),
     ];
-    expect(sortTiles(tiles).map((t) => t.bedLabel)).toEqual(['URGENT', 'BELOW', 'CV', 'NOBAND', 'OVERDUE', 'ABOVE', 'IN', 'E']);
+    expect(sortTiles(tiles).map((t) => t.bedLabel)).toEqual([
+      'URGENT',
+      'BELOW',
+      'CV',
+      'NOBAND',
+      'OVERDUE',
+      'ABOVE',
+      'IN',
+      'E',
+    ]);
   });
 
   it('gives screen readers one sentence with the state in words', () => {
@@ -99,7 +165,14 @@ describe('board tiles', () => {
 describe('every value has its age (issue 10 points 1 and 4)', () => {
   const settings = DEFAULT_UNIT_SETTINGS; // monitor silent after 3 min (a unit setting)
   const London = 'Europe/London'; // = UTC in December
-  const seconds = (secAgo: number, spo2: number, extra: Partial<Reading> = {}): Reading => ({ at: now - secAgo * 1000, spo2, trace: 'clean', source: 'device', heartRate: 90, ...extra });
+  const seconds = (secAgo: number, spo2: number, extra: Partial<Reading> = {}): Reading => ({
+    at: now - secAgo * 1000,
+    spo2,
+    trace: 'clean',
+    source: 'device',
+    heartRate: 90,
+    ...extra,
+  });
 
   it('the big number says where it comes from and how old it is', () => {
     const t = buildTile(bed('4-01', [charted(30, 94), seconds(40, 94)]), now, settings, London);
@@ -129,12 +202,27 @@ describe('every value has its age (issue 10 points 1 and 4)', () => {
   it('a monitor quiet for less than the unit setting is not silent', () => {
     const t = buildTile(bed('4-04', [charted(30, 94), seconds(170, 94)]), now, settings, London);
     expect(t.monitor).toMatchObject({ silent: false });
-    expect(buildTile(bed('4-04', [charted(30, 94), seconds(170, 94)]), now, { ...settings, monitorSilentMin: 2 }, London).monitor?.silent).toBe(true);
+    expect(
+      buildTile(bed('4-04', [charted(30, 94), seconds(170, 94)]), now, { ...settings, monitorSilentMin: 2 }, London)
+        .monitor?.silent,
+    ).toBe(true);
   });
 
   it('an untrusted reading says why: its trace, or its perfusion index under the unit threshold with the value', () => {
-    const pi = buildTile(bed('4-05', [charted(30, 94), ...Array.from({ length: 20 }, (_, i) => seconds(i * 50, 85, { perfusionIndex: 0.2 })).reverse()]), now, settings, London);
-    expect(pi.latest).toMatchObject({ trusted: false, trace: 'clean', untrustedReason: 'perfusion index 0.2 % under 0.4 %' });
+    const pi = buildTile(
+      bed('4-05', [
+        charted(30, 94),
+        ...Array.from({ length: 20 }, (_, i) => seconds(i * 50, 85, { perfusionIndex: 0.2 })).reverse(),
+      ]),
+      now,
+      settings,
+      London,
+    );
+    expect(pi.latest).toMatchObject({
+      trusted: false,
+      trace: 'clean',
+      untrustedReason: 'perfusion index 0.2 % under 0.4 %',
+    });
     expect(stateWords(pi)).toMatch(/^untrusted reading/);
     expect(pi.sentence).toContain('not trusted: perfusion index 0.2 % under 0.4 %');
     expect(pi.sentence).not.toContain('poor trace');
@@ -142,4 +230,3 @@ describe('every value has its age (issue 10 points 1 and 4)', () => {
     expect(noisy.latest?.untrustedReason).toBe('noisy trace');
   });
 });
-

@@ -15,11 +15,19 @@ describe('values at a time on the bed chart', () => {
 
   it('reads the FiO₂ step and the band in force, with SpO₂ and heart rate', () => {
     const s = {
-      bucketMs: 0, from: T, to: T + 60 * MIN,
+      bucketMs: 0,
+      from: T,
+      to: T + 60 * MIN,
       spo2: [{ t: T + 5 * MIN, v: 91, trusted: true, source: 'device' }],
       heartRate: [{ t: T + 5 * MIN, v: 88 }],
-      fio2: [{ t: T, v: 0.35, device: 'simple_mask', flowLpm: 6, estimated: false }, { t: T + 20 * MIN, v: 0.5, device: 'high_flow_nasal', flowLpm: 40, estimated: false }],
-      bands: [{ from: T, to: T + 30 * MIN, low: 92, high: 96 }, { from: T + 30 * MIN, to: T + 60 * MIN, low: 88, high: 92 }],
+      fio2: [
+        { t: T, v: 0.35, device: 'simple_mask', flowLpm: 6, estimated: false },
+        { t: T + 20 * MIN, v: 0.5, device: 'high_flow_nasal', flowLpm: 40, estimated: false },
+      ],
+      bands: [
+        { from: T, to: T + 30 * MIN, low: 92, high: 96 },
+        { from: T + 30 * MIN, to: T + 60 * MIN, low: 88, high: 92 },
+      ],
     } as unknown as SeriesResponse;
     const v = valuesAt(s, T + 6 * MIN);
     expect(v.spo2?.v).toBe(91);

@@ -43,5 +43,11 @@ export function bandIn(bands: readonly BandSegment[], t: number): BandSegment | 
  */
 export function valuesAt(s: SeriesResponse, t: number): ValuesAt {
   const reach = Math.max(s.bucketMs, 5 * 60_000);
-  return { t, spo2: nearest(s.spo2, t, reach), heartRate: nearest(s.heartRate, t, reach), fio2: stepAt(s.fio2, t), band: bandIn(s.bands, t) };
+  return {
+    t,
+    spo2: nearest(s.spo2, t, reach),
+    heartRate: nearest(s.heartRate, t, reach),
+    fio2: stepAt(s.fio2, t),
+    band: bandIn(s.bands, t),
+  };
 }

@@ -3,13 +3,29 @@ import { news2 } from '~/lib/oxygenation/news2.ts';
 import { news2InputOf, type ChartedObs } from './charted-obs.ts';
 
 const obs: ChartedObs = {
-  at: 0, spo2: 95, heartRate: 80, respRate: 16, fio2: 0.28, fio2Estimated: true, device: 'nasal_cannula',
-  systolic: 120, temperature: 37, consciousness: 'alert',
+  at: 0,
+  spo2: 95,
+  heartRate: 80,
+  respRate: 16,
+  fio2: 0.28,
+  fio2Estimated: true,
+  device: 'nasal_cannula',
+  systolic: 120,
+  temperature: 37,
+  consciousness: 'alert',
 };
 
 describe('news2InputOf', () => {
   it('maps every NEWS2 parameter from the charted obs', () => {
-    expect(news2InputOf(obs)).toEqual({ respRate: 16, spo2: 95, onOxygen: true, systolic: 120, pulse: 80, temperature: 37, consciousness: 'alert' });
+    expect(news2InputOf(obs)).toEqual({
+      respRate: 16,
+      spo2: 95,
+      onOxygen: true,
+      systolic: 120,
+      pulse: 80,
+      temperature: 37,
+      consciousness: 'alert',
+    });
   });
   it('reads room air as not on oxygen and an absent device as unknown', () => {
     expect(news2InputOf({ ...obs, device: 'room_air' }).onOxygen).toBe(false);

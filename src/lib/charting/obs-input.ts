@@ -6,7 +6,6 @@ import { z } from 'zod';
 import { OXYGEN_DEVICES, TRACE_QUALITIES, type OxygenDevice } from '~/lib/oxygenation/types.ts';
 import { CONSCIOUSNESS, type Consciousness } from '~/lib/oxygenation/news2.ts';
 
-
 export const DEVICE_LABELS: Record<OxygenDevice, string> = {
   room_air: 'Room air',
   nasal_cannula: 'Nasal cannula',
@@ -28,7 +27,12 @@ export const CONSCIOUSNESS_LABELS: Record<Consciousness, string> = {
 /** Devices whose FiO₂ is set on the machine: it must be charted, never estimated. */
 export const SET_FIO2_DEVICES: readonly OxygenDevice[] = ['high_flow_nasal', 'niv', 'ventilator'];
 /** Devices where a flow in L/min means something. */
-export const FLOW_DEVICES: readonly OxygenDevice[] = ['nasal_cannula', 'simple_mask', 'reservoir_mask', 'high_flow_nasal'];
+export const FLOW_DEVICES: readonly OxygenDevice[] = [
+  'nasal_cannula',
+  'simple_mask',
+  'reservoir_mask',
+  'high_flow_nasal',
+];
 
 export const MAX_BACKDATE_HOURS = 4;
 /** A little slack for clocks that disagree between a bedside PC and the server. */
@@ -72,14 +76,23 @@ export const obsFieldsSchema = z.object({
   heartRate: optionalNumber('Heart rate', 20, 300, '/min', { int: true }),
   respRate: optionalNumber('Respiratory rate', 2, 80, '/min', { int: true }),
   fio2: fio2Field,
-  device: z.enum(OXYGEN_DEVICES as [OxygenDevice, ...OxygenDevice[]], { errorMap: () => ({ message: 'Choose the oxygen device (room air if none)' }) }),
+  device: z.enum(OXYGEN_DEVICES as [OxygenDevice, ...OxygenDevice[]], {
+    errorMap: () => ({ message: 'Choose the oxygen device (room air if none)' }),
+  }),
   flowLpm: optionalNumber('Flow', 0.5, 80, ' L/min'),
-  trace: z.enum(TRACE_QUALITIES as ['clean', 'weak', 'noisy', 'absent'], { errorMap: () => ({ message: 'Choose the trace quality' }) }).default('clean'),
+  trace: z
+    .enum(TRACE_QUALITIES as ['clean', 'weak', 'noisy', 'absent'], {
+      errorMap: () => ({ message: 'Choose the trace quality' }),
+    })
+    .default('clean'),
   perfusionIndex: optionalNumber('Perfusion index', 0.01, 30, ' %'),
   probeSite: z.preprocess(emptyToUndefined, z.string().trim().max(32, 'Probe site: 32 characters at most').optional()),
   systolic: optionalNumber('Systolic BP', 40, 300, ' mmHg', { int: true }),
   temperature: optionalNumber('Temperature', 25, 45, ' °C'),
-  consciousness: z.preprocess(emptyToUndefined, z.enum(CONSCIOUSNESS, { errorMap: () => ({ message: 'Choose a level of consciousness' }) }).optional()),
+  consciousness: z.preprocess(
+    emptyToUndefined,
+    z.enum(CONSCIOUSNESS, { errorMap: () => ({ message: 'Choose a level of consciousness' }) }).optional(),
+  ),
   note: z.preprocess(emptyToUndefined, z.string().trim().max(1000, 'Note: 1000 characters at most').optional()),
 });
 
@@ -96,22 +109,45 @@ export function obsInputSchema(now: Date, maxBackdateHours = MAX_BACKDATE_HOURS)
       ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['takenAt'], message: 'Time taken cannot be in the future' });
     }
     if (t < now.getTime() - maxBackdateHours * 3_600_000) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['takenAt'], message: maxBackdateHours === MAX_BACKDATE_HOURS ? `Obs can be back-dated by ${MAX_BACKDATE_HOURS} hours at most` : `A correction can reach back ${maxBackdateHours / 24} days at most` });
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['takenAt'],
+        message:
+          maxBackdateHours === MAX_BACKDATE_HOURS
+            ? `Obs can be back-dated by ${MAX_BACKDATE_HOURS} hours at most`
+            : `A correction can reach back ${maxBackdateHours / 24} days at most`,
+      });
     }
     if (o.spo2 === undefined && o.trace !== 'absent') {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['spo2'], message: 'Enter SpO₂, or set the trace to "absent" if there is no reading' });
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['spo2'],
+        message: 'Enter SpO₂, or set the trace to "absent" if there is no reading',
+      });
     }
     if (SET_FIO2_DEVICES.includes(o.device) && o.fio2 === undefined) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['fio2'], message: `Chart the FiO₂ set on the ${DEVICE_LABELS[o.device]} — it is never estimated` });
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['fio2'],
+        message: `Chart the FiO₂ set on the ${DEVICE_LABELS[o.device]} — it is never estimated`,
+      });
     }
     if (o.device === 'room_air' && o.fio2 !== undefined && o.fio2 !== 0.21) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['fio2'], message: 'On room air FiO₂ is 21 % — choose the oxygen device in use' });
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['fio2'],
+        message: 'On room air FiO₂ is 21 % — choose the oxygen device in use',
+      });
     }
     if (o.device === 'high_flow_nasal' && o.flowLpm === undefined) {
       ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['flowLpm'], message: 'Chart the high-flow rate in L/min' });
     }
     if (o.flowLpm !== undefined && !FLOW_DEVICES.includes(o.device)) {
-      ctx.addIssue({ code: z.ZodIssueCode.custom, path: ['flowLpm'], message: `Flow does not apply to ${DEVICE_LABELS[o.device]}` });
+      ctx.addIssue({
+        code: z.ZodIssueCode.custom,
+        path: ['flowLpm'],
+        message: `Flow does not apply to ${DEVICE_LABELS[o.device]}`,
+      });
     }
   });
 }
@@ -129,10 +165,18 @@ export function obsNotices(o: Pick<ObsFields, 'spo2'>): string[] {
 
 export const correctionSchema = (now: Date) =>
   z.object({
-    reason: z.string({ required_error: 'Give the reason for the correction' }).trim().min(3, 'Give the reason for the correction').max(500),
+    reason: z
+      .string({ required_error: 'Give the reason for the correction' })
+      .trim()
+      .min(3, 'Give the reason for the correction')
+      .max(500),
     obs: obsInputSchema(now, CORRECTION_MAX_AGE_HOURS),
   });
 
 export const enteredInErrorSchema = z.object({
-  reason: z.string({ required_error: 'Give the reason this entry is in error' }).trim().min(3, 'Give the reason this entry is in error').max(500),
+  reason: z
+    .string({ required_error: 'Give the reason this entry is in error' })
+    .trim()
+    .min(3, 'Give the reason this entry is in error')
+    .max(500),
 });

@@ -61,48 +61,65 @@ export function useForm() {
     });
   }, []);
 
-  const attempt = useCallback(async <T>(work: () => Promise<T>, options: SubmitOptions): Promise<{ ok: true; value: T } | { ok: false }> => {
-    if (running.current) return { ok: false };
-    running.current = true;
-    setBusy(true);
-    setAlert(null);
-    setStatus('');
-    try {
-      const value = await work();
-      setErrors({});
-      return { ok: true, value };
-    } catch (err) {
-      const fieldErrors = !(err instanceof ApiClientError) ? {} : options.rawFieldPaths ? { ...err.fields } : apiFieldErrors(err);
-      setErrors(fieldErrors);
-      setAlert(`${options.failurePrefix ?? ''}${errorText(err)}`);
-      options.onRefused?.(fieldErrors, err);
-      return { ok: false };
-    } finally {
-      running.current = false;
-      setBusy(false);
-    }
-  }, []);
+  const attempt = useCallback(
+    async <T>(work: () => Promise<T>, options: SubmitOptions): Promise<{ ok: true; value: T } | { ok: false }> => {
+      if (running.current) return { ok: false };
+      running.current = true;
+      setBusy(true);
+      setAlert(null);
+      setStatus('');
+      try {
+        const value = await work();
+        setErrors({});
+        return { ok: true, value };
+      } catch (err) {
+        const fieldErrors = !(err instanceof ApiClientError)
+          ? {}
+          : options.rawFieldPaths
+            ? { ...err.fields }
+            : apiFieldErrors(err);
+        setErrors(fieldErrors);
+        setAlert(`${options.failurePrefix ?? ''}${errorText(err)}`);
+        options.onRefused?.(fieldErrors, err);
+        return { ok: false };
+      } finally {
+        running.current = false;
+        setBusy(false);
+      }
+    },
+    [],
+  );
 
   /**
    * Runs one submission. Returns what `work` returned, or undefined when it was refused or failed
    * (the alert and field errors then say why) or when another submission was still running.
    */
-  const submit = useCallback(async <T>(work: () => Promise<T>, options: SubmitOptions = {}): Promise<T | undefined> => {
-    const outcome = await attempt(work, options);
-    return outcome.ok ? outcome.value : undefined;
-  }, [attempt]);
+  const submit = useCallback(
+    async <T>(work: () => Promise<T>, options: SubmitOptions = {}): Promise<T | undefined> => {
+      const outcome = await attempt(work, options);
+      return outcome.ok ? outcome.value : undefined;
+    },
+    [attempt],
+  );
 
   /**
    * One action of a list screen (add, rename, revoke…): on success the status line says `done`
    * and `after` runs (re-read the list). True when it was done.
    */
-  const act = useCallback(async (done: string, work: () => Promise<unknown>, options: SubmitOptions & { after?: () => unknown } = {}): Promise<boolean> => {
-    const outcome = await attempt(work, options);
-    if (!outcome.ok) return false;
-    setStatus(done);
-    await options.after?.();
-    return true;
-  }, [attempt]);
+  const act = useCallback(
+    async (
+      done: string,
+      work: () => Promise<unknown>,
+      options: SubmitOptions & { after?: () => unknown } = {},
+    ): Promise<boolean> => {
+      const outcome = await attempt(work, options);
+      if (!outcome.ok) return false;
+      setStatus(done);
+      await options.after?.();
+      return true;
+    },
+    [attempt],
+  );
 
   return { errors, setErrors, clearErrors, alert, setAlert, status, setStatus, busy, submit, act };
 }

@@ -22,7 +22,13 @@ export interface PollOptions<T> {
 
 /** `key` null: nothing is fetched (the caller may not need it, e.g. a list only one role sees). */
 export function usePolled<T>(key: string | null, pollMs: number, options: PollOptions<T> = {}): SWRResponse<T> {
-  const { fallbackData, keepPreviousData = true, revalidateOnFocus, retryMs = POLL_RETRY_MS, fetcher = fetchJson<T> } = options;
+  const {
+    fallbackData,
+    keepPreviousData = true,
+    revalidateOnFocus,
+    retryMs = POLL_RETRY_MS,
+    fetcher = fetchJson<T>,
+  } = options;
   return useSWR<T>(key, fetcher, {
     fallbackData,
     keepPreviousData,

@@ -22,8 +22,13 @@ describe('demo history (invented)', () => {
   });
   it('never overlaps two stays in one bed, and keeps obs inside each stay', () => {
     const byBed = new Map<string, { a: number; d: number }[]>();
-    for (const p of h.patients) byBed.set(p.bedLabel, [...(byBed.get(p.bedLabel) ?? []), { a: p.admittedAt.getTime(), d: p.dischargedAt.getTime() }]);
-    for (const stays of byBed.values()) for (let i = 1; i < stays.length; i++) expect(stays[i]!.a).toBeGreaterThan(stays[i - 1]!.d);
+    for (const p of h.patients)
+      byBed.set(p.bedLabel, [
+        ...(byBed.get(p.bedLabel) ?? []),
+        { a: p.admittedAt.getTime(), d: p.dischargedAt.getTime() },
+      ]);
+    for (const stays of byBed.values())
+      for (let i = 1; i < stays.length; i++) expect(stays[i]!.a).toBeGreaterThan(stays[i - 1]!.d);
     const stay = new Map(h.patients.map((p) => [p.mrn, p]));
     for (const o of h.observations) {
       const p = stay.get(o.mrn)!;

@@ -11,23 +11,92 @@ import { demoPatients, demoUnits, type DemoObservation, type DemoPatient } from 
 export const HISTORY_DAYS = 14;
 
 export interface PastPatient {
-  mrn: string; givenName: string; familyName: string; dateOfBirth: string; co2RetentionRisk: boolean;
-  unitCode: string; bedLabel: string; admittedAt: Date; dischargedAt: Date;
+  mrn: string;
+  givenName: string;
+  familyName: string;
+  dateOfBirth: string;
+  co2RetentionRisk: boolean;
+  unitCode: string;
+  bedLabel: string;
+  admittedAt: Date;
+  dischargedAt: Date;
   band: { low: number; high: number; news2Scale: 1 | 2; preset: string; reason: string };
-  device: DemoPatient['device']; fio2: number; flowLpm: number | null;
+  device: DemoPatient['device'];
+  fio2: number;
+  flowLpm: number | null;
 }
 export interface PastEscalation {
-  mrn: string; kind: 'below_band' | 'probe_check'; severity: 'standard' | 'urgent' | null; raisedAt: Date; claimedAt: Date; closedAt: Date;
-  outcome: 'treated_at_bedside' | 'reviewed_by_outreach' | 'reading_was_artefact'; runStart: Date; runEnd: Date; lowest: number;
+  mrn: string;
+  kind: 'below_band' | 'probe_check';
+  severity: 'standard' | 'urgent' | null;
+  raisedAt: Date;
+  claimedAt: Date;
+  closedAt: Date;
+  outcome: 'treated_at_bedside' | 'reviewed_by_outreach' | 'reading_was_artefact';
+  runStart: Date;
+  runEnd: Date;
+  lowest: number;
 }
-export interface DemoHistory { patients: PastPatient[]; observations: DemoObservation[]; escalations: PastEscalation[] }
+export interface DemoHistory {
+  patients: PastPatient[];
+  observations: DemoObservation[];
+  escalations: PastEscalation[];
+}
 
-const GIVEN = ['Aldous', 'Brigid', 'Casimir', 'Delphine', 'Emrys', 'Fenella', 'Gwilym', 'Hesper', 'Ivo', 'Jessamy', 'Kit', 'Lark', 'Merrin', 'Nye', 'Orla', 'Piran', 'Rosamund', 'Silas', 'Tamsyn', 'Ulric'];
-const FAMILY = ['Ashcombe', 'Bramwell', 'Coldridge', 'Dunmore', 'Eastwick', 'Farrant', 'Glanville', 'Hartop', 'Inchbald', 'Jellicoe', 'Kestle', 'Lanyon', 'Moyle', 'Nancarrow', 'Ottery', 'Pendarves', 'Quiller', 'Rosewarne', 'Sennen', 'Trebilcock'];
+const GIVEN = [
+  'Aldous',
+  'Brigid',
+  'Casimir',
+  'Delphine',
+  'Emrys',
+  'Fenella',
+  'Gwilym',
+  'Hesper',
+  'Ivo',
+  'Jessamy',
+  'Kit',
+  'Lark',
+  'Merrin',
+  'Nye',
+  'Orla',
+  'Piran',
+  'Rosamund',
+  'Silas',
+  'Tamsyn',
+  'Ulric',
+];
+const FAMILY = [
+  'Ashcombe',
+  'Bramwell',
+  'Coldridge',
+  'Dunmore',
+  'Eastwick',
+  'Farrant',
+  'Glanville',
+  'Hartop',
+  'Inchbald',
+  'Jellicoe',
+  'Kestle',
+  'Lanyon',
+  'Moyle',
+  'Nancarrow',
+  'Ottery',
+  'Pendarves',
+  'Quiller',
+  'Rosewarne',
+  'Sennen',
+  'Trebilcock',
+];
 const BANDS = [
   { low: 92, high: 96, news2Scale: 1 as const, preset: 'tsanz-2015', reason: 'Standard ICU target on admission' },
   { low: 94, high: 98, news2Scale: 1 as const, preset: 'bts-2017', reason: 'Acutely unwell, no CO2 retention risk' },
-  { low: 88, high: 92, news2Scale: 2 as const, preset: 'bts-2017-hypercapnic', reason: 'Known CO2 retainer (COPD), bicarbonate raised' },
+  {
+    low: 88,
+    high: 92,
+    news2Scale: 2 as const,
+    preset: 'bts-2017-hypercapnic',
+    reason: 'Known CO2 retainer (COPD), bicarbonate raised',
+  },
 ];
 const DEVICES: { device: DemoPatient['device']; fio2: number; flowLpm: number | null; estimated: boolean }[] = [
   { device: 'nasal_cannula', fio2: 0.28, flowLpm: 2, estimated: true },
@@ -62,31 +131,65 @@ export function generateDemoHistory(now: Date, seed = 20261203): DemoHistory {
         const band = BANDS[Math.floor(rand() * BANDS.length)]!;
         const dev = DEVICES[Math.floor(rand() * DEVICES.length)]!;
         const pt: PastPatient = {
-          mrn: `HV${String(700000 + serial * 37).padStart(6, '0')}`, givenName: GIVEN[(serial * 7) % GIVEN.length]!, familyName: FAMILY[(serial * 11 + 3) % FAMILY.length]!,
+          mrn: `HV${String(700000 + serial * 37).padStart(6, '0')}`,
+          givenName: GIVEN[(serial * 7) % GIVEN.length]!,
+          familyName: FAMILY[(serial * 11 + 3) % FAMILY.length]!,
           dateOfBirth: `${1940 + Math.floor(rand() * 55)}-${String(1 + Math.floor(rand() * 12)).padStart(2, '0')}-${String(1 + Math.floor(rand() * 28)).padStart(2, '0')}`,
-          co2RetentionRisk: band.low === 88, unitCode: unit.code, bedLabel, admittedAt: new Date(admittedAt), dischargedAt: new Date(dischargedAt), band,
-          device: dev.device, fio2: dev.fio2, flowLpm: dev.flowLpm,
+          co2RetentionRisk: band.low === 88,
+          unitCode: unit.code,
+          bedLabel,
+          admittedAt: new Date(admittedAt),
+          dischargedAt: new Date(dischargedAt),
+          band,
+          device: dev.device,
+          fio2: dev.fio2,
+          flowLpm: dev.flowLpm,
         };
         patients.push(pt);
         const mid = Math.round((band.low + band.high) / 2);
         // One below-band spell in about half the stays, and a poor-trace spell in a third.
-        const dipAt = rand() < 0.5 ? admittedAt + (6 + Math.floor(rand() * ((dischargedAt - admittedAt) / HOUR - 12))) * HOUR : null;
+        const dipAt =
+          rand() < 0.5
+            ? admittedAt + (6 + Math.floor(rand() * ((dischargedAt - admittedAt) / HOUR - 12))) * HOUR
+            : null;
         const dipHours = 2 + Math.floor(rand() * 3);
-        const poorAt = rand() < 0.33 ? admittedAt + (3 + Math.floor(rand() * ((dischargedAt - admittedAt) / HOUR - 6))) * HOUR : null;
+        const poorAt =
+          rand() < 0.33
+            ? admittedAt + (3 + Math.floor(rand() * ((dischargedAt - admittedAt) / HOUR - 6))) * HOUR
+            : null;
         let dipLowest = 100;
         for (let h = admittedAt + 20 * 60_000; h < dischargedAt; h += HOUR) {
           if (rand() < 0.04) h += HOUR; // a missed hour: the obs run late
           if (h >= dischargedAt) break;
           let spo2 = mid + Math.round((rand() - 0.5) * 4);
           let trace: DemoObservation['trace'] = rand() < 0.05 ? 'weak' : 'clean';
-          if (dipAt !== null && h >= dipAt && h < dipAt + dipHours * HOUR) { spo2 = band.low - 1 - Math.floor(rand() * (rand() < 0.3 ? 6 : 3)); dipLowest = Math.min(dipLowest, spo2); }
-          if (poorAt !== null && h >= poorAt && h < poorAt + HOUR) { spo2 = 80 + Math.floor(rand() * 8); trace = 'noisy'; }
+          if (dipAt !== null && h >= dipAt && h < dipAt + dipHours * HOUR) {
+            spo2 = band.low - 1 - Math.floor(rand() * (rand() < 0.3 ? 6 : 3));
+            dipLowest = Math.min(dipLowest, spo2);
+          }
+          if (poorAt !== null && h >= poorAt && h < poorAt + HOUR) {
+            spo2 = 80 + Math.floor(rand() * 8);
+            trace = 'noisy';
+          }
           const hr = Math.round(80 + (rand() - 0.5) * 18 + (spo2 < band.low ? 14 : 0));
           observations.push({
-            mrn: pt.mrn, takenAt: new Date(h), source: 'charted', spo2, heartRate: hr, respRate: Math.round(17 + (rand() - 0.5) * 6 + (spo2 < band.low ? 6 : 0)),
-            fio2: dev.fio2, fio2Estimated: dev.estimated, device: dev.device, flowLpm: dev.flowLpm, trace,
-            perfusionIndex: trace === 'clean' ? Math.round((1.2 + rand() * 3) * 100) / 100 : trace === 'weak' ? 0.6 : 0.2,
-            systolic: Math.round(118 + (rand() - 0.5) * 26), temperature: Math.round((36.8 + (rand() - 0.5) * 1.4) * 10) / 10, consciousness: 'alert', probeSite: 'finger',
+            mrn: pt.mrn,
+            takenAt: new Date(h),
+            source: 'charted',
+            spo2,
+            heartRate: hr,
+            respRate: Math.round(17 + (rand() - 0.5) * 6 + (spo2 < band.low ? 6 : 0)),
+            fio2: dev.fio2,
+            fio2Estimated: dev.estimated,
+            device: dev.device,
+            flowLpm: dev.flowLpm,
+            trace,
+            perfusionIndex:
+              trace === 'clean' ? Math.round((1.2 + rand() * 3) * 100) / 100 : trace === 'weak' ? 0.6 : 0.2,
+            systolic: Math.round(118 + (rand() - 0.5) * 26),
+            temperature: Math.round((36.8 + (rand() - 0.5) * 1.4) * 10) / 10,
+            consciousness: 'alert',
+            probeSite: 'finger',
           });
         }
         if (dipAt !== null && dipAt + 2 * HOUR < dischargedAt) {
@@ -94,18 +197,32 @@ export function generateDemoHistory(now: Date, seed = 20261203): DemoHistory {
           const claimedAt = raisedAt + (3 + Math.floor(rand() * 25)) * 60_000;
           const closedAt = claimedAt + (15 + Math.floor(rand() * 90)) * 60_000;
           escalations.push({
-            mrn: pt.mrn, kind: 'below_band', severity: dipLowest <= band.low - 5 || dipLowest < 85 ? 'urgent' : 'standard', raisedAt: new Date(raisedAt),
-            claimedAt: new Date(claimedAt), closedAt: new Date(closedAt), outcome: rand() < 0.6 ? 'treated_at_bedside' : 'reviewed_by_outreach',
-            runStart: new Date(dipAt + 20 * 60_000), runEnd: new Date(raisedAt - 60_000), lowest: dipLowest,
+            mrn: pt.mrn,
+            kind: 'below_band',
+            severity: dipLowest <= band.low - 5 || dipLowest < 85 ? 'urgent' : 'standard',
+            raisedAt: new Date(raisedAt),
+            claimedAt: new Date(claimedAt),
+            closedAt: new Date(closedAt),
+            outcome: rand() < 0.6 ? 'treated_at_bedside' : 'reviewed_by_outreach',
+            runStart: new Date(dipAt + 20 * 60_000),
+            runEnd: new Date(raisedAt - 60_000),
+            lowest: dipLowest,
           });
         }
         if (poorAt !== null && poorAt + 2 * HOUR < dischargedAt) {
           const raisedAt = poorAt + 20 * 60_000 + 15 * 60_000;
           const claimedAt = raisedAt + (2 + Math.floor(rand() * 12)) * 60_000;
           escalations.push({
-            mrn: pt.mrn, kind: 'probe_check', severity: null, raisedAt: new Date(raisedAt), claimedAt: new Date(claimedAt),
-            closedAt: new Date(claimedAt + (5 + Math.floor(rand() * 20)) * 60_000), outcome: 'reading_was_artefact',
-            runStart: new Date(poorAt + 20 * 60_000), runEnd: new Date(raisedAt - 60_000), lowest: 80,
+            mrn: pt.mrn,
+            kind: 'probe_check',
+            severity: null,
+            raisedAt: new Date(raisedAt),
+            claimedAt: new Date(claimedAt),
+            closedAt: new Date(claimedAt + (5 + Math.floor(rand() * 20)) * 60_000),
+            outcome: 'reading_was_artefact',
+            runStart: new Date(poorAt + 20 * 60_000),
+            runEnd: new Date(raisedAt - 60_000),
+            lowest: 80,
           });
         }
         dischargedAt = pt.dischargedAt.getTime();

@@ -25,11 +25,15 @@ describe('demo scenario (invented data)', () => {
     const motion = demoPatients.find((p) => p.story === 'motion')!;
     expect(obs.some((o) => o.mrn === motion.mrn && o.trace === 'noisy')).toBe(true);
     const desat = demoPatients.find((p) => p.story === 'desaturating')!;
-    const recent = obs.filter((o) => o.mrn === desat.mrn && o.source === 'charted' && now.getTime() - o.takenAt.getTime() < 20 * 60_000);
+    const recent = obs.filter(
+      (o) => o.mrn === desat.mrn && o.source === 'charted' && now.getTime() - o.takenAt.getTime() < 20 * 60_000,
+    );
     expect(recent.length).toBeGreaterThanOrEqual(2);
     expect(recent.every((o) => o.spo2 < desat.band!.low)).toBe(true);
     const overdue = demoPatients.find((p) => p.story === 'overdue')!;
-    const lastCharted = Math.max(...obs.filter((o) => o.mrn === overdue.mrn && o.source === 'charted').map((o) => o.takenAt.getTime()));
+    const lastCharted = Math.max(
+      ...obs.filter((o) => o.mrn === overdue.mrn && o.source === 'charted').map((o) => o.takenAt.getTime()),
+    );
     expect((now.getTime() - lastCharted) / 60_000).toBeGreaterThan(75);
   });
 

@@ -5,17 +5,35 @@
 import type { EscalationEvidence, EscalationKind } from './decide.ts';
 
 /** What the signed-in person may do with this escalation now, decided on the server from the role groups and its state. */
-export interface EscalationCan { claim: boolean; close: boolean }
+export interface EscalationCan {
+  claim: boolean;
+  close: boolean;
+}
 
 export interface EscalationView {
-  id: number; kind: EscalationKind; kindLabel: string; severity: 'standard' | 'urgent' | null; state: 'raised' | 'claimed' | 'closed';
-  raisedAt: string; runStart: string; runEnd: string;
-  unit: { code: string; name: string; timeZone: string }; bedLabel: string | null;
+  id: number;
+  kind: EscalationKind;
+  kindLabel: string;
+  severity: 'standard' | 'urgent' | null;
+  state: 'raised' | 'claimed' | 'closed';
+  raisedAt: string;
+  runStart: string;
+  runEnd: string;
+  unit: { code: string; name: string; timeZone: string };
+  bedLabel: string | null;
   patient: { id: number; label: string };
-  claimedBy: string | null; claimedAt: string | null; closedBy: string | null; closedAt: string | null;
-  outcome: string | null; outcomeLabel: string | null; closeNote: string | null;
-  raisedToClaimedMin: number | null; claimedToClosedMin: number | null;
-  lastNotifiedAt: string | null; notifyCount: number; backInBandAt: string | null;
+  claimedBy: string | null;
+  claimedAt: string | null;
+  closedBy: string | null;
+  closedAt: string | null;
+  outcome: string | null;
+  outcomeLabel: string | null;
+  closeNote: string | null;
+  raisedToClaimedMin: number | null;
+  claimedToClosedMin: number | null;
+  lastNotifiedAt: string | null;
+  notifyCount: number;
+  backInBandAt: string | null;
   evidence: EscalationEvidence;
   can: EscalationCan;
 }
@@ -27,7 +45,10 @@ export interface QueueEscalation extends EscalationView {
 }
 
 /** `GET /api/escalations`. */
-export interface EscalationList { escalations: QueueEscalation[]; generatedAt: string }
+export interface EscalationList {
+  escalations: QueueEscalation[];
+  generatedAt: string;
+}
 
 /** `GET /api/escalations/:id`, and the answer to claim and close. */
 export interface EscalationDetail extends EscalationView {

@@ -9,7 +9,13 @@ export const EMAILED_KINDS: readonly EscalationKind[] = ['below_band'];
 /** Minutes back in band after which an open below-band escalation notes it. */
 export const BACK_IN_BAND_NOTE_MIN = 30;
 
-export interface OpenEscalation { id: number; kind: EscalationKind; severity: 'standard' | 'urgent' | null; runStart: number; backInBandNoted: boolean }
+export interface OpenEscalation {
+  id: number;
+  kind: EscalationKind;
+  severity: 'standard' | 'urgent' | null;
+  runStart: number;
+  backInBandNoted: boolean;
+}
 
 export type EscalationAction =
   | { type: 'raise'; kind: EscalationKind; severity: 'standard' | 'urgent' | null; runStart: number; runEnd: number }
@@ -27,7 +33,13 @@ export interface DecideInput {
   silentAfterBelow?: { since: number; lastReading: { at: number } } | null;
 }
 
-export function decideEscalations({ concerns, state, open, lastClosedRunStart, silentAfterBelow = null }: DecideInput): EscalationAction[] {
+export function decideEscalations({
+  concerns,
+  state,
+  open,
+  lastClosedRunStart,
+  silentAfterBelow = null,
+}: DecideInput): EscalationAction[] {
   const actions: EscalationAction[] = [];
   const openOf = (kind: EscalationKind) => open.find((e) => e.kind === kind);
 
@@ -35,17 +47,33 @@ export function decideEscalations({ concerns, state, open, lastClosedRunStart, s
   const openBelow = openOf('below_band');
   if (below) {
     if (openBelow) {
-      if (below.severity === 'urgent' && openBelow.severity !== 'urgent') actions.push({ type: 'upgrade', id: openBelow.id, severity: 'urgent' });
+      if (below.severity === 'urgent' && openBelow.severity !== 'urgent')
+        actions.push({ type: 'upgrade', id: openBelow.id, severity: 'urgent' });
     } else if (lastClosedRunStart.below_band !== below.runStart) {
-      actions.push({ type: 'raise', kind: 'below_band', severity: below.severity, runStart: below.runStart, runEnd: below.runEnd });
+      actions.push({
+        type: 'raise',
+        kind: 'below_band',
+        severity: below.severity,
+        runStart: below.runStart,
+        runEnd: below.runEnd,
+      });
     }
-  } else if (openBelow && !openBelow.backInBandNoted && state.state === 'in' && (state.sinceMin ?? 0) >= BACK_IN_BAND_NOTE_MIN) {
+  } else if (
+    openBelow &&
+    !openBelow.backInBandNoted &&
+    state.state === 'in' &&
+    (state.sinceMin ?? 0) >= BACK_IN_BAND_NOTE_MIN
+  ) {
     actions.push({ type: 'back_in_band', id: openBelow.id });
   }
 
   // Board prompts: raised while the condition holds, closed by the system once it clears.
   const prompts: [EscalationKind, { since: number; lastReading: { at: number } } | null, string][] = [
-    ['probe_check', concerns.cannotVerify ?? silentAfterBelow, 'A trusted reading came in: the trace can be verified again'],
+    [
+      'probe_check',
+      concerns.cannotVerify ?? silentAfterBelow,
+      'A trusted reading came in: the trace can be verified again',
+    ],
     ['wean_prompt', concerns.aboveOnOxygen, 'No longer above band on oxygen'],
   ];
   for (const [kind, concern, clearedReason] of prompts) {
@@ -60,7 +88,12 @@ export function decideEscalations({ concerns, state, open, lastClosedRunStart, s
 }
 
 /** Re-notify an unclaimed below-band escalation once the unit's re-notify time has passed since the last mail. */
-export function renotifyDue(lastNotifiedAt: number | null, raisedAt: number, renotifyMin: number, now: number): boolean {
+export function renotifyDue(
+  lastNotifiedAt: number | null,
+  raisedAt: number,
+  renotifyMin: number,
+  now: number,
+): boolean {
   return now - (lastNotifiedAt ?? raisedAt) >= renotifyMin * 60_000;
 }
 
@@ -69,7 +102,13 @@ export function retryDelayMs(attempts: number, baseMs = 10_000): number {
   return Math.min(baseMs * 2 ** Math.max(0, attempts - 1), 10 * 60_000);
 }
 
-export const OUTCOMES = ['treated_at_bedside', 'reviewed_by_outreach', 'escalated_to_intensivist', 'reading_was_artefact', 'other'] as const;
+export const OUTCOMES = [
+  'treated_at_bedside',
+  'reviewed_by_outreach',
+  'escalated_to_intensivist',
+  'reading_was_artefact',
+  'other',
+] as const;
 export type Outcome = (typeof OUTCOMES)[number];
 export const OUTCOME_LABELS: Record<Outcome | 'condition_cleared', string> = {
   treated_at_bedside: 'Treated at the bedside',
@@ -89,7 +128,9 @@ export const KIND_LABELS: Record<EscalationKind, string> = {
 
 /** What an escalation stores as its proof: the run and the readings around it. */
 export interface EscalationEvidence {
-  rule: string | null; nadir: number | null; urgentReasons: string[];
+  rule: string | null;
+  nadir: number | null;
+  urgentReasons: string[];
   band: { low: number; high: number } | null;
   lastReadings: { at: number; spo2: number | null; trace: string; heartRate: number | null; source: string }[];
 }

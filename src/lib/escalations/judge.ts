@@ -3,7 +3,13 @@
  * to what the engine should do. Pure, and the only path from readings to a decision — the engine
  * (under the patient's row lock) and the sweep (its read-only first pass) both call it.
  */
-import { bandState, detectConcerns, type BandStateResult, type Concerns, type Reading } from '~/lib/oxygenation/index.ts';
+import {
+  bandState,
+  detectConcerns,
+  type BandStateResult,
+  type Concerns,
+  type Reading,
+} from '~/lib/oxygenation/index.ts';
 import { isTrusted } from '~/lib/oxygenation/trust.ts';
 import { escalationSettingsOf, type EscalationSettings } from '~/lib/oxygenation/settings.ts';
 import { decideEscalations, type EscalationAction, type EscalationKind, type OpenEscalation } from './decide.ts';
@@ -31,14 +37,24 @@ export interface Judgement {
   actions: EscalationAction[];
 }
 
-export interface SilentAfterBelow { since: number; sinceMin: number; lastReading: Reading }
+export interface SilentAfterBelow {
+  since: number;
+  sinceMin: number;
+  lastReading: Reading;
+}
 
 /**
  * A monitor silent for `silentMin` right after a trusted below-band reading: the newest reading is a
  * device or import reading, trusted, below the band, and nothing came after it. Silence must not end a
  * below-band concern quietly: it asks the bedside to check the probe (issue 10 point 2).
  */
-export function silentAfterBelow(readings: Reading[], band: { low: number } | null, now: number, silentMin: number, minPerfusionIndexPct: number): SilentAfterBelow | null {
+export function silentAfterBelow(
+  readings: Reading[],
+  band: { low: number } | null,
+  now: number,
+  silentMin: number,
+  minPerfusionIndexPct: number,
+): SilentAfterBelow | null {
   if (!band) return null;
   let last: Reading | undefined;
   for (const r of readings) if (r.at <= now) last = r;
@@ -59,17 +75,45 @@ export function judgePatient(input: JudgeInput): Judgement {
   const readings = readingsUnderBand(input.readings, input.band);
   const concerns = detectConcerns(readings, band, input.now, escalationSettingsOf(input.settings));
   const state = bandState(readings, band, input.now, { minPerfusionIndexPct: input.settings.minPerfusionIndexPct });
-  const silent = silentAfterBelow(readings, band, input.now, input.settings.silentBelowProbeMin ?? 3, input.settings.minPerfusionIndexPct);
-  const actions = decideEscalations({ concerns, state, open: input.open, lastClosedRunStart: input.lastClosedRunStart, silentAfterBelow: silent });
+  const silent = silentAfterBelow(
+    readings,
+    band,
+    input.now,
+    input.settings.silentBelowProbeMin ?? 3,
+    input.settings.minPerfusionIndexPct,
+  );
+  const actions = decideEscalations({
+    concerns,
+    state,
+    open: input.open,
+    lastClosedRunStart: input.lastClosedRunStart,
+    silentAfterBelow: silent,
+  });
   return { readings, band, concerns, state, silentAfterBelow: silent, actions };
 }
 
 /** An open escalation row as the decision reads it. */
-export function toOpenEscalation(e: { id: number; kind: EscalationKind; severity: 'standard' | 'urgent' | null; run_start: Date | string; back_in_band_at: Date | string | null }): OpenEscalation {
-  return { id: e.id, kind: e.kind, severity: e.severity, runStart: new Date(e.run_start).getTime(), backInBandNoted: e.back_in_band_at !== null };
+export function toOpenEscalation(e: {
+  id: number;
+  kind: EscalationKind;
+  severity: 'standard' | 'urgent' | null;
+  run_start: Date | string;
+  back_in_band_at: Date | string | null;
+}): OpenEscalation {
+  return {
+    id: e.id,
+    kind: e.kind,
+    severity: e.severity,
+    runStart: new Date(e.run_start).getTime(),
+    backInBandNoted: e.back_in_band_at !== null,
+  };
 }
 
 /** Run starts of the newest closed escalation of each kind (rows newest last or one per kind). */
-export function lastClosedRunStarts(rows: { kind: EscalationKind; run_start: Date | string }[]): Partial<Record<EscalationKind, number>> {
-  return Object.fromEntries(rows.map((c) => [c.kind, new Date(c.run_start).getTime()])) as Partial<Record<EscalationKind, number>>;
+export function lastClosedRunStarts(
+  rows: { kind: EscalationKind; run_start: Date | string }[],
+): Partial<Record<EscalationKind, number>> {
+  return Object.fromEntries(rows.map((c) => [c.kind, new Date(c.run_start).getTime()])) as Partial<
+    Record<EscalationKind, number>
+  >;
 }

@@ -14,11 +14,23 @@ import type { OxygenDevice, TraceQuality } from '~/lib/oxygenation/types.ts';
 import { formatClock, formatClockSeconds, formatWhen } from '~/lib/time/format.ts';
 import { KIND_LABELS, type EscalationKind } from './decide.ts';
 
-export interface MailReading { at: number; spo2: number | null; trace: TraceQuality; heartRate: number | null; source: string }
+export interface MailReading {
+  at: number;
+  spo2: number | null;
+  trace: TraceQuality;
+  heartRate: number | null;
+  source: string;
+}
 
 export interface EscalationMailInput {
-  hospital: string; unitName: string; bedLabel: string; patientLabel: string; timeZone: string;
-  kind: EscalationKind; severity: 'standard' | 'urgent' | null; renotify: number;
+  hospital: string;
+  unitName: string;
+  bedLabel: string;
+  patientLabel: string;
+  timeZone: string;
+  kind: EscalationKind;
+  severity: 'standard' | 'urgent' | null;
+  renotify: number;
   band: { low: number; high: number };
   run: { start: number; end: number; nadir: number | null; rule: string | null };
   /** The recent readings, oldest first (the mail shows the newest few, or the newest minutes collapsed). */
@@ -42,8 +54,13 @@ export const MAIL_CAUTION =
   'Decision support only: follow local protocols and the treating team. Pulse oximetry can over-read in people with darker skin and in poor perfusion; confirm doubtful readings with an arterial blood gas.';
 
 export const NEWS2_PARAMETER_WORDS: Record<News2Parameter, string> = {
-  respRate: 'respiratory rate', spo2: 'SpO₂', airOrOxygen: 'air or oxygen', systolic: 'systolic BP', pulse: 'pulse',
-  consciousness: 'consciousness', temperature: 'temperature',
+  respRate: 'respiratory rate',
+  spo2: 'SpO₂',
+  airOrOxygen: 'air or oxygen',
+  systolic: 'systolic BP',
+  pulse: 'pulse',
+  consciousness: 'consciousness',
+  temperature: 'temperature',
 };
 
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
@@ -52,7 +69,11 @@ const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replac
 const SHOW_EACH_UP_TO = 6;
 const MINUTES_SHOWN = 6;
 
-export interface ReadingLine { time: string; spo2: string; detail: string }
+export interface ReadingLine {
+  time: string;
+  spo2: string;
+  detail: string;
+}
 
 /**
  * The reading lines of the mail: each of the newest readings with seconds when they are few or a
@@ -65,7 +86,8 @@ export function readingLines(readings: MailReading[], timeZone: string): Reading
   const dense = readings.length > SHOW_EACH_UP_TO && spread < (newest.length - 1) * 60_000;
   if (!dense) {
     return newest.map((r) => ({
-      time: formatClockSeconds(r.at, timeZone), spo2: r.spo2 === null ? '—' : `${r.spo2} %`,
+      time: formatClockSeconds(r.at, timeZone),
+      spo2: r.spo2 === null ? '—' : `${r.spo2} %`,
       detail: `trace ${r.trace} · HR ${r.heartRate ?? '—'} · ${r.source}`,
     }));
   }
@@ -92,7 +114,12 @@ export function readingLines(readings: MailReading[], timeZone: string): Reading
 }
 
 /** "No new readings since 06:08" when a reminder has nothing newer than the previous notice, or the monitor is silent. */
-export function noNewReadingsLine(m: Pick<EscalationMailInput, 'lastReadings' | 'now' | 'previousNoticeAt' | 'monitorSilentMin' | 'timeZone' | 'renotify'>): string | null {
+export function noNewReadingsLine(
+  m: Pick<
+    EscalationMailInput,
+    'lastReadings' | 'now' | 'previousNoticeAt' | 'monitorSilentMin' | 'timeZone' | 'renotify'
+  >,
+): string | null {
   const newest = m.lastReadings.length ? m.lastReadings[m.lastReadings.length - 1]!.at : null;
   if (newest === null || m.now === undefined) return null;
   const nothingSinceLastNotice = m.renotify > 0 && m.previousNoticeAt != null && newest <= m.previousNoticeAt;
@@ -106,14 +133,19 @@ export function buildEscalationMail(m: EscalationMailInput): { subject: string; 
   const again = m.renotify > 0 ? ` (reminder ${m.renotify}, not yet claimed)` : '';
   const subject = `[Ebbwatch] ${severity}${KIND_LABELS[m.kind]} — ${m.unitName} bed ${m.bedLabel}${again}`;
   const oxygen = `${m.oxygen.device ? DEVICE_LABELS[m.oxygen.device] : 'device not charted'}${m.oxygen.fio2 !== null ? `, FiO₂ ${m.oxygen.fio2.toFixed(2)}${m.oxygen.fio2Estimated ? ' (estimated)' : ''}` : ''}`;
-  const news = m.news2 === null ? 'no obs charted'
-    : 'total' in m.news2 ? `${m.news2.total} (Scale ${m.news2.scale})`
-      : `incomplete — missing ${m.news2.missing.map((p) => NEWS2_PARAMETER_WORDS[p]).join(', ')}`;
+  const news =
+    m.news2 === null
+      ? 'no obs charted'
+      : 'total' in m.news2
+        ? `${m.news2.total} (Scale ${m.news2.scale})`
+        : `incomplete — missing ${m.news2.missing.map((p) => NEWS2_PARAMETER_WORDS[p]).join(', ')}`;
   const runLine = `Below band since ${time(m.run.start)} (last ${time(m.run.end)})${m.run.nadir !== null ? `, lowest trusted SpO₂ ${m.run.nadir} %` : ''}${m.run.rule ? ` — ${m.run.rule === 'charted_consecutive' ? 'consecutive charted obs below band' : 'device readings below band for the dwell time'}` : ''}`;
   const silence = noNewReadingsLine(m);
   const bedside = `Bedside nurse: ${m.bedsideNurse ?? 'none assigned'} · Unit phone: ${m.unitPhone ?? 'not set'}`;
   const rows = readingLines(m.lastReadings, m.timeZone);
-  const claimUntil = m.claimLinkExpiresAt ? ` (works once, until ${formatWhen(m.claimLinkExpiresAt, m.timeZone, m.now ?? Date.now())}, after sign-in)` : ' (works once, after sign-in)';
+  const claimUntil = m.claimLinkExpiresAt
+    ? ` (works once, until ${formatWhen(m.claimLinkExpiresAt, m.timeZone, m.now ?? Date.now())}, after sign-in)`
+    : ' (works once, after sign-in)';
 
   const facts = [
     `${m.hospital} · ${m.unitName} · bed ${m.bedLabel} · patient ${m.patientLabel}`,

@@ -35,10 +35,17 @@ export function r4Codes(systemUrl: string): Set<string> {
   if (!systems) {
     systems = new Map();
     for (const file of ['fhir/r4/valuesets.json', 'fhir/r4/v3-codesystems.json']) {
-      for (const e of (readJson(file) as { entry: { resource: { resourceType: string; url: string; concept?: Concept[] } }[] }).entry) {
+      for (const e of (
+        readJson(file) as { entry: { resource: { resourceType: string; url: string; concept?: Concept[] } }[] }
+      ).entry) {
         if (e.resource.resourceType !== 'CodeSystem' || !e.resource.concept) continue;
         const set = new Set<string>();
-        const walk = (cs: Concept[]) => { for (const c of cs) { set.add(c.code); if (c.concept) walk(c.concept); } };
+        const walk = (cs: Concept[]) => {
+          for (const c of cs) {
+            set.add(c.code);
+            if (c.concept) walk(c.concept);
+          }
+        };
         walk(e.resource.concept);
         systems.set(e.resource.url, set);
       }
@@ -50,9 +57,20 @@ export function r4Codes(systemUrl: string): Set<string> {
 }
 
 /** The exported LOINC codes and UCUM units, as ../shared/REFERENCES.md lists them (from memory of the FHIR vital-signs profile). */
-export const REFERENCE_LOINC = new Set(['59408-5', '2708-6', '8867-4', '9279-1', '3150-0', '3151-8', '8310-5', '8480-6',
+export const REFERENCE_LOINC = new Set([
+  '59408-5',
+  '2708-6',
+  '8867-4',
+  '9279-1',
+  '3150-0',
+  '3151-8',
+  '8310-5',
+  '8480-6',
   // Blood gases (REFERENCES.md, from memory): pH, PaCO₂, PaO₂ (SaO₂ is 2708-6 above).
-  '2744-1', '2019-8', '2703-7']);
+  '2744-1',
+  '2019-8',
+  '2703-7',
+]);
 /** `[pH]` is UCUM's pH unit (from memory). */
 export const REFERENCE_UCUM = new Set(['%', '/min', 'L/min', 'Cel', 'mm[Hg]', '[pH]']);
 
@@ -60,26 +78,37 @@ export const REFERENCE_UCUM = new Set(['%', '/min', 'L/min', 'Cel', 'mm[Hg]', '[
  * Code checks for one resource: status fields against their R4 code systems, codings of known
  * systems against their lists, quantities in UCUM from the reference list. Returns problems.
  */
+// biome-ignore lint/suspicious/noExplicitAny: walks any FHIR resource's JSON by name
 export function codeIssues(r: Record<string, any>): string[] {
   const out: string[] = [];
-  const check = (what: string, system: string, code: unknown) => { if (!r4Codes(system).has(String(code))) out.push(`${r.resourceType}.${what}: ${String(code)} not in ${system}`); };
+  const check = (what: string, system: string, code: unknown) => {
+    if (!r4Codes(system).has(String(code))) out.push(`${r.resourceType}.${what}: ${String(code)} not in ${system}`);
+  };
   switch (r.resourceType) {
     case 'Observation':
       check('status', 'http://hl7.org/fhir/observation-status', r.status);
       for (const c of r.category ?? []) for (const k of c.coding) check('category', k.system, k.code);
-      for (const k of r.code.coding) if (k.system !== 'http://loinc.org' || !REFERENCE_LOINC.has(k.code)) out.push(`Observation.code: ${k.system}|${k.code}`);
-      if (r.valueQuantity && (r.valueQuantity.system !== 'http://unitsofmeasure.org' || !REFERENCE_UCUM.has(r.valueQuantity.code))) out.push(`Observation.valueQuantity: ${r.valueQuantity.system}|${r.valueQuantity.code}`);
+      for (const k of r.code.coding)
+        if (k.system !== 'http://loinc.org' || !REFERENCE_LOINC.has(k.code))
+          out.push(`Observation.code: ${k.system}|${k.code}`);
+      if (
+        r.valueQuantity &&
+        (r.valueQuantity.system !== 'http://unitsofmeasure.org' || !REFERENCE_UCUM.has(r.valueQuantity.code))
+      )
+        out.push(`Observation.valueQuantity: ${r.valueQuantity.system}|${r.valueQuantity.code}`);
       break;
     case 'Encounter':
       check('status', 'http://hl7.org/fhir/encounter-status', r.status);
       check('class', r.class.system, r.class.code);
-      for (const l of r.location ?? []) check('location.status', 'http://hl7.org/fhir/encounter-location-status', l.status);
+      for (const l of r.location ?? [])
+        check('location.status', 'http://hl7.org/fhir/encounter-location-status', l.status);
       break;
     case 'Goal':
       check('lifecycleStatus', 'http://hl7.org/fhir/goal-status', r.lifecycleStatus);
       for (const t of r.target ?? []) {
         for (const k of t.measure.coding) if (!REFERENCE_LOINC.has(k.code)) out.push(`Goal.target.measure: ${k.code}`);
-        for (const q of [t.detailRange.low, t.detailRange.high]) if (q.system !== 'http://unitsofmeasure.org' || q.code !== '%') out.push('Goal.target.detailRange unit');
+        for (const q of [t.detailRange.low, t.detailRange.high])
+          if (q.system !== 'http://unitsofmeasure.org' || q.code !== '%') out.push('Goal.target.detailRange unit');
       }
       break;
     case 'Bundle':
@@ -87,7 +116,8 @@ export function codeIssues(r: Record<string, any>): string[] {
       break;
     case 'Patient':
       for (const n of r.name ?? []) if (n.use) check('name.use', 'http://hl7.org/fhir/name-use', n.use);
-      for (const i of r.identifier ?? []) if (i.use) check('identifier.use', 'http://hl7.org/fhir/identifier-use', i.use);
+      for (const i of r.identifier ?? [])
+        if (i.use) check('identifier.use', 'http://hl7.org/fhir/identifier-use', i.use);
       break;
     default:
       out.push(`unexpected resource type ${r.resourceType}`);

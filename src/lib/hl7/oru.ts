@@ -41,10 +41,17 @@ export const HL7_ERROR = {
 export type Hl7ErrorKind = keyof typeof HL7_ERROR;
 
 /** Why a message is refused. AR: the message as a whole (type, sender, framing); AE: its content. */
-export interface Hl7Problem { ack: 'AE' | 'AR'; kind: Hl7ErrorKind; reason: string; location?: string }
+export interface Hl7Problem {
+  ack: 'AE' | 'AR';
+  kind: Hl7ErrorKind;
+  reason: string;
+  location?: string;
+}
 
 export interface OruContent {
-  application: string; facility: string; controlId: string;
+  application: string;
+  facility: string;
+  controlId: string;
   /** PV1-3 as sent: point of care^room^bed (trailing empty parts dropped). */
   bedName: string;
   /** The feed's batch, `{ readings: [...] }`, for the shared validation. */
@@ -55,7 +62,10 @@ export interface OruContent {
 
 export type OruResult = { ok: true; value: OruContent } | { ok: false; problem: Hl7Problem };
 
-const fail = (ack: 'AE' | 'AR', kind: Hl7ErrorKind, reason: string, location?: string): OruResult => ({ ok: false, problem: { ack, kind, reason, location } });
+const fail = (ack: 'AE' | 'AR', kind: Hl7ErrorKind, reason: string, location?: string): OruResult => ({
+  ok: false,
+  problem: { ack, kind, reason, location },
+});
 
 /**
  * HL7 DTM (YYYYMMDDHHMM[SS[.S…]][+/-ZZZZ]) to ISO 8601 with its offset. Minutes at least; without an
@@ -69,7 +79,14 @@ export function hl7TimeToIso(text: string, fallbackOffset?: string | null): stri
   if (!offset) return null;
   // A calendar check of our own: Date would roll 2026-11-31 over into December.
   const probe = new Date(Date.UTC(Number(y), Number(mo) - 1, Number(d), Number(h), Number(mi), Number(s)));
-  if (probe.getUTCMonth() !== Number(mo) - 1 || probe.getUTCDate() !== Number(d) || probe.getUTCHours() !== Number(h) || probe.getUTCMinutes() !== Number(mi) || probe.getUTCSeconds() !== Number(s)) return null;
+  if (
+    probe.getUTCMonth() !== Number(mo) - 1 ||
+    probe.getUTCDate() !== Number(d) ||
+    probe.getUTCHours() !== Number(h) ||
+    probe.getUTCMinutes() !== Number(mi) ||
+    probe.getUTCSeconds() !== Number(s)
+  )
+    return null;
   if (Number(offset.slice(1, 3)) > 14 || Number(offset.slice(3)) > 59) return null;
   const ms = frac ? `.${frac.padEnd(3, '0').slice(0, 3)}` : '';
   return `${y}-${mo}-${d}T${h}:${mi}:${s}${ms}${offset.slice(0, 3)}:${offset.slice(3)}`;
@@ -84,21 +101,36 @@ const NUMBER = /^[+-]?\d+(?:\.\d+)?$/;
 
 export function readOru(msg: Hl7Message): OruResult {
   const msh = msg.segments[0];
-  if (!msh || msh.name !== 'MSH') return fail('AR', 'segmentSequence', 'The message does not start with an MSH segment', 'MSH');
+  if (msh?.name !== 'MSH')
+    return fail('AR', 'segmentSequence', 'The message does not start with an MSH segment', 'MSH');
   const controlId = msh.getField(10)?.toString() ?? '';
   if (!controlId) return fail('AR', 'requiredMissing', 'MSH-10 (message control ID) is missing', 'MSH^1^10');
   const type = msh.getComponent(9, 1);
   const event = msh.getComponent(9, 2);
-  if (type !== 'ORU') return fail('AR', 'unsupportedMessage', `Message type ${type || '(none)'}^${event} is not handled; send ORU^R01`, 'MSH^1^9');
-  if (event !== 'R01') return fail('AR', 'unsupportedEvent', `Event ${event || '(none)'} is not handled; send ORU^R01`, 'MSH^1^9');
+  if (type !== 'ORU')
+    return fail(
+      'AR',
+      'unsupportedMessage',
+      `Message type ${type || '(none)'}^${event} is not handled; send ORU^R01`,
+      'MSH^1^9',
+    );
+  if (event !== 'R01')
+    return fail('AR', 'unsupportedEvent', `Event ${event || '(none)'} is not handled; send ORU^R01`, 'MSH^1^9');
   const application = msh.getComponent(3, 1).trim();
   const facility = msh.getComponent(4, 1).trim();
-  if (!application) return fail('AR', 'requiredMissing', 'MSH-3 (sending application) is missing: the gateway is not known without it', 'MSH^1^3');
+  if (!application)
+    return fail(
+      'AR',
+      'requiredMissing',
+      'MSH-3 (sending application) is missing: the gateway is not known without it',
+      'MSH^1^3',
+    );
   const mshTime = msh.getField(7)?.toString() ?? '';
   const mshOffset = offsetOf(mshTime);
 
   for (const seg of msg.segments) {
-    if (!/^[A-Z][A-Z0-9]{2}$/.test(seg.name)) return fail('AE', 'segmentSequence', `Malformed segment "${seg.name.slice(0, 20)}"`, seg.name.slice(0, 3));
+    if (!/^[A-Z][A-Z0-9]{2}$/.test(seg.name))
+      return fail('AE', 'segmentSequence', `Malformed segment "${seg.name.slice(0, 20)}"`, seg.name.slice(0, 3));
   }
   const pv1s = msg.segments.filter((s) => s.name === 'PV1');
   if (pv1s.length === 0) return fail('AE', 'requiredMissing', 'No PV1 segment: the bed (PV1-3) is required', 'PV1');
@@ -109,11 +141,17 @@ export function readOru(msg: Hl7Message): OruResult {
   const bedName = parts.join('^');
   if (!bedName) return fail('AE', 'requiredMissing', 'PV1-3 (point of care^room^bed) is empty', 'PV1^1^3');
 
-  const byTime = new Map<string, { at: string; spo2?: number; heartRate?: number; perfusionIndex?: number; obx: string[] }>();
+  const byTime = new Map<
+    string,
+    { at: string; spo2?: number; heartRate?: number; perfusionIndex?: number; obx: string[] }
+  >();
   let obrTime = '';
   let obxSeen = 0;
   for (const seg of msg.segments) {
-    if (seg.name === 'OBR') { obrTime = seg.getField(7)?.toString() ?? ''; continue; }
+    if (seg.name === 'OBR') {
+      obrTime = seg.getField(7)?.toString() ?? '';
+      continue;
+    }
     if (seg.name !== 'OBX') continue;
     obxSeen++;
     const setId = seg.getField(1)?.toString() || String(obxSeen);
@@ -124,31 +162,63 @@ export function readOru(msg: Hl7Message): OruResult {
     const status = seg.getField(11)?.toString().trim() ?? '';
     if (status === 'X' || status === 'W' || status === 'D') continue; // cannot be obtained / wrong / deleted: no value to store
     const valueType = seg.getField(2)?.toString().trim() ?? '';
-    if (valueType !== 'NM') return fail('AE', 'dataType', `OBX ${setId} (${def.name}): value type must be NM, not "${valueType}"`, where(2));
+    if (valueType !== 'NM')
+      return fail('AE', 'dataType', `OBX ${setId} (${def.name}): value type must be NM, not "${valueType}"`, where(2));
     const text = seg.getField(5)?.toString().trim() ?? '';
-    if (!NUMBER.test(text)) return fail('AE', 'dataType', `OBX ${setId} (${def.name}): "${text.slice(0, 20)}" is not a number`, where(5));
+    if (!NUMBER.test(text))
+      return fail('AE', 'dataType', `OBX ${setId} (${def.name}): "${text.slice(0, 20)}" is not a number`, where(5));
     const unit = seg.getComponent(6, 1).trim();
-    if (!def.units.includes(unit)) return fail('AE', 'tableValue', `OBX ${setId} (${def.name}): unit "${unit}" is not ${def.units.join(' or ')}`, where(6));
+    if (!def.units.includes(unit))
+      return fail(
+        'AE',
+        'tableValue',
+        `OBX ${setId} (${def.name}): unit "${unit}" is not ${def.units.join(' or ')}`,
+        where(6),
+      );
     const own = seg.getField(14)?.toString().trim() ?? '';
     const raw = own || obrTime.trim() || mshTime.trim();
     const at = raw ? hl7TimeToIso(raw, mshOffset) : null;
-    if (!raw) return fail('AE', 'requiredMissing', `OBX ${setId} (${def.name}): no observation time (OBX-14, OBR-7 or MSH-7)`, where(14));
-    if (!at) return fail('AE', 'dataType', `OBX ${setId} (${def.name}): time "${raw.slice(0, 30)}" is not a real date and time with a UTC offset (YYYYMMDDHHMM[SS][+ZZZZ])`, own ? where(14) : obrTime ? 'OBR^1^7' : 'MSH^1^7');
+    if (!raw)
+      return fail(
+        'AE',
+        'requiredMissing',
+        `OBX ${setId} (${def.name}): no observation time (OBX-14, OBR-7 or MSH-7)`,
+        where(14),
+      );
+    if (!at)
+      return fail(
+        'AE',
+        'dataType',
+        `OBX ${setId} (${def.name}): time "${raw.slice(0, 30)}" is not a real date and time with a UTC offset (YYYYMMDDHHMM[SS][+ZZZZ])`,
+        own ? where(14) : obrTime ? 'OBR^1^7' : 'MSH^1^7',
+      );
     const key = new Date(at).toISOString();
     let r = byTime.get(key);
-    if (!r) byTime.set(key, (r = { at, obx: [] }));
-    if (r[def.field] !== undefined) return fail('AE', 'segmentSequence', `OBX ${setId}: a second ${def.name} for the same time`, where(3));
+    if (!r) {
+      r = { at, obx: [] };
+      byTime.set(key, r);
+    }
+    if (r[def.field] !== undefined)
+      return fail('AE', 'segmentSequence', `OBX ${setId}: a second ${def.name} for the same time`, where(3));
     r[def.field] = Number(text);
     r.obx.push(setId);
   }
   if (byTime.size === 0) {
-    return fail('AE', 'requiredMissing', `No OBX with SpO₂ (${MDC_SPO2}), pulse rate (${MDC_PULSE_RATE}) or perfusion index (${MDC_PERF_REL})`, 'OBX');
+    return fail(
+      'AE',
+      'requiredMissing',
+      `No OBX with SpO₂ (${MDC_SPO2}), pulse rate (${MDC_PULSE_RATE}) or perfusion index (${MDC_PERF_REL})`,
+      'OBX',
+    );
   }
   const readings = [...byTime.values()].sort((a, b) => Date.parse(a.at) - Date.parse(b.at));
   return {
     ok: true,
     value: {
-      application, facility, controlId, bedName,
+      application,
+      facility,
+      controlId,
+      bedName,
       batch: { readings: readings.map(({ obx: _obx, ...r }) => r) },
       sources: readings.map((r) => r.obx),
     },
@@ -157,7 +227,13 @@ export function readOru(msg: Hl7Message): OruResult {
 
 /** HL7 escape sequences for free text inside a field. */
 export function escapeHl7(text: string): string {
-  return text.replace(/\\/g, '\\E\\').replace(/\|/g, '\\F\\').replace(/\^/g, '\\S\\').replace(/&/g, '\\T\\').replace(/~/g, '\\R\\').replace(/[\r\n]+/g, ' ');
+  return text
+    .replace(/\\/g, '\\E\\')
+    .replace(/\|/g, '\\F\\')
+    .replace(/\^/g, '\\S\\')
+    .replace(/&/g, '\\T\\')
+    .replace(/~/g, '\\R\\')
+    .replace(/[\r\n]+/g, ' ');
 }
 
 /**
@@ -168,7 +244,10 @@ export function escapeHl7(text: string): string {
 export function buildAck(msg: Hl7Message, ack: 'AA' | 'AE' | 'AR', text: string, problem?: Hl7Problem): Hl7Message {
   const errSegment = problem ? errSegmentFor(problem) : undefined;
   const out = msg.buildAck({ ackCode: ack, errSegment });
-  out.setSegment('MSA', new Hl7Segment(['MSA', ack, msg.header.getField(10)?.toString() ?? '', escapeHl7(text.slice(0, 80))]));
+  out.setSegment(
+    'MSA',
+    new Hl7Segment(['MSA', ack, msg.header.getField(10)?.toString() ?? '', escapeHl7(text.slice(0, 80))]),
+  );
   return out;
 }
 
@@ -193,13 +272,25 @@ export function hl7Timestamp(d: Date): string {
   return `${iso.slice(0, 4)}${iso.slice(5, 7)}${iso.slice(8, 10)}${iso.slice(11, 13)}${iso.slice(14, 16)}${iso.slice(17, 19)}.${iso.slice(20, 23)}+0000`;
 }
 
-export interface OruReading { at: Date; spo2?: number | null; heartRate?: number | null; perfusionIndex?: number | null }
+export interface OruReading {
+  at: Date;
+  spo2?: number | null;
+  heartRate?: number | null;
+  perfusionIndex?: number | null;
+}
 
 /**
  * An ORU^R01 as a PCD-01 gateway would send it: one OBR, an OBX per value with its own OBX-14.
  * Used by the demo feeder, the tests and the benchmark.
  */
-export function buildOru(o: { application: string; facility: string; controlId: string; bedName: string; readings: OruReading[]; sentAt: Date }): Hl7Message {
+export function buildOru(o: {
+  application: string;
+  facility: string;
+  controlId: string;
+  bedName: string;
+  readings: OruReading[];
+  sentAt: Date;
+}): Hl7Message {
   const lines = [
     `MSH|^~\\&|${o.application}|${o.facility}|EBBWATCH|EBBWATCH|${hl7Timestamp(o.sentAt)}||ORU^R01^ORU_R01|${o.controlId}|P|2.6|||AL|NE`,
     'PID|1',
@@ -209,9 +300,18 @@ export function buildOru(o: { application: string; facility: string; controlId: 
   let n = 0;
   for (const r of o.readings) {
     const t = hl7Timestamp(r.at);
-    if (r.spo2 != null) lines.push(`OBX|${++n}|NM|${MDC_SPO2}^MDC_PULS_OXIM_SAT_O2^MDC|1.1.1.1|${r.spo2}|${MDC_DIM_PERCENT}^MDC_DIM_PERCENT^MDC|||||R|||${t}`);
-    if (r.heartRate != null) lines.push(`OBX|${++n}|NM|${MDC_PULSE_RATE}^MDC_PULS_OXIM_PULS_RATE^MDC|1.1.1.2|${r.heartRate}|${MDC_DIM_BEAT_PER_MIN}^MDC_DIM_BEAT_PER_MIN^MDC|||||R|||${t}`);
-    if (r.perfusionIndex != null) lines.push(`OBX|${++n}|NM|${MDC_PERF_REL}^MDC_PULS_OXIM_PERF_REL^MDC|1.1.1.3|${r.perfusionIndex}|${MDC_DIM_PERCENT}^MDC_DIM_PERCENT^MDC|||||R|||${t}`);
+    if (r.spo2 != null)
+      lines.push(
+        `OBX|${++n}|NM|${MDC_SPO2}^MDC_PULS_OXIM_SAT_O2^MDC|1.1.1.1|${r.spo2}|${MDC_DIM_PERCENT}^MDC_DIM_PERCENT^MDC|||||R|||${t}`,
+      );
+    if (r.heartRate != null)
+      lines.push(
+        `OBX|${++n}|NM|${MDC_PULSE_RATE}^MDC_PULS_OXIM_PULS_RATE^MDC|1.1.1.2|${r.heartRate}|${MDC_DIM_BEAT_PER_MIN}^MDC_DIM_BEAT_PER_MIN^MDC|||||R|||${t}`,
+      );
+    if (r.perfusionIndex != null)
+      lines.push(
+        `OBX|${++n}|NM|${MDC_PERF_REL}^MDC_PULS_OXIM_PERF_REL^MDC|1.1.1.3|${r.perfusionIndex}|${MDC_DIM_PERCENT}^MDC_DIM_PERCENT^MDC|||||R|||${t}`,
+      );
   }
   return Hl7Message.parse(lines.join('\r'));
 }

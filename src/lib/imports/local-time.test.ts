@@ -21,7 +21,11 @@ describe('wall-clock times in a unit zone', () => {
 
   it('gives both instants of the repeated autumn hour, and the order of readings picks one', () => {
     const r = london(wall(2026, 10, 25, 1, 30));
-    expect(r).toEqual({ kind: 'ambiguous', earlier: Date.UTC(2026, 9, 25, 0, 30), later: Date.UTC(2026, 9, 25, 1, 30) });
+    expect(r).toEqual({
+      kind: 'ambiguous',
+      earlier: Date.UTC(2026, 9, 25, 0, 30),
+      later: Date.UTC(2026, 9, 25, 1, 30),
+    });
     if (r.kind !== 'ambiguous') throw new Error('expected ambiguous');
     // First pass: the reading before was 01:29 BST (00:29 UTC).
     expect(resolveRepeated(r, Date.UTC(2026, 9, 25, 0, 29))).toBe(r.earlier);

@@ -7,7 +7,15 @@
  * summer time, and once the readings have gone past it, the second pass is standard time.
  */
 
-export interface WallTime { y: number; mo: number; d: number; h: number; mi: number; s: number; ms: number }
+export interface WallTime {
+  y: number;
+  mo: number;
+  d: number;
+  h: number;
+  mi: number;
+  s: number;
+  ms: number;
+}
 
 export type ZoneResolution =
   | { kind: 'unique'; at: number }
@@ -20,7 +28,14 @@ const FIFTEEN_MIN = 15 * 60_000;
 export function zoneOffsets(timeZone: string): (utcMs: number) => number {
   // Intl here reads zone offsets (a computation), it formats nothing for display.
   const fmt = new Intl.DateTimeFormat('en-GB', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric',
+    timeZone,
+    hourCycle: 'h23',
+    year: 'numeric',
+    month: 'numeric',
+    day: 'numeric',
+    hour: 'numeric',
+    minute: 'numeric',
+    second: 'numeric',
   });
   const cache = new Map<number, number>();
   return (utcMs: number) => {
@@ -29,7 +44,8 @@ export function zoneOffsets(timeZone: string): (utcMs: number) => number {
     if (offset === undefined) {
       const at = bucket * FIFTEEN_MIN;
       const p: Record<string, number> = {};
-      for (const part of fmt.formatToParts(new Date(at))) if (part.type !== 'literal') p[part.type] = Number(part.value);
+      for (const part of fmt.formatToParts(new Date(at)))
+        if (part.type !== 'literal') p[part.type] = Number(part.value);
       offset = Date.UTC(p.year!, p.month! - 1, p.day!, p.hour!, p.minute!, p.second!) - at;
       cache.set(bucket, offset);
     }

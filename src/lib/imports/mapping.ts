@@ -10,25 +10,42 @@ export const MAX_TREND_FILE_BYTES = 20 * 1024 * 1024;
 export const TIME_MODES = ['iso', 'local'] as const;
 export type TimeMode = (typeof TIME_MODES)[number];
 
-const column = (label: string) => z.string({ required_error: `Choose the ${label} column` }).trim().min(1, `Choose the ${label} column`).max(100);
-const optionalColumn = z.preprocess((v) => (v === '' || v === undefined ? null : v), z.string().trim().max(100).nullable());
+const column = (label: string) =>
+  z
+    .string({ required_error: `Choose the ${label} column` })
+    .trim()
+    .min(1, `Choose the ${label} column`)
+    .max(100);
+const optionalColumn = z.preprocess(
+  (v) => (v === '' || v === undefined ? null : v),
+  z.string().trim().max(100).nullable(),
+);
 
-export const trendMappingSchema = z.object({
-  time: column('time'),
-  spo2: column('SpO₂'),
-  heartRate: column('heart rate'),
-  perfusionIndex: optionalColumn.default(null),
-  quality: optionalColumn.default(null),
-  timeMode: z.enum(TIME_MODES, { errorMap: () => ({ message: 'Choose how times are written: ISO 8601 with offset, or unit local time' }) }),
-}).superRefine((m, ctx) => {
-  const used = new Map<string, string>();
-  for (const key of ['time', 'spo2', 'heartRate', 'perfusionIndex', 'quality'] as const) {
-    const col = m[key];
-    if (!col) continue;
-    if (used.has(col)) ctx.addIssue({ code: z.ZodIssueCode.custom, path: [key], message: `Column "${col}" is already used for ${used.get(col)}` });
-    else used.set(col, key);
-  }
-});
+export const trendMappingSchema = z
+  .object({
+    time: column('time'),
+    spo2: column('SpO₂'),
+    heartRate: column('heart rate'),
+    perfusionIndex: optionalColumn.default(null),
+    quality: optionalColumn.default(null),
+    timeMode: z.enum(TIME_MODES, {
+      errorMap: () => ({ message: 'Choose how times are written: ISO 8601 with offset, or unit local time' }),
+    }),
+  })
+  .superRefine((m, ctx) => {
+    const used = new Map<string, string>();
+    for (const key of ['time', 'spo2', 'heartRate', 'perfusionIndex', 'quality'] as const) {
+      const col = m[key];
+      if (!col) continue;
+      if (used.has(col))
+        ctx.addIssue({
+          code: z.ZodIssueCode.custom,
+          path: [key],
+          message: `Column "${col}" is already used for ${used.get(col)}`,
+        });
+      else used.set(col, key);
+    }
+  });
 export type TrendMapping = z.output<typeof trendMappingSchema>;
 
 const GUESSES: [keyof Omit<TrendMapping, 'timeMode'>, RegExp][] = [
@@ -66,5 +83,13 @@ export function detectDelimiter(headerLine: string): ',' | ';' | '\t' {
 export function headerNames(firstLine: string): string[] {
   const line = firstLine.replace(/^\uFEFF/, '').split(/\r?\n/)[0] ?? '';
   const d = detectDelimiter(line);
-  return line.split(d).map((h) => h.trim().replace(/^"(.*)"$/, '$1').trim()).filter((h) => h.length > 0);
+  return line
+    .split(d)
+    .map((h) =>
+      h
+        .trim()
+        .replace(/^"(.*)"$/, '$1')
+        .trim(),
+    )
+    .filter((h) => h.length > 0);
 }

@@ -31,6 +31,10 @@ export function parseTimeText(text: string): ParsedTime {
     return { wall, offsetMs };
   }
   m = DMY.exec(text);
-  if (m) return { wall: { y: +m[3]!, mo: +m[2]!, d: +m[1]!, h: +m[4]!, mi: +m[5]!, s: m[6] ? +m[6] : 0, ms: ms(m[7]) }, offsetMs: null };
+  if (m)
+    return {
+      wall: { y: +m[3]!, mo: +m[2]!, d: +m[1]!, h: +m[4]!, mi: +m[5]!, s: m[6] ? +m[6] : 0, ms: ms(m[7]) },
+      offsetMs: null,
+    };
   return null;
 }

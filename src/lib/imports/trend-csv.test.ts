@@ -3,7 +3,15 @@ import { TrendFileError, groupRefusals, parseTrendCsv } from './trend-csv.ts';
 import { guessMapping, headerNames, mappingFits, trendMappingSchema } from './mapping.ts';
 
 const mapping = (extra: Record<string, unknown> = {}) =>
-  trendMappingSchema.parse({ time: 'Time', spo2: 'SpO2', heartRate: 'HR', perfusionIndex: 'PI', quality: 'Quality', timeMode: 'iso', ...extra });
+  trendMappingSchema.parse({
+    time: 'Time',
+    spo2: 'SpO2',
+    heartRate: 'HR',
+    perfusionIndex: 'PI',
+    quality: 'Quality',
+    timeMode: 'iso',
+    ...extra,
+  });
 
 describe('trend upload: unfit columns and grouped refusals (issue 10 point 10)', () => {
   it('names a mapped column whose values do not fit, with examples, and offers to unmap only optional ones', () => {
@@ -11,11 +19,21 @@ describe('trend upload: unfit columns and grouped refusals (issue 10 point 10)',
     for (let i = 0; i < 10; i++) lines.push(`2026-12-01T10:00:0${i}Z,95,80,${i % 2 ? 'ok' : 'OK'}`);
     const p = parseTrendCsv(lines.join('\n'), mapping({ perfusionIndex: '', quality: 'Status' }), 'Europe/London');
     expect(p.rows).toHaveLength(0);
-    expect(p.unfitColumns).toEqual([{ field: 'quality', column: 'Status', refused: 10, examples: ['OK', 'ok'], canUnmap: true }]);
+    expect(p.unfitColumns).toEqual([
+      { field: 'quality', column: 'Status', refused: 10, examples: ['OK', 'ok'], canUnmap: true },
+    ]);
     // Unmapped, the same file is all readable.
-    expect(parseTrendCsv(lines.join('\n'), mapping({ perfusionIndex: '', quality: '' }), 'Europe/London').rows).toHaveLength(10);
-    const hr = parseTrendCsv('Time,SpO2,HR\n2026-12-01T10:00:00Z,95,fast\n', mapping({ perfusionIndex: '', quality: '' }), 'Europe/London');
-    expect(hr.unfitColumns).toEqual([{ field: 'heartRate', column: 'HR', refused: 1, examples: ['fast'], canUnmap: false }]);
+    expect(
+      parseTrendCsv(lines.join('\n'), mapping({ perfusionIndex: '', quality: '' }), 'Europe/London').rows,
+    ).toHaveLength(10);
+    const hr = parseTrendCsv(
+      'Time,SpO2,HR\n2026-12-01T10:00:00Z,95,fast\n',
+      mapping({ perfusionIndex: '', quality: '' }),
+      'Europe/London',
+    );
+    expect(hr.unfitColumns).toEqual([
+      { field: 'heartRate', column: 'HR', refused: 1, examples: ['fast'], canUnmap: false },
+    ]);
   });
 
   it('a few bad values do not make a column unfit', () => {
@@ -37,7 +55,8 @@ describe('trend upload: unfit columns and grouped refusals (issue 10 point 10)',
 
 describe('trend file parsing', () => {
   it('reads mapped columns in any order and ignores the rest', () => {
-    const csv = 'HR,Extra,SpO2,Time,PI,Quality\n88,x,95,2026-12-01T10:00:00Z,1.5,clean\n90,y,93,2026-12-01T10:00:01Z,,weak\n';
+    const csv =
+      'HR,Extra,SpO2,Time,PI,Quality\n88,x,95,2026-12-01T10:00:00Z,1.5,clean\n90,y,93,2026-12-01T10:00:01Z,,weak\n';
     const p = parseTrendCsv(csv, mapping(), 'Europe/London');
     expect(p.rowCount).toBe(2);
     expect(p.refused).toEqual([]);
@@ -75,13 +94,24 @@ describe('trend file parsing', () => {
 
   it('reads unit local time across the autumn change, in file order, with one note per pass', () => {
     // 25 Oct 2026, Europe/London: 01:00–01:59 happens twice. A reading every 30 min from 00:30.
-    const times = ['2026-10-25 00:30:00', '2026-10-25 01:00:00', '2026-10-25 01:30:00', '2026-10-25 01:00:00', '2026-10-25 01:30:00', '2026-10-25 02:00:00'];
+    const times = [
+      '2026-10-25 00:30:00',
+      '2026-10-25 01:00:00',
+      '2026-10-25 01:30:00',
+      '2026-10-25 01:00:00',
+      '2026-10-25 01:30:00',
+      '2026-10-25 02:00:00',
+    ];
     const csv = ['Time,SpO2,HR', ...times.map((t) => `${t},95,80`)].join('\n');
     const p = parseTrendCsv(csv, mapping({ perfusionIndex: '', quality: '', timeMode: 'local' }), 'Europe/London');
     expect(p.refused).toEqual([]);
     expect(p.rows.map((r) => new Date(r.at).toISOString())).toEqual([
-      '2026-10-24T23:30:00.000Z', '2026-10-25T00:00:00.000Z', '2026-10-25T00:30:00.000Z',
-      '2026-10-25T01:00:00.000Z', '2026-10-25T01:30:00.000Z', '2026-10-25T02:00:00.000Z',
+      '2026-10-24T23:30:00.000Z',
+      '2026-10-25T00:00:00.000Z',
+      '2026-10-25T00:30:00.000Z',
+      '2026-10-25T01:00:00.000Z',
+      '2026-10-25T01:30:00.000Z',
+      '2026-10-25T02:00:00.000Z',
     ]);
     expect(p.notes.map((n) => n.line)).toEqual([3, 5]);
   });
@@ -89,8 +119,13 @@ describe('trend file parsing', () => {
   it('refuses the spring hour that does not exist, naming the line, and reads day-first dates', () => {
     const csv = 'Time,SpO2,HR\n29/03/2026 00:59:00,95,80\n29/03/2026 01:30:00,95,80\n29/03/2026 02:00:00,95,80\n';
     const p = parseTrendCsv(csv, mapping({ perfusionIndex: null, quality: null, timeMode: 'local' }), 'Europe/London');
-    expect(p.rows.map((r) => new Date(r.at).toISOString())).toEqual(['2026-03-29T00:59:00.000Z', '2026-03-29T01:00:00.000Z']);
-    expect(p.refused).toMatchObject([{ line: 3, reason: 'time 2026-03-29 01:30:00 does not exist in Europe/London (the clocks went forward)' }]);
+    expect(p.rows.map((r) => new Date(r.at).toISOString())).toEqual([
+      '2026-03-29T00:59:00.000Z',
+      '2026-03-29T01:00:00.000Z',
+    ]);
+    expect(p.refused).toMatchObject([
+      { line: 3, reason: 'time 2026-03-29 01:30:00 does not exist in Europe/London (the clocks went forward)' },
+    ]);
   });
 
   it('refuses the whole file when a mapped column is missing or there is no header', () => {
@@ -99,14 +134,19 @@ describe('trend file parsing', () => {
   });
 
   it('counts lines through quoted line breaks and blank lines', () => {
-    const csv = 'Time,SpO2,HR\n2026-12-01T10:00:00Z,95,"80"\n\n"2026-12-01T10:00:01Z",x,"a\nb"\n2026-12-01T10:00:02Z,101,80\n';
+    const csv =
+      'Time,SpO2,HR\n2026-12-01T10:00:00Z,95,"80"\n\n"2026-12-01T10:00:01Z",x,"a\nb"\n2026-12-01T10:00:02Z,101,80\n';
     const p = parseTrendCsv(csv, mapping({ perfusionIndex: null, quality: null }), 'UTC');
     expect(p.rowCount).toBe(3);
     expect(p.refused.map((r) => r.line)).toEqual([4, 6]);
   });
 
   it('reads semicolon files and a byte-order mark', () => {
-    const p = parseTrendCsv('\uFEFFTime;SpO2;HR\n2026-12-01T10:00:00+01:00;97;70\n', mapping({ perfusionIndex: null, quality: null }), 'UTC');
+    const p = parseTrendCsv(
+      '\uFEFFTime;SpO2;HR\n2026-12-01T10:00:00+01:00;97;70\n',
+      mapping({ perfusionIndex: null, quality: null }),
+      'UTC',
+    );
     expect(p.rows[0]!.at).toBe(Date.UTC(2026, 11, 1, 9));
   });
 });
@@ -115,9 +155,26 @@ describe('column mapping', () => {
   it('guesses from header names and checks a remembered mapping fits', () => {
     const headers = headerNames('"Date Time",SpO2 (%),Pulse Rate,PI,Signal\r\n1,2,3');
     expect(headers).toEqual(['Date Time', 'SpO2 (%)', 'Pulse Rate', 'PI', 'Signal']);
-    expect(guessMapping(headers)).toEqual({ time: 'Date Time', spo2: 'SpO2 (%)', heartRate: 'Pulse Rate', perfusionIndex: 'PI', quality: 'Signal' });
+    expect(guessMapping(headers)).toEqual({
+      time: 'Date Time',
+      spo2: 'SpO2 (%)',
+      heartRate: 'Pulse Rate',
+      perfusionIndex: 'PI',
+      quality: 'Signal',
+    });
     expect(mappingFits(mapping(), headers)).toBe(false);
-    expect(mappingFits(mapping({ time: 'Date Time', spo2: 'SpO2 (%)', heartRate: 'Pulse Rate', perfusionIndex: 'PI', quality: 'Signal' }), headers)).toBe(true);
+    expect(
+      mappingFits(
+        mapping({
+          time: 'Date Time',
+          spo2: 'SpO2 (%)',
+          heartRate: 'Pulse Rate',
+          perfusionIndex: 'PI',
+          quality: 'Signal',
+        }),
+        headers,
+      ),
+    ).toBe(true);
   });
 
   it('refuses one column used twice', () => {

@@ -13,7 +13,14 @@ import { formatCount } from '~/lib/time/format.ts';
 export { MAX_TREND_FILE_BYTES } from './mapping.ts';
 export const MAX_TREND_ROWS = 200_000;
 
-export interface TrendRow { line: number; at: number; spo2: number | null; heartRate: number | null; perfusionIndex: number | null; trace: TraceQuality }
+export interface TrendRow {
+  line: number;
+  at: number;
+  spo2: number | null;
+  heartRate: number | null;
+  perfusionIndex: number | null;
+  trace: TraceQuality;
+}
 export interface RowProblem {
   line: number;
   reason: string;
@@ -25,10 +32,21 @@ export interface RowProblem {
 export type MappedField = 'time' | 'spo2' | 'heartRate' | 'perfusionIndex' | 'quality';
 
 /** Refused rows of one reason: how many, and the first line numbers. */
-export interface RefusalGroup { reason: string; field: MappedField | null; count: number; firstLines: number[] }
+export interface RefusalGroup {
+  reason: string;
+  field: MappedField | null;
+  count: number;
+  firstLines: number[];
+}
 
 /** A mapped column whose values mostly do not fit what it was mapped as: offer to leave it unmapped. */
-export interface UnfitColumn { field: MappedField; column: string; refused: number; examples: string[]; /** Optional columns (perfusion index, quality) may be left unmapped; SpO₂ and heart rate need another column. */ canUnmap: boolean }
+export interface UnfitColumn {
+  field: MappedField;
+  column: string;
+  refused: number;
+  examples: string[] /** Optional columns (perfusion index, quality) may be left unmapped; SpO₂ and heart rate need another column. */;
+  canUnmap: boolean;
+}
 
 export interface TrendParse {
   headers: string[];
@@ -48,7 +66,10 @@ export function groupRefusals(refused: RowProblem[], keep = 5): RefusalGroup[] {
   for (const r of refused) {
     const key = r.group ?? r.reason;
     let g = groups.get(key);
-    if (!g) groups.set(key, (g = { reason: key, field: r.field ?? null, count: 0, firstLines: [] }));
+    if (!g) {
+      g = { reason: key, field: r.field ?? null, count: 0, firstLines: [] };
+      groups.set(key, g);
+    }
     g.count += 1;
     if (g.firstLines.length < keep) g.firstLines.push(r.line);
   }
@@ -57,22 +78,37 @@ export function groupRefusals(refused: RowProblem[], keep = 5): RefusalGroup[] {
 
 /** The whole file cannot be read: no header, a mapped column missing, not CSV at all. */
 export class TrendFileError extends Error {
-  constructor(message: string, readonly field = 'file') {
+  constructor(
+    message: string,
+    readonly field = 'file',
+  ) {
     super(message);
   }
 }
 
 const EMPTY = /^-*$|^\?$/;
 
-interface CellProblem { reason: string; group: string }
-function numberCell(raw: string | undefined, label: string, lim: { min: number; max: number }, unit: string, whole: boolean): number | null | CellProblem {
+interface CellProblem {
+  reason: string;
+  group: string;
+}
+function numberCell(
+  raw: string | undefined,
+  label: string,
+  lim: { min: number; max: number },
+  unit: string,
+  whole: boolean,
+): number | null | CellProblem {
   const text = (raw ?? '').trim();
   if (EMPTY.test(text)) return null;
   const v = Number(text);
   if (!Number.isFinite(v)) return { reason: `${label} "${text}" is not a number`, group: `${label} is not a number` };
-  if (whole && !Number.isInteger(v)) return { reason: `${label} ${text} is not a whole number`, group: `${label} is not a whole number` };
-  if (v < lim.min) return { reason: `${label} ${text} is under ${lim.min}${unit}`, group: `${label} under ${lim.min}${unit}` };
-  if (v > lim.max) return { reason: `${label} ${text} is over ${lim.max}${unit}`, group: `${label} over ${lim.max}${unit}` };
+  if (whole && !Number.isInteger(v))
+    return { reason: `${label} ${text} is not a whole number`, group: `${label} is not a whole number` };
+  if (v < lim.min)
+    return { reason: `${label} ${text} is under ${lim.min}${unit}`, group: `${label} under ${lim.min}${unit}` };
+  if (v > lim.max)
+    return { reason: `${label} ${text} is over ${lim.max}${unit}`, group: `${label} over ${lim.max}${unit}` };
   return v;
 }
 const isProblem = (v: unknown): v is CellProblem => typeof v === 'object' && v !== null;
@@ -82,12 +118,18 @@ const QUALITY_WORDS = new Set<string>(TRACE_QUALITIES);
 export function parseTrendCsv(text: string, mapping: TrendMapping, timeZone: string): TrendParse {
   const body = text.replace(/^\uFEFF/, '');
   const firstLine = body.slice(0, body.search(/\r?\n|$/));
-  if (firstLine.trim() === '') throw new TrendFileError('The file is empty or its first line is blank: a header row is needed.');
+  if (firstLine.trim() === '')
+    throw new TrendFileError('The file is empty or its first line is blank: a header row is needed.');
   let records: string[][];
   try {
     // Blank lines are kept as records and skipped below, so line numbers can be counted without
     // csv-parse's per-record info object (which costs a third of the parse on a day-long file).
-    records = parse(body, { delimiter: detectDelimiter(firstLine), skip_empty_lines: false, relax_column_count: true, to: MAX_TREND_ROWS + 2 });
+    records = parse(body, {
+      delimiter: detectDelimiter(firstLine),
+      skip_empty_lines: false,
+      relax_column_count: true,
+      to: MAX_TREND_ROWS + 2,
+    });
   } catch (err) {
     throw new TrendFileError(`The file is not readable as CSV: ${(err as Error).message}`);
   }
@@ -103,7 +145,8 @@ export function parseTrendCsv(text: string, mapping: TrendMapping, timeZone: str
   const hi = col(mapping.heartRate, 'heartRate');
   const pi = col(mapping.perfusionIndex, 'perfusionIndex');
   const qi = col(mapping.quality, 'quality');
-  if (records.length - 1 > MAX_TREND_ROWS) throw new TrendFileError(`More than ${formatCount(MAX_TREND_ROWS)} rows: split the file.`);
+  if (records.length - 1 > MAX_TREND_ROWS)
+    throw new TrendFileError(`More than ${formatCount(MAX_TREND_ROWS)} rows: split the file.`);
   const isBlank = (r: string[]) => r.length === 1 && r[0]!.trim() === '';
 
   const resolve = mapping.timeMode === 'local' ? zoneResolver(timeZone) : null;
@@ -130,29 +173,66 @@ export function parseTrendCsv(text: string, mapping: TrendMapping, timeZone: str
     const refuse = (reason: string, group?: string, field?: MappedField, value?: string) => {
       refused.push({ line: recordLine, reason, ...(group ? { group } : {}), ...(field ? { field } : {}) });
       if (field && value !== undefined) {
-        const ex = (badValues[field] ??= []);
+        badValues[field] ??= [];
+        const ex = badValues[field];
         if (ex.length < 3 && !ex.includes(value)) ex.push(value);
       }
     };
 
     const timeText = (record[ti] ?? '').trim();
-    if (timeText === '') { refuse('time is missing', undefined, 'time'); continue; }
+    if (timeText === '') {
+      refuse('time is missing', undefined, 'time');
+      continue;
+    }
     const parsed = parseTimeText(timeText);
-    if (!parsed || !isValidWallTime(parsed.wall)) { refuse(`time "${timeText}" is not a date and time this import understands`, 'time is not a date and time this import understands', 'time', timeText); continue; }
+    if (!parsed || !isValidWallTime(parsed.wall)) {
+      refuse(
+        `time "${timeText}" is not a date and time this import understands`,
+        'time is not a date and time this import understands',
+        'time',
+        timeText,
+      );
+      continue;
+    }
     let at: number;
     if (mapping.timeMode === 'iso') {
-      if (parsed.offsetMs === null) { refuse(`time "${timeText}" has no offset (Z or ±hh:mm); choose "unit local time" for times without one`, 'time has no offset (Z or ±hh:mm); choose "unit local time" for times without one', 'time', timeText); continue; }
+      if (parsed.offsetMs === null) {
+        refuse(
+          `time "${timeText}" has no offset (Z or ±hh:mm); choose "unit local time" for times without one`,
+          'time has no offset (Z or ±hh:mm); choose "unit local time" for times without one',
+          'time',
+          timeText,
+        );
+        continue;
+      }
       const w = parsed.wall;
       at = Date.UTC(w.y, w.mo - 1, w.d, w.h, w.mi, w.s, w.ms) - parsed.offsetMs;
     } else {
-      if (parsed.offsetMs !== null) { refuse(`time "${timeText}" carries an offset; choose "ISO 8601 with offset" for this file`, 'time carries an offset; choose "ISO 8601 with offset" for this file', 'time', timeText); continue; }
+      if (parsed.offsetMs !== null) {
+        refuse(
+          `time "${timeText}" carries an offset; choose "ISO 8601 with offset" for this file`,
+          'time carries an offset; choose "ISO 8601 with offset" for this file',
+          'time',
+          timeText,
+        );
+        continue;
+      }
       const r = resolve!(parsed.wall);
-      if (r.kind === 'gap') { refuse(`time ${wallTimeText(parsed.wall)} does not exist in ${timeZone} (the clocks went forward)`, `time does not exist in ${timeZone} (the clocks went forward)`); continue; }
+      if (r.kind === 'gap') {
+        refuse(
+          `time ${wallTimeText(parsed.wall)} does not exist in ${timeZone} (the clocks went forward)`,
+          `time does not exist in ${timeZone} (the clocks went forward)`,
+        );
+        continue;
+      }
       if (r.kind === 'ambiguous') {
         at = resolveRepeated(r, previousAt);
         const choice = at === r.earlier ? 'first' : 'second';
         if (choice !== lastChoice) {
-          notes.push({ line: recordLine, reason: `from ${wallTimeText(parsed.wall)} the times happen twice in ${timeZone} (the clocks went back); taken as the ${choice === 'first' ? 'first pass (summer time)' : 'second pass (standard time)'} by the file's order` });
+          notes.push({
+            line: recordLine,
+            reason: `from ${wallTimeText(parsed.wall)} the times happen twice in ${timeZone} (the clocks went back); taken as the ${choice === 'first' ? 'first pass (summer time)' : 'second pass (standard time)'} by the file's order`,
+          });
         }
         lastChoice = choice;
       } else {
@@ -162,25 +242,49 @@ export function parseTrendCsv(text: string, mapping: TrendMapping, timeZone: str
     }
 
     const spo2 = numberCell(record[si], 'SpO₂', READING_LIMITS.spo2, ' %', true);
-    if (isProblem(spo2)) { refuse(spo2.reason, spo2.group, 'spo2', (record[si] ?? '').trim()); continue; }
+    if (isProblem(spo2)) {
+      refuse(spo2.reason, spo2.group, 'spo2', (record[si] ?? '').trim());
+      continue;
+    }
     const heartRate = numberCell(record[hi], 'Heart rate', READING_LIMITS.heartRate, '/min', true);
-    if (isProblem(heartRate)) { refuse(heartRate.reason, heartRate.group, 'heartRate', (record[hi] ?? '').trim()); continue; }
-    const perfusionIndex = pi < 0 ? null : numberCell(record[pi], 'Perfusion index', READING_LIMITS.perfusionIndex, ' %', false);
-    if (isProblem(perfusionIndex)) { refuse(perfusionIndex.reason, perfusionIndex.group, 'perfusionIndex', (record[pi] ?? '').trim()); continue; }
+    if (isProblem(heartRate)) {
+      refuse(heartRate.reason, heartRate.group, 'heartRate', (record[hi] ?? '').trim());
+      continue;
+    }
+    const perfusionIndex =
+      pi < 0 ? null : numberCell(record[pi], 'Perfusion index', READING_LIMITS.perfusionIndex, ' %', false);
+    if (isProblem(perfusionIndex)) {
+      refuse(perfusionIndex.reason, perfusionIndex.group, 'perfusionIndex', (record[pi] ?? '').trim());
+      continue;
+    }
     let trace = defaultTrace(spo2);
     let traceGiven = false;
     if (qi >= 0) {
       const q = (record[qi] ?? '').trim().toLowerCase();
       if (q !== '') {
-        if (!QUALITY_WORDS.has(q)) { refuse(`quality "${record[qi]}" is not one of ${TRACE_QUALITIES.join(', ')}`, `quality is not one of ${TRACE_QUALITIES.join(', ')}`, 'quality', (record[qi] ?? '').trim()); continue; }
+        if (!QUALITY_WORDS.has(q)) {
+          refuse(
+            `quality "${record[qi]}" is not one of ${TRACE_QUALITIES.join(', ')}`,
+            `quality is not one of ${TRACE_QUALITIES.join(', ')}`,
+            'quality',
+            (record[qi] ?? '').trim(),
+          );
+          continue;
+        }
         trace = q as TraceQuality;
         traceGiven = true;
       }
     }
     // As in the feed: an empty row stands for a probe off only when its quality says "absent".
-    if (spo2 === null && heartRate === null && !(traceGiven && trace === 'absent')) { refuse('no SpO₂ and no heart rate'); continue; }
+    if (spo2 === null && heartRate === null && !(traceGiven && trace === 'absent')) {
+      refuse('no SpO₂ and no heart rate');
+      continue;
+    }
     const earlier = lineOfTime.get(at);
-    if (earlier !== undefined) { refuse(`same time as line ${earlier}`, 'same time as an earlier line'); continue; }
+    if (earlier !== undefined) {
+      refuse(`same time as line ${earlier}`, 'same time as an earlier line');
+      continue;
+    }
     lineOfTime.set(at, recordLine);
     previousAt = at;
     rows.push({ line: recordLine, at, spo2, heartRate, perfusionIndex, trace });
@@ -189,7 +293,14 @@ export function parseTrendCsv(text: string, mapping: TrendMapping, timeZone: str
   for (const field of ['spo2', 'heartRate', 'perfusionIndex', 'quality'] as const) {
     const column = mapping[field];
     const n = refused.filter((r) => r.field === field).length;
-    if (column && n > 0 && n * 2 >= rowCount) unfitColumns.push({ field, column, refused: n, examples: badValues[field] ?? [], canUnmap: field === 'perfusionIndex' || field === 'quality' });
+    if (column && n > 0 && n * 2 >= rowCount)
+      unfitColumns.push({
+        field,
+        column,
+        refused: n,
+        examples: badValues[field] ?? [],
+        canUnmap: field === 'perfusionIndex' || field === 'quality',
+      });
   }
   return { headers, rowCount, rows, refused, notes, unfitColumns };
 }

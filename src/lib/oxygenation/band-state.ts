@@ -4,7 +4,10 @@
  */
 export type BandStateName = 'below' | 'in' | 'above' | 'untrusted' | 'no_reading' | 'no_band';
 
-export interface Band { low: number; high: number }
+export interface Band {
+  low: number;
+  high: number;
+}
 
 /** Below, in or above the band (limits inclusive: a reading at the lower limit is in band). */
 export function placeInBand(spo2: number, band: Band): 'below' | 'in' | 'above' {

@@ -21,7 +21,12 @@ function totalOf(r: ReturnType<typeof bandCompliance>): number {
 describe('isTrusted', () => {
   it('trusts clean and weak traces, not noisy or absent', () => {
     const trusted = (trace: TraceQuality) => isTrusted(reading(0, 95, { trace }));
-    expect([trusted('clean'), trusted('weak'), trusted('noisy'), trusted('absent')]).toEqual([true, true, false, false]);
+    expect([trusted('clean'), trusted('weak'), trusted('noisy'), trusted('absent')]).toEqual([
+      true,
+      true,
+      false,
+      false,
+    ]);
   });
 
   it('distrusts a perfusion index under 0.4 % (common practice, no standard; a setting)', () => {
@@ -80,7 +85,11 @@ describe('bandCompliance', () => {
 
   it('counts untrusted readings as untrusted time, never below band', () => {
     const r = bandCompliance(
-      [reading(0, 70, { trace: 'noisy' }), reading(30, 70, { perfusionIndex: 0.2 }), reading(45, null, { trace: 'absent' })],
+      [
+        reading(0, 70, { trace: 'noisy' }),
+        reading(30, 70, { perfusionIndex: 0.2 }),
+        reading(45, null, { trace: 'absent' }),
+      ],
       [band(0, 92, 96)],
       win(0, 60),
     );
@@ -126,7 +135,9 @@ describe('bandCompliance', () => {
     });
 
     it('refuses unsorted or impossible orders, a backwards window and bad settings', () => {
-      expect(() => bandCompliance([], [band(10, 92, 96), band(0, 92, 96)], win(0, 60))).toThrowError(ComputationInputError);
+      expect(() => bandCompliance([], [band(10, 92, 96), band(0, 92, 96)], win(0, 60))).toThrowError(
+        ComputationInputError,
+      );
       expect(() => bandCompliance([], [band(0, 96, 92)], win(0, 60))).toThrowError(ComputationInputError);
       expect(() => bandCompliance([], [band(0, 92, 101)], win(0, 60))).toThrowError(ComputationInputError);
       expect(() => bandCompliance([], orders, win(60, 0))).toThrowError(ComputationInputError);
@@ -153,13 +164,30 @@ const readingsArb = (spo2: fc.Arbitrary<number | null>) =>
     .map((rows) =>
       rows
         .sort((a, b) => a.offsetMin - b.offsetMin)
-        .map((r) => ({ at: T0 + r.offsetMin * MIN, spo2: r.spo2, trace: r.trace, source: r.source, perfusionIndex: r.perfusionIndex })),
+        .map((r) => ({
+          at: T0 + r.offsetMin * MIN,
+          spo2: r.spo2,
+          trace: r.trace,
+          source: r.source,
+          perfusionIndex: r.perfusionIndex,
+        })),
     );
 const ordersArb = fc
-  .array(fc.record({ offsetMin: fc.integer({ min: -60, max: 600 }), low: fc.integer({ min: 80, max: 92 }), width: fc.integer({ min: 0, max: 8 }) }), {
-    maxLength: 5,
-  })
-  .map((os) => os.sort((a, b) => a.offsetMin - b.offsetMin).map((o) => ({ from: T0 + o.offsetMin * MIN, low: o.low, high: o.low + o.width })));
+  .array(
+    fc.record({
+      offsetMin: fc.integer({ min: -60, max: 600 }),
+      low: fc.integer({ min: 80, max: 92 }),
+      width: fc.integer({ min: 0, max: 8 }),
+    }),
+    {
+      maxLength: 5,
+    },
+  )
+  .map((os) =>
+    os
+      .sort((a, b) => a.offsetMin - b.offsetMin)
+      .map((o) => ({ from: T0 + o.offsetMin * MIN, low: o.low, high: o.low + o.width })),
+  );
 const windowArb = fc
   .tuple(fc.integer({ min: -60, max: 600 }), fc.integer({ min: 0, max: 600 }))
   .map(([start, length]) => ({ from: T0 + start * MIN, to: T0 + (start + length) * MIN }));
@@ -167,31 +195,47 @@ const windowArb = fc
 describe('bandCompliance properties', () => {
   it('the minute totals add up to the window', () => {
     fc.assert(
-      fc.property(readingsArb(fc.option(fc.integer({ min: 50, max: 100 }))), ordersArb, windowArb, (readings, orders, window) => {
-        const r = bandCompliance(readings, orders, window);
-        expect(totalOf(r)).toBeCloseTo(r.windowMin, 6);
-        for (const v of [r.inBandMin, r.belowMin, r.aboveMin, r.untrustedMin, r.noReadingMin, r.noBandMin]) expect(v).toBeGreaterThanOrEqual(0);
-      }),
+      fc.property(
+        readingsArb(fc.option(fc.integer({ min: 50, max: 100 }))),
+        ordersArb,
+        windowArb,
+        (readings, orders, window) => {
+          const r = bandCompliance(readings, orders, window);
+          expect(totalOf(r)).toBeCloseTo(r.windowMin, 6);
+          for (const v of [r.inBandMin, r.belowMin, r.aboveMin, r.untrustedMin, r.noReadingMin, r.noBandMin])
+            expect(v).toBeGreaterThanOrEqual(0);
+        },
+      ),
     );
   });
 
   it('burden is never negative', () => {
     fc.assert(
-      fc.property(readingsArb(fc.option(fc.double({ min: 0, max: 100, noNaN: true }))), ordersArb, windowArb, (readings, orders, window) => {
-        expect(bandCompliance(readings, orders, window).burdenPctMin).toBeGreaterThanOrEqual(0);
-      }),
+      fc.property(
+        readingsArb(fc.option(fc.double({ min: 0, max: 100, noNaN: true }))),
+        ordersArb,
+        windowArb,
+        (readings, orders, window) => {
+          expect(bandCompliance(readings, orders, window).burdenPctMin).toBeGreaterThanOrEqual(0);
+        },
+      ),
     );
   });
 
   it('burden is zero when every trusted reading is in band (at or above every lower limit)', () => {
     fc.assert(
-      fc.property(readingsArb(fc.option(fc.integer({ min: 50, max: 100 }))), ordersArb, windowArb, (readings, orders, window) => {
-        const floor = Math.max(0, ...orders.map((o) => o.low));
-        const lifted = readings.map((r) => (isTrusted(r) ? { ...r, spo2: Math.max(r.spo2 as number, floor) } : r));
-        const result = bandCompliance(lifted, orders, window);
-        expect(result.burdenPctMin).toBe(0);
-        expect(result.belowMin).toBe(0);
-      }),
+      fc.property(
+        readingsArb(fc.option(fc.integer({ min: 50, max: 100 }))),
+        ordersArb,
+        windowArb,
+        (readings, orders, window) => {
+          const floor = Math.max(0, ...orders.map((o) => o.low));
+          const lifted = readings.map((r) => (isTrusted(r) ? { ...r, spo2: Math.max(r.spo2 as number, floor) } : r));
+          const result = bandCompliance(lifted, orders, window);
+          expect(result.burdenPctMin).toBe(0);
+          expect(result.belowMin).toBe(0);
+        },
+      ),
     );
   });
 });

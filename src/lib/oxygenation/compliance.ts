@@ -63,7 +63,7 @@ class Tally {
         this.high = this.highs[k]!;
         this.nextFrom = k + 1 < this.froms.length ? this.froms[k + 1]! : Infinity;
       }
-      const end = b < this.nextFrom ? b : this.nextFrom;
+      const end = Math.min(b, this.nextFrom);
       const d = end - a;
       if (this.k < 0) this.noBandMs += d;
       else if (kind === 0) this.noReadingMs += d;

@@ -47,7 +47,11 @@ describe('sustained below band — charted rule (unit setting: 2 consecutive)', 
   });
 
   it('an untrusted reading between neither breaks nor extends the run', () => {
-    const c = detectConcerns([charted(0, 91), charted(30, 97, { trace: 'noisy' }), charted(60, 90)], BAND, at(70)).belowBand;
+    const c = detectConcerns(
+      [charted(0, 91), charted(30, 97, { trace: 'noisy' }), charted(60, 90)],
+      BAND,
+      at(70),
+    ).belowBand;
     expect(c?.chartedCount).toBe(2);
     expect(c?.runStart).toBe(at(0));
   });
@@ -55,7 +59,9 @@ describe('sustained below band — charted rule (unit setting: 2 consecutive)', 
   it('honours a unit setting of 3 consecutive readings', () => {
     const readings = [charted(0, 91), charted(30, 91)];
     expect(detectConcerns(readings, BAND, at(40), { consecutiveCharted: 3 }).belowBand).toBeNull();
-    expect(detectConcerns([...readings, charted(60, 91)], BAND, at(70), { consecutiveCharted: 3 }).belowBand).not.toBeNull();
+    expect(
+      detectConcerns([...readings, charted(60, 91)], BAND, at(70), { consecutiveCharted: 3 }).belowBand,
+    ).not.toBeNull();
   });
 });
 
@@ -63,7 +69,13 @@ describe('sustained below band — device dwell (unit setting: 5 min)', () => {
   it('trusted device readings below band for under 5 min raise nothing; for 5 min a concern', () => {
     expect(detectConcerns(deviceRun(0, 300, 90), BAND, T0 + 300_000).belowBand).toBeNull(); // 0…299 s spans 4 min 59 s
     const c = detectConcerns(deviceRun(0, 301, 90), BAND, T0 + 301_000).belowBand;
-    expect(c).toMatchObject({ rule: 'device_dwell', runStart: T0, runEnd: T0 + 300_000, metAt: T0 + 300_000, severity: 'standard' });
+    expect(c).toMatchObject({
+      rule: 'device_dwell',
+      runStart: T0,
+      runEnd: T0 + 300_000,
+      metAt: T0 + 300_000,
+      severity: 'standard',
+    });
   });
 
   it('a single trusted in-band device reading inside the dwell restarts it', () => {
@@ -72,7 +84,11 @@ describe('sustained below band — device dwell (unit setting: 5 min)', () => {
   });
 
   it('untrusted in-band readings inside the dwell do not restart it', () => {
-    const readings = [...deviceRun(0, 200, 90), ...deviceRun(200, 10, 95, { trace: 'noisy' }), ...deviceRun(210, 100, 90)];
+    const readings = [
+      ...deviceRun(0, 200, 90),
+      ...deviceRun(200, 10, 95, { trace: 'noisy' }),
+      ...deviceRun(210, 100, 90),
+    ];
     expect(detectConcerns(readings, BAND, T0 + 310_000).belowBand?.rule).toBe('device_dwell');
   });
 });
@@ -110,7 +126,9 @@ describe('cannot verify (setting: 15 min of untrusted readings only)', () => {
   it('a trusted reading ends the streak; works with no band', () => {
     const readings = [device(0, null, { trace: 'absent' }), device(20 * 60, 95)];
     expect(detectConcerns(readings, null, T0 + 21 * MIN).cannotVerify).toBeNull();
-    expect(detectConcerns([device(0, null, { trace: 'absent' })], null, T0 + 20 * MIN).cannotVerify?.lastTrustedAt).toBeNull();
+    expect(
+      detectConcerns([device(0, null, { trace: 'absent' })], null, T0 + 20 * MIN).cannotVerify?.lastTrustedAt,
+    ).toBeNull();
   });
 });
 
@@ -166,7 +184,19 @@ describe('detectConcerns properties', () => {
       }),
       { maxLength: 80 },
     )
-    .map((rows) => rows.sort((a, b) => a.sec - b.sec).map((r): Reading => ({ at: T0 + r.sec * 1000, spo2: r.spo2, trace: r.trace, source: r.source, perfusionIndex: r.perfusionIndex })));
+    .map((rows) =>
+      rows
+        .sort((a, b) => a.sec - b.sec)
+        .map(
+          (r): Reading => ({
+            at: T0 + r.sec * 1000,
+            spo2: r.spo2,
+            trace: r.trace,
+            source: r.source,
+            perfusionIndex: r.perfusionIndex,
+          }),
+        ),
+    );
 
   it('a poor-trace device reading between two low charted obs does not end the charted run (found by the property below)', () => {
     const t = 1_735_691_917_000;
@@ -178,7 +208,11 @@ describe('detectConcerns properties', () => {
     const withPoorTrace = detectConcerns(readings, BAND, t + 3_600_000).belowBand;
     const without = detectConcerns([readings[0]!, readings[2]!], BAND, t + 3_600_000).belowBand;
     expect(without).not.toBeNull();
-    expect(withPoorTrace).toMatchObject({ severity: without!.severity, rule: without!.rule, runStart: without!.runStart });
+    expect(withPoorTrace).toMatchObject({
+      severity: without!.severity,
+      rule: without!.rule,
+      runStart: without!.runStart,
+    });
   });
 
   it('untrusted readings never cause a below-band escalation: removing them never removes a concern', () => {
@@ -189,7 +223,12 @@ describe('detectConcerns properties', () => {
         const all = detectConcerns(readings, BAND, now).belowBand;
         const withoutUntrusted = detectConcerns(trustedOnly, BAND, now).belowBand;
         if (withoutUntrusted === null) expect(all).toBeNull();
-        else expect(all).toMatchObject({ severity: withoutUntrusted.severity, rule: withoutUntrusted.rule, runStart: withoutUntrusted.runStart });
+        else
+          expect(all).toMatchObject({
+            severity: withoutUntrusted.severity,
+            rule: withoutUntrusted.rule,
+            runStart: withoutUntrusted.runStart,
+          });
       }),
     );
   });
@@ -211,23 +250,39 @@ describe('bandState (board tile)', () => {
   });
 
   it('untrusted since the first of the streak; untrusted readings do not break a run', () => {
-    expect(bandState([charted(0, 90), charted(10, 95, { trace: 'noisy' })], BAND, at(20))).toMatchObject({ state: 'untrusted', since: at(10) });
-    expect(bandState([charted(0, 90), charted(10, 95, { trace: 'noisy' }), charted(20, 91)], BAND, at(20))).toMatchObject({ state: 'below', since: at(0) });
+    expect(bandState([charted(0, 90), charted(10, 95, { trace: 'noisy' })], BAND, at(20))).toMatchObject({
+      state: 'untrusted',
+      since: at(10),
+    });
+    expect(
+      bandState([charted(0, 90), charted(10, 95, { trace: 'noisy' }), charted(20, 91)], BAND, at(20)),
+    ).toMatchObject({ state: 'below', since: at(0) });
   });
 
   it('no reading once the carry-forward has run out, since when it ran out', () => {
-    expect(bandState([device(0, 95)], BAND, T0 + 5 * MIN)).toMatchObject({ state: 'no_reading', since: T0 + 2 * MIN, sinceMin: 3 });
+    expect(bandState([device(0, 95)], BAND, T0 + 5 * MIN)).toMatchObject({
+      state: 'no_reading',
+      since: T0 + 2 * MIN,
+      sinceMin: 3,
+    });
     expect(bandState([], BAND, at(0))).toMatchObject({ state: 'no_reading', since: null });
   });
 
   it('no band, in band and above band on oxygen', () => {
     expect(bandState([charted(0, 95)], null, at(1)).state).toBe('no_band');
     expect(bandState([charted(0, 95)], BAND, at(1)).state).toBe('in');
-    expect(bandState([charted(0, 99, { fio2: 0.35 })], BAND, at(40))).toMatchObject({ state: 'above', since: at(0), onOxygen: true });
+    expect(bandState([charted(0, 99, { fio2: 0.35 })], BAND, at(40))).toMatchObject({
+      state: 'above',
+      since: at(0),
+      onOxygen: true,
+    });
   });
 
   it('a gap with no reading starts a new run', () => {
-    expect(bandState([device(0, 90), device(600, 90)], BAND, T0 + 601_000)).toMatchObject({ state: 'below', since: T0 + 600_000 });
+    expect(bandState([device(0, 90), device(600, 90)], BAND, T0 + 601_000)).toMatchObject({
+      state: 'below',
+      since: T0 + 600_000,
+    });
   });
 });
 

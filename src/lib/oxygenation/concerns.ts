@@ -114,10 +114,19 @@ class OxygenTracker {
  *   forward, or a non-room-air device when FiO₂ is unknown), spanning `aboveOnOxygenMin`; ended
  *   by a trusted reading that is not above band or is on room air.
  */
-export function detectConcerns(readings: readonly Reading[], band: Band | null, now: number, s?: Partial<EscalationSettings>): Concerns {
+export function detectConcerns(
+  readings: readonly Reading[],
+  band: Band | null,
+  now: number,
+  s?: Partial<EscalationSettings>,
+): Concerns {
   const cfg = resolveSettings(DEFAULT_ESCALATION_SETTINGS, s, 'escalationSettings');
   if (!Number.isInteger(cfg.consecutiveCharted) || cfg.consecutiveCharted < 1) {
-    throw new ComputationInputError('escalationSettings.consecutiveCharted', 'must be a whole number of at least 1', cfg.consecutiveCharted);
+    throw new ComputationInputError(
+      'escalationSettings.consecutiveCharted',
+      'must be a whole number of at least 1',
+      cfg.consecutiveCharted,
+    );
   }
   validateMoment(band, now);
   const low = band === null ? NaN : band.low;
@@ -230,7 +239,8 @@ export function detectConcerns(readings: readonly Reading[], band: Band | null, 
     const first = readings[runFirst]!;
     const lastR = readings[runLast]!;
     const urgentReasons: string[] = [];
-    if (runMarginHit) urgentReasons.push(`a reading ${cfg.urgentMarginPoints} or more points below the lower limit ${low} %`);
+    if (runMarginHit)
+      urgentReasons.push(`a reading ${cfg.urgentMarginPoints} or more points below the lower limit ${low} %`);
     if (runFloorHit) urgentReasons.push(`a reading under ${floor} %`);
     belowBand = {
       severity: urgentReasons.length > 0 ? 'urgent' : 'standard',
@@ -306,7 +316,12 @@ export interface BandStateResult {
  *   a trusted reading in another state or a gap with no reading does.
  * All readings are judged against `band`; readings after `now` are ignored.
  */
-export function bandState(readings: readonly Reading[], band: Band | null, now: number, s?: Partial<ComplianceSettings>): BandStateResult {
+export function bandState(
+  readings: readonly Reading[],
+  band: Band | null,
+  now: number,
+  s?: Partial<ComplianceSettings>,
+): BandStateResult {
   const cfg = resolveSettings(DEFAULT_COMPLIANCE_SETTINGS, s, 'complianceSettings');
   validateMoment(band, now);
   const chartedMs = cfg.chartedMaxGapMin * MS_PER_MIN;

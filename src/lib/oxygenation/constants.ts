@@ -72,7 +72,8 @@ export const PUBLISHED_TARGET_BANDS = [
     id: 'bts_most',
     low: 94,
     high: 98,
-    source: "British Thoracic Society oxygen guideline 2017 (O'Driscoll et al., Thorax 72 Suppl 1): most acutely ill patients",
+    source:
+      "British Thoracic Society oxygen guideline 2017 (O'Driscoll et al., Thorax 72 Suppl 1): most acutely ill patients",
   },
   {
     id: 'bts_hypercapnic',
@@ -84,7 +85,8 @@ export const PUBLISHED_TARGET_BANDS = [
     id: 'tsanz_most',
     low: 92,
     high: 96,
-    source: 'Thoracic Society of Australia and New Zealand oxygen guidelines 2015 (Beasley et al., Respirology 20:1182)',
+    source:
+      'Thoracic Society of Australia and New Zealand oxygen guidelines 2015 (Beasley et al., Respirology 20:1182)',
   },
   {
     id: 'tsanz_hypercapnic',
@@ -101,17 +103,71 @@ export interface StepTable {
   readonly steps: readonly (readonly [upTo: number, score: number])[];
   readonly above: number;
 }
-export const NEWS2_RESP_RATE: StepTable = { steps: [[8, 3], [11, 1], [20, 0], [24, 2]], above: 3 };
-export const NEWS2_SPO2_SCALE1: StepTable = { steps: [[91, 3], [93, 2], [95, 1]], above: 0 };
+export const NEWS2_RESP_RATE: StepTable = {
+  steps: [
+    [8, 3],
+    [11, 1],
+    [20, 0],
+    [24, 2],
+  ],
+  above: 3,
+};
+export const NEWS2_SPO2_SCALE1: StepTable = {
+  steps: [
+    [91, 3],
+    [93, 2],
+    [95, 1],
+  ],
+  above: 0,
+};
 /** Scale 2 below 88 % and 88–92 % (any air/oxygen status); ≥ 93 % on air scores 0. */
-export const NEWS2_SPO2_SCALE2_LOW: StepTable = { steps: [[83, 3], [85, 2], [87, 1]], above: 0 };
+export const NEWS2_SPO2_SCALE2_LOW: StepTable = {
+  steps: [
+    [83, 3],
+    [85, 2],
+    [87, 1],
+  ],
+  above: 0,
+};
 /** Scale 2 at ≥ 93 % on oxygen: 93–94 → 1, 95–96 → 2, ≥ 97 → 3. */
-export const NEWS2_SPO2_SCALE2_ON_OXYGEN_HIGH: StepTable = { steps: [[92, 0], [94, 1], [96, 2]], above: 3 };
+export const NEWS2_SPO2_SCALE2_ON_OXYGEN_HIGH: StepTable = {
+  steps: [
+    [92, 0],
+    [94, 1],
+    [96, 2],
+  ],
+  above: 3,
+};
 export const NEWS2_SCALE2_AIR_BOUNDARY_PCT = 93;
 export const NEWS2_ON_OXYGEN_SCORE = 2;
-export const NEWS2_SYSTOLIC: StepTable = { steps: [[90, 3], [100, 2], [110, 1], [219, 0]], above: 3 };
-export const NEWS2_PULSE: StepTable = { steps: [[40, 3], [50, 1], [90, 0], [110, 1], [130, 2]], above: 3 };
-export const NEWS2_TEMPERATURE: StepTable = { steps: [[35.0, 3], [36.0, 1], [38.0, 0], [39.0, 1]], above: 2 };
+export const NEWS2_SYSTOLIC: StepTable = {
+  steps: [
+    [90, 3],
+    [100, 2],
+    [110, 1],
+    [219, 0],
+  ],
+  above: 3,
+};
+export const NEWS2_PULSE: StepTable = {
+  steps: [
+    [40, 3],
+    [50, 1],
+    [90, 0],
+    [110, 1],
+    [130, 2],
+  ],
+  above: 3,
+};
+export const NEWS2_TEMPERATURE: StepTable = {
+  steps: [
+    [35.0, 3],
+    [36.0, 1],
+    [38.0, 0],
+    [39.0, 1],
+  ],
+  above: 2,
+};
 export const NEWS2_CONSCIOUSNESS_NOT_ALERT_SCORE = 3;
 /** Response bands: 0–4 low; a single 3 with aggregate < 5 low–medium; 5–6 medium; ≥ 7 high (band words from memory of the RCP chart). */
 export const NEWS2_MEDIUM_FROM = 5;

@@ -17,7 +17,10 @@ describe('desaturation events (AASM scoring manual: ≥ 3 % rule 1A, ≥ 4 % rul
   it('pins the AASM drops', () => expect(AASM_DESATURATION_PCT).toEqual({ rule1A: 3, rule1B: 4 }));
 
   it('finds a 3-point drop from a steady baseline with its start, end and nadir', () => {
-    const data = series(3601, 96, [[600, 30, 93], [1800, 20, 90]]);
+    const data = series(3601, 96, [
+      [600, 30, 93],
+      [1800, 20, 90],
+    ]);
     const r = desaturationEvents(data);
     expect(r.events).toEqual([
       { start: T0 + 600_000, end: T0 + 630_000, nadir: 93, baseline: 96, drop: 3 },
@@ -40,7 +43,12 @@ describe('desaturation events (AASM scoring manual: ≥ 3 % rule 1A, ≥ 4 % rul
   });
 
   it('keeps event samples out of the baseline, so back-to-back events are each measured from 96', () => {
-    const r = desaturationEvents(series(1200, 96, [[300, 60, 92], [380, 60, 92]]));
+    const r = desaturationEvents(
+      series(1200, 96, [
+        [300, 60, 92],
+        [380, 60, 92],
+      ]),
+    );
     expect(r.events.map((e) => e.baseline)).toEqual([96, 96]);
   });
 
@@ -62,7 +70,12 @@ describe('desaturation events (AASM scoring manual: ≥ 3 % rule 1A, ≥ 4 % rul
   });
 
   it('throws on unsorted times and impossible SpO₂', () => {
-    expect(() => desaturationEvents([{ at: T0 + 1000, spo2: 95 }, { at: T0, spo2: 95 }])).toThrowError(ComputationInputError);
+    expect(() =>
+      desaturationEvents([
+        { at: T0 + 1000, spo2: 95 },
+        { at: T0, spo2: 95 },
+      ]),
+    ).toThrowError(ComputationInputError);
     expect(() => desaturationEvents([{ at: T0, spo2: Number.NaN }])).toThrowError(ComputationInputError);
     expect(() => desaturationEvents([{ at: T0, spo2: 140 }])).toThrowError(ComputationInputError);
     expect(() => desaturationEvents([], { dropPct: 0 })).toThrowError(ComputationInputError);

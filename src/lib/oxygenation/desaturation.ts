@@ -41,7 +41,8 @@ export function desaturationEvents(
   s?: Partial<DesaturationSettings>,
 ): DesaturationResult {
   const cfg = resolveSettings(DEFAULT_DESATURATION_SETTINGS, s, 'desaturationSettings');
-  if (cfg.dropPct <= 0) throw new ComputationInputError('desaturationSettings.dropPct', 'must be greater than zero', cfg.dropPct);
+  if (cfg.dropPct <= 0)
+    throw new ComputationInputError('desaturationSettings.dropPct', 'must be greater than zero', cfg.dropPct);
   const windowMs = cfg.baselineWindowSec * 1000;
   const maxGapMs = cfg.maxGapSec * 1000;
   const minDurMs = cfg.minDurationSec * 1000;

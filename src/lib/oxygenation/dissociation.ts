@@ -1,4 +1,10 @@
-import { DISSOLVED_O2_ML_PER_DL_PER_MMHG, ELLIS, HUFNER_ML_PER_G, IMPUTED_PF_MAX_SPO2_PCT, SEVERINGHAUS } from './constants';
+import {
+  DISSOLVED_O2_ML_PER_DL_PER_MMHG,
+  ELLIS,
+  HUFNER_ML_PER_G,
+  IMPUTED_PF_MAX_SPO2_PCT,
+  SEVERINGHAUS,
+} from './constants';
 import { ComputationInputError, requireInRange } from './errors';
 import { INPUT_LIMITS } from './settings';
 import type { Refusal } from './indices';
@@ -20,7 +26,11 @@ export function severinghausSaturation(po2MmHg: number): number {
 export function ellisPao2(saturationFraction: number): number {
   const s = requireInRange('saturationFraction', saturationFraction, 0, 1);
   if (s === 0 || s === 1) {
-    throw new ComputationInputError('saturationFraction', 'must be strictly between 0 and 1 (the curve has no finite PO₂ at 1)', s);
+    throw new ComputationInputError(
+      'saturationFraction',
+      'must be strictly between 0 and 1 (the curve has no finite PO₂ at 1)',
+      s,
+    );
   }
   const c = 1 / s - 1;
   const a = ELLIS.half / c;
@@ -36,7 +46,9 @@ export function imputedPf(spo2Pct: number, fio2Fraction: number): { pao2: number
   requireInRange('spo2Pct', spo2Pct, INPUT_LIMITS.spo2.min, INPUT_LIMITS.spo2.max);
   requireInRange('fio2Fraction', fio2Fraction, INPUT_LIMITS.fio2.min, INPUT_LIMITS.fio2.max);
   if (spo2Pct > IMPUTED_PF_MAX_SPO2_PCT) {
-    return { refused: `SpO₂ above ${IMPUTED_PF_MAX_SPO2_PCT} %: imputing PaO₂ is valid only at SpO₂ ≤ ${IMPUTED_PF_MAX_SPO2_PCT} % (Brown et al., Chest 2016)` };
+    return {
+      refused: `SpO₂ above ${IMPUTED_PF_MAX_SPO2_PCT} %: imputing PaO₂ is valid only at SpO₂ ≤ ${IMPUTED_PF_MAX_SPO2_PCT} % (Brown et al., Chest 2016)`,
+    };
   }
   if (spo2Pct === 0) throw new ComputationInputError('spo2Pct', 'must be greater than zero', spo2Pct);
   const pao2 = ellisPao2(spo2Pct / 100);

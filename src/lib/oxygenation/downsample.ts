@@ -37,7 +37,8 @@ export function lttb<T>(
     const p = points[i]!;
     const px = x(p);
     const py = y(p);
-    if (!(px >= prevX && px - px === 0)) throw new ComputationInputError(`points[${i}].x`, 'must be finite and not decreasing', px);
+    if (!(px >= prevX && px - px === 0))
+      throw new ComputationInputError(`points[${i}].x`, 'must be finite and not decreasing', px);
     if (!(py - py === 0)) throw new ComputationInputError(`points[${i}].y`, 'must be finite', py);
     xs[i] = px;
     ys[i] = py;

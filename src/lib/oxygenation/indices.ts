@@ -45,7 +45,9 @@ export function pfFromSf(sf: number, spo2Pct: number): { pf: number } | Refusal 
   requireInRange('sf', sf, 0, 500);
   checkSpo2(spo2Pct);
   if (spo2Pct > RICE_DERIVED_MAX_SPO2_PCT) {
-    return { refused: `SpO₂ above ${RICE_DERIVED_MAX_SPO2_PCT} %: the Rice 2007 S/F–P/F regression was derived on SpO₂ ≤ ${RICE_DERIVED_MAX_SPO2_PCT} %` };
+    return {
+      refused: `SpO₂ above ${RICE_DERIVED_MAX_SPO2_PCT} %: the Rice 2007 S/F–P/F regression was derived on SpO₂ ≤ ${RICE_DERIVED_MAX_SPO2_PCT} %`,
+    };
   }
   return { pf: (sf - RICE_SF_INTERCEPT) / RICE_SF_SLOPE };
 }
@@ -66,7 +68,8 @@ export function roxIndex(
   const sf = sfRatio(spo2Pct, fio2Fraction);
   requireInRange('respRate', respRate, INPUT_LIMITS.respRate.min, INPUT_LIMITS.respRate.max);
   if (respRate === 0) throw new ComputationInputError('respRate', 'must be greater than zero', respRate);
-  if (!OXYGEN_DEVICES.includes(device)) throw new ComputationInputError('device', 'is not a known oxygen device', device);
+  if (!OXYGEN_DEVICES.includes(device))
+    throw new ComputationInputError('device', 'is not a known oxygen device', device);
   if (device !== 'high_flow_nasal') {
     return { refused: 'ROX is defined only on high-flow nasal oxygen (Roca 2016, 2019)' };
   }
@@ -80,7 +83,8 @@ export function roxIndex(
 export function interpretRox(rox: number, hoursOnHighFlow: RoxCheckpointHours): RoxInterpretation {
   requireInRange('rox', rox, 0, Infinity);
   const failureBelow = ROX_FAILURE_BELOW[hoursOnHighFlow];
-  if (failureBelow === undefined) throw new ComputationInputError('hoursOnHighFlow', 'must be 2, 6 or 12', hoursOnHighFlow);
+  if (failureBelow === undefined)
+    throw new ComputationInputError('hoursOnHighFlow', 'must be 2, 6 or 12', hoursOnHighFlow);
   if (rox >= ROX_LOWER_RISK_AT_OR_ABOVE) return 'lower_risk';
   if (rox < failureBelow) return 'failure_likely';
   return 'indeterminate';
@@ -101,7 +105,8 @@ export type Fio2Estimate = {
  * must be charted) and for flows outside the range the rule of thumb covers.
  */
 export function estimateFio2(device: OxygenDevice, flowLpm: number | null): Fio2Estimate | Refusal {
-  if (!OXYGEN_DEVICES.includes(device)) throw new ComputationInputError('device', 'is not a known oxygen device', device);
+  if (!OXYGEN_DEVICES.includes(device))
+    throw new ComputationInputError('device', 'is not a known oxygen device', device);
   if (flowLpm !== null) requireInRange('flowLpm', flowLpm, INPUT_LIMITS.flowLpm.min, INPUT_LIMITS.flowLpm.max);
   switch (device) {
     case 'room_air':
@@ -116,7 +121,13 @@ export function estimateFio2(device: OxygenDevice, flowLpm: number | null): Fio2
         return { refused: `nasal cannula estimate covers ${minLpm}–${maxLpm} L/min only` };
       }
       const fio2 = base + perLpm * flowLpm;
-      return { fio2, low: fio2, high: fio2, estimated: true, basis: 'nasal cannula: about 0.21 + 0.04 per L/min (common practice)' };
+      return {
+        fio2,
+        low: fio2,
+        high: fio2,
+        estimated: true,
+        basis: 'nasal cannula: about 0.21 + 0.04 per L/min (common practice)',
+      };
     }
     case 'simple_mask': {
       const { minLpm, maxLpm, fio2AtMin, fio2AtMax } = SIMPLE_MASK_ESTIMATE;
@@ -124,13 +135,25 @@ export function estimateFio2(device: OxygenDevice, flowLpm: number | null): Fio2
         return { refused: `simple face mask estimate covers ${minLpm}–${maxLpm} L/min only` };
       }
       const fio2 = fio2AtMin + ((flowLpm - minLpm) / (maxLpm - minLpm)) * (fio2AtMax - fio2AtMin);
-      return { fio2, low: fio2AtMin, high: fio2AtMax, estimated: true, basis: 'simple face mask 5–10 L/min: about 0.40–0.60, interpolated (common practice)' };
+      return {
+        fio2,
+        low: fio2AtMin,
+        high: fio2AtMax,
+        estimated: true,
+        basis: 'simple face mask 5–10 L/min: about 0.40–0.60, interpolated (common practice)',
+      };
     }
     case 'reservoir_mask': {
       const { lpm, fio2Low, fio2High } = RESERVOIR_MASK_ESTIMATE;
       if (flowLpm !== lpm) return { refused: `reservoir mask estimate is quoted at ${lpm} L/min only` };
       // The quoted range is wide; its midpoint is reported and the range travels with it.
-      return { fio2: (fio2Low + fio2High) / 2, low: fio2Low, high: fio2High, estimated: true, basis: 'reservoir mask at 15 L/min: about 0.60–0.90, midpoint (common practice)' };
+      return {
+        fio2: (fio2Low + fio2High) / 2,
+        low: fio2Low,
+        high: fio2High,
+        estimated: true,
+        basis: 'reservoir mask at 15 L/min: about 0.60–0.90, midpoint (common practice)',
+      };
     }
   }
 }

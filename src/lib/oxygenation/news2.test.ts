@@ -22,26 +22,60 @@ function part(obs: News2Observations, key: keyof ReturnType<typeof news2>['parts
 
 describe('NEWS2 step boundaries (RCP NEWS2 2017)', () => {
   it.each([
-    [8, 3], [9, 1], [11, 1], [12, 0], [20, 0], [21, 2], [24, 2], [25, 3],
+    [8, 3],
+    [9, 1],
+    [11, 1],
+    [12, 0],
+    [20, 0],
+    [21, 2],
+    [24, 2],
+    [25, 3],
   ])('respiratory rate %d /min scores %d', (respRate, score) => {
     expect(part({ respRate }, 'respRate')).toBe(score);
   });
 
   it.each([
-    [91, 3], [92, 2], [93, 2], [94, 1], [95, 1], [96, 0], [100, 0],
+    [91, 3],
+    [92, 2],
+    [93, 2],
+    [94, 1],
+    [95, 1],
+    [96, 0],
+    [100, 0],
   ])('SpO₂ Scale 1 %d %% scores %d (on air and on oxygen alike)', (spo2, score) => {
     expect(part({ spo2, onOxygen: false }, 'spo2', 1)).toBe(score);
     expect(part({ spo2, onOxygen: true }, 'spo2', 1)).toBe(score);
   });
 
   it.each([
-    [83, 3], [84, 2], [85, 2], [86, 1], [87, 1], [88, 0], [92, 0], [93, 0], [97, 0], [100, 0],
+    [83, 3],
+    [84, 2],
+    [85, 2],
+    [86, 1],
+    [87, 1],
+    [88, 0],
+    [92, 0],
+    [93, 0],
+    [97, 0],
+    [100, 0],
   ])('SpO₂ Scale 2 on air %d %% scores %d', (spo2, score) => {
     expect(part({ spo2, onOxygen: false }, 'spo2', 2)).toBe(score);
   });
 
   it.each([
-    [83, 3], [84, 2], [85, 2], [86, 1], [87, 1], [88, 0], [92, 0], [93, 1], [94, 1], [95, 2], [96, 2], [97, 3], [100, 3],
+    [83, 3],
+    [84, 2],
+    [85, 2],
+    [86, 1],
+    [87, 1],
+    [88, 0],
+    [92, 0],
+    [93, 1],
+    [94, 1],
+    [95, 2],
+    [96, 2],
+    [97, 3],
+    [100, 3],
   ])('SpO₂ Scale 2 on oxygen %d %% scores %d', (spo2, score) => {
     expect(part({ spo2, onOxygen: true }, 'spo2', 2)).toBe(score);
   });
@@ -52,25 +86,52 @@ describe('NEWS2 step boundaries (RCP NEWS2 2017)', () => {
   });
 
   it.each([
-    [90, 3], [91, 2], [100, 2], [101, 1], [110, 1], [111, 0], [219, 0], [220, 3],
+    [90, 3],
+    [91, 2],
+    [100, 2],
+    [101, 1],
+    [110, 1],
+    [111, 0],
+    [219, 0],
+    [220, 3],
   ])('systolic %d mmHg scores %d', (systolic, score) => {
     expect(part({ systolic }, 'systolic')).toBe(score);
   });
 
   it.each([
-    [40, 3], [41, 1], [50, 1], [51, 0], [90, 0], [91, 1], [110, 1], [111, 2], [130, 2], [131, 3],
+    [40, 3],
+    [41, 1],
+    [50, 1],
+    [51, 0],
+    [90, 0],
+    [91, 1],
+    [110, 1],
+    [111, 2],
+    [130, 2],
+    [131, 3],
   ])('pulse %d /min scores %d', (pulse, score) => {
     expect(part({ pulse }, 'pulse')).toBe(score);
   });
 
   it.each([
-    ['alert', 0], ['new_confusion', 3], ['voice', 3], ['pain', 3], ['unresponsive', 3],
+    ['alert', 0],
+    ['new_confusion', 3],
+    ['voice', 3],
+    ['pain', 3],
+    ['unresponsive', 3],
   ] as const)('consciousness %s scores %d', (consciousness, score) => {
     expect(part({ consciousness }, 'consciousness')).toBe(score);
   });
 
   it.each([
-    [35.0, 3], [35.1, 1], [36.0, 1], [36.1, 0], [38.0, 0], [38.1, 1], [39.0, 1], [39.1, 2],
+    [35.0, 3],
+    [35.1, 1],
+    [36.0, 1],
+    [36.1, 0],
+    [38.0, 0],
+    [38.1, 1],
+    [39.0, 1],
+    [39.1, 2],
   ])('temperature %s °C scores %s', (temperature, score) => {
     expect(part({ temperature }, 'temperature')).toBe(score);
   });
@@ -188,7 +249,9 @@ describe('NEWS2 properties', () => {
     fc.assert(
       fc.property(spo2Pair, fc.boolean(), ([a, b], onOxygen) => {
         const [lower, higher] = a <= b ? [a, b] : [b, a];
-        expect(news2({ spo2: lower, onOxygen }, 1).parts.spo2!).toBeGreaterThanOrEqual(news2({ spo2: higher, onOxygen }, 1).parts.spo2!);
+        expect(news2({ spo2: lower, onOxygen }, 1).parts.spo2!).toBeGreaterThanOrEqual(
+          news2({ spo2: higher, onOxygen }, 1).parts.spo2!,
+        );
         expect(news2({ spo2: lower, onOxygen: false }, 2).parts.spo2!).toBeGreaterThanOrEqual(
           news2({ spo2: higher, onOxygen: false }, 2).parts.spo2!,
         );
@@ -200,12 +263,15 @@ describe('NEWS2 properties', () => {
     // By design of the RCP chart, Scale 2 on oxygen scores saturations above the 88–92 % target
     // too (93–≥97 %), so the property holds on the hypoxaemic side only.
     fc.assert(
-      fc.property(fc.tuple(fc.double({ min: 0, max: 92, noNaN: true }), fc.double({ min: 0, max: 92, noNaN: true })), ([a, b]) => {
-        const [lower, higher] = a <= b ? [a, b] : [b, a];
-        expect(news2({ spo2: lower, onOxygen: true }, 2).parts.spo2!).toBeGreaterThanOrEqual(
-          news2({ spo2: higher, onOxygen: true }, 2).parts.spo2!,
-        );
-      }),
+      fc.property(
+        fc.tuple(fc.double({ min: 0, max: 92, noNaN: true }), fc.double({ min: 0, max: 92, noNaN: true })),
+        ([a, b]) => {
+          const [lower, higher] = a <= b ? [a, b] : [b, a];
+          expect(news2({ spo2: lower, onOxygen: true }, 2).parts.spo2!).toBeGreaterThanOrEqual(
+            news2({ spo2: higher, onOxygen: true }, 2).parts.spo2!,
+          );
+        },
+      ),
     );
   });
 });

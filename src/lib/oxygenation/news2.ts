@@ -22,7 +22,9 @@ export type Consciousness = (typeof CONSCIOUSNESS)[number];
 
 /** A stored value as a level, or null when absent or not one of the levels. */
 export function asConsciousness(value: string | null | undefined): Consciousness | null {
-  return value !== null && value !== undefined && (CONSCIOUSNESS as readonly string[]).includes(value) ? (value as Consciousness) : null;
+  return value !== null && value !== undefined && (CONSCIOUSNESS as readonly string[]).includes(value)
+    ? (value as Consciousness)
+    : null;
 }
 
 export interface News2Observations {
@@ -35,7 +37,14 @@ export interface News2Observations {
   temperature?: number | null;
 }
 
-export type News2Parameter = 'respRate' | 'spo2' | 'airOrOxygen' | 'systolic' | 'pulse' | 'consciousness' | 'temperature';
+export type News2Parameter =
+  | 'respRate'
+  | 'spo2'
+  | 'airOrOxygen'
+  | 'systolic'
+  | 'pulse'
+  | 'consciousness'
+  | 'temperature';
 export type News2Response = 'low' | 'low_medium' | 'medium' | 'high';
 
 export interface News2Result {
@@ -50,7 +59,15 @@ export interface News2Result {
   scale: 1 | 2;
 }
 
-const PARAMETERS: readonly News2Parameter[] = ['respRate', 'spo2', 'airOrOxygen', 'systolic', 'pulse', 'consciousness', 'temperature'];
+const PARAMETERS: readonly News2Parameter[] = [
+  'respRate',
+  'spo2',
+  'airOrOxygen',
+  'systolic',
+  'pulse',
+  'consciousness',
+  'temperature',
+];
 
 /**
  * Rounds half away from zero at `decimals`, on the decimal value as written: 38.05 × 10 is
@@ -97,7 +114,8 @@ export function news2(obs: News2Observations, scale: 1 | 2): News2Result {
     parts.respRate = stepScore(NEWS2_RESP_RATE, roundHalfUp(v, 0));
   }
   if (present(obs.onOxygen)) {
-    if (typeof obs.onOxygen !== 'boolean') throw new ComputationInputError('onOxygen', 'must be true or false', obs.onOxygen);
+    if (typeof obs.onOxygen !== 'boolean')
+      throw new ComputationInputError('onOxygen', 'must be true or false', obs.onOxygen);
     parts.airOrOxygen = obs.onOxygen ? NEWS2_ON_OXYGEN_SCORE : 0;
   }
   if (present(obs.spo2)) {
@@ -118,12 +136,21 @@ export function news2(obs: News2Observations, scale: 1 | 2): News2Result {
   }
   if (present(obs.consciousness)) {
     if (!(CONSCIOUSNESS as readonly string[]).includes(obs.consciousness as string)) {
-      throw new ComputationInputError('consciousness', 'must be alert, new_confusion, voice, pain or unresponsive', obs.consciousness);
+      throw new ComputationInputError(
+        'consciousness',
+        'must be alert, new_confusion, voice, pain or unresponsive',
+        obs.consciousness,
+      );
     }
     parts.consciousness = obs.consciousness === 'alert' ? 0 : NEWS2_CONSCIOUSNESS_NOT_ALERT_SCORE;
   }
   if (present(obs.temperature)) {
-    const v = requireInRange('temperature', obs.temperature, INPUT_LIMITS.temperature.min, INPUT_LIMITS.temperature.max);
+    const v = requireInRange(
+      'temperature',
+      obs.temperature,
+      INPUT_LIMITS.temperature.min,
+      INPUT_LIMITS.temperature.max,
+    );
     parts.temperature = stepScore(NEWS2_TEMPERATURE, roundHalfUp(v, 1));
   }
 
@@ -131,7 +158,15 @@ export function news2(obs: News2Observations, scale: 1 | 2): News2Result {
   const anyThree = PARAMETERS.some((p) => parts[p] === 3);
   const complete = missing.length === 0;
   const total = complete ? PARAMETERS.reduce((sum, p) => sum + (parts[p] as number), 0) : null;
-  return { total, complete, missing, parts, response: total === null ? null : news2Response(total, anyThree), anyThree, scale };
+  return {
+    total,
+    complete,
+    missing,
+    parts,
+    response: total === null ? null : news2Response(total, anyThree),
+    anyThree,
+    scale,
+  };
 }
 
 /** RCP response bands: ≥ 7 high; 5–6 medium; a single 3 with aggregate < 5 low–medium; else low. */

@@ -15,7 +15,8 @@ describe('calibration curves', () => {
   });
 
   it('the forward model inverts the curve exactly', () => {
-    for (const s of [70, 80, 90, 100]) expect(beerLambertCurve.spo2FromR(beerLambertCurve.rFromSpo2(s))).toBeCloseTo(s, 9);
+    for (const s of [70, 80, 90, 100])
+      expect(beerLambertCurve.spo2FromR(beerLambertCurve.rFromSpo2(s))).toBeCloseTo(s, 9);
   });
 
   it('linear approximation SpO₂ ≈ 110 − 25·R (widely quoted, from memory)', () => {
@@ -29,7 +30,9 @@ describe('pleth strip synthesised from Beer–Lambert at known saturations', () 
   for (const spo2 of [70, 75, 80, 85, 90, 95, 100]) for (const hr of [48, 75, 120]) cases.push([spo2, hr]);
 
   it.each(cases)('SpO₂ %s %%, pulse %s /min: R, SpO₂ within 1 point, heart rate within 1 /min', (spo2, hr) => {
-    const a = analysePlethStrip(synthesiseStrip({ spo2Pct: spo2, heartRate: hr, noiseCounts: 2, seed: spo2 * 1000 + hr }));
+    const a = analysePlethStrip(
+      synthesiseStrip({ spo2Pct: spo2, heartRate: hr, noiseCounts: 2, seed: spo2 * 1000 + hr }),
+    );
     const expectedR = beerLambertCurve.rFromSpo2(spo2); // from Prahl's coefficients
     expect(Math.abs(a.rMedian! - expectedR) / expectedR).toBeLessThan(0.02);
     expect(Math.abs(a.spo2! - spo2)).toBeLessThanOrEqual(1);
@@ -55,7 +58,10 @@ describe('pleth strip synthesised from Beer–Lambert at known saturations', () 
     const base = { spo2Pct: 86, heartRate: 64, noiseCounts: 2, seed: 11 };
     const a = analysePlethStrip(synthesiseStrip(base));
     const b = analysePlethStrip(
-      synthesiseStrip({ ...base, ambient: (t) => 20_000 + 15_000 * Math.sin(2 * Math.PI * 0.1 * t) + 2_000 * Math.sin(2 * Math.PI * 50 * t) }),
+      synthesiseStrip({
+        ...base,
+        ambient: (t) => 20_000 + 15_000 * Math.sin(2 * Math.PI * 0.1 * t) + 2_000 * Math.sin(2 * Math.PI * 50 * t),
+      }),
     );
     expect(b.rMedian!).toBeCloseTo(a.rMedian!, 8);
     expect(b.heartRate!).toBeCloseTo(a.heartRate!, 6);
@@ -64,7 +70,8 @@ describe('pleth strip synthesised from Beer–Lambert at known saturations', () 
   });
 
   it('motion bursts make the strip doubtful or unusable', () => {
-    const burst = (t: number) => ((t > 2 && t < 3.2) || (t > 6 && t < 7.5) ? 8_000 * Math.sin(2 * Math.PI * 2.7 * t) : 0);
+    const burst = (t: number) =>
+      (t > 2 && t < 3.2) || (t > 6 && t < 7.5) ? 8_000 * Math.sin(2 * Math.PI * 2.7 * t) : 0;
     const a = analysePlethStrip(synthesiseStrip({ spo2Pct: 95, heartRate: 75, noiseCounts: 2, artefact: burst }));
     expect(['doubtful', 'unusable']).toContain(a.verdict);
     expect(a.motionFraction).toBeGreaterThan(0);
@@ -113,7 +120,9 @@ describe('pleth strip synthesised from Beer–Lambert at known saturations', () 
 
   it('a curve value just over 100 % (measurement noise) is reported as 100 with a note, without lowering the verdict', () => {
     // R 2 % under the 0.263 that Beer–Lambert gives at 100 % (Prahl): about 100.2 % on the curve.
-    const a = analysePlethStrip(synthesiseStrip({ spo2Pct: 100, ratio: beerLambertCurve.rFromSpo2(100) * 0.98, heartRate: 75 }));
+    const a = analysePlethStrip(
+      synthesiseStrip({ spo2Pct: 100, ratio: beerLambertCurve.rFromSpo2(100) * 0.98, heartRate: 75 }),
+    );
     expect(a.spo2).toBe(100);
     expect(a.notes.join(' ')).toMatch(/reported as 100 %/);
     expect(a.verdict).toBe('trustworthy');
@@ -138,7 +147,9 @@ describe('pleth strip synthesised from Beer–Lambert at known saturations', () 
     const strip = synthesiseStrip({ spo2Pct: 95, heartRate: 75, seconds: 4 });
     expect(() => analysePlethStrip({ ...strip, red: [], infrared: [], dark: [] })).toThrowError(ComputationInputError);
     expect(() => analysePlethStrip({ ...strip, dark: strip.dark.slice(1) })).toThrowError(ComputationInputError);
-    expect(() => analysePlethStrip({ ...strip, red: [...strip.red.slice(1), Number.NaN] })).toThrowError(ComputationInputError);
+    expect(() => analysePlethStrip({ ...strip, red: [...strip.red.slice(1), Number.NaN] })).toThrowError(
+      ComputationInputError,
+    );
     expect(() => analysePlethStrip({ ...strip, sampleRateHz: 0 })).toThrowError(ComputationInputError);
   });
 });

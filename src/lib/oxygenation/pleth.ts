@@ -103,11 +103,16 @@ function validateChannel(name: string, values: unknown, length: number | null): 
   if (!Array.isArray(values)) throw new ComputationInputError(`strip.${name}`, 'must be an array of numbers', values);
   if (values.length === 0) throw new ComputationInputError(`strip.${name}`, 'must not be empty', values);
   if (length !== null && values.length !== length) {
-    throw new ComputationInputError(`strip.${name}`, `must have as many samples as strip.red (${length})`, values.length);
+    throw new ComputationInputError(
+      `strip.${name}`,
+      `must have as many samples as strip.red (${length})`,
+      values.length,
+    );
   }
   for (let i = 0; i < values.length; i++) {
     const v = values[i];
-    if (typeof v !== 'number' || !Number.isFinite(v)) throw new ComputationInputError(`strip.${name}[${i}]`, 'must be a finite number', v);
+    if (typeof v !== 'number' || !Number.isFinite(v))
+      throw new ComputationInputError(`strip.${name}[${i}]`, 'must be a finite number', v);
   }
   return values as number[];
 }
@@ -156,7 +161,7 @@ function skewnessOf(values: number[]): number | null {
   m2 /= n;
   m3 /= n;
   if (m2 === 0) return null;
-  return m3 / Math.pow(m2, 1.5);
+  return m3 / m2 ** 1.5;
 }
 
 /**
@@ -184,7 +189,8 @@ export function analysePlethStrip(
   const n = redRaw.length;
   const irRaw = validateChannel('infrared', strip.infrared, n);
   const dark = validateChannel('dark', strip.dark, n);
-  if (typeof curve?.spo2FromR !== 'function') throw new ComputationInputError('curve', 'must be a calibration curve', curve);
+  if (typeof curve?.spo2FromR !== 'function')
+    throw new ComputationInputError('curve', 'must be a calibration curve', curve);
 
   const reasons: string[] = [];
   const empty = (motionFraction: number, skewness: number | null): PlethAnalysis => ({
@@ -245,7 +251,9 @@ export function analysePlethStrip(
     reasons.push(`flat trace: pulsatile range ${(medianRange * 100).toFixed(3)} % of DC, under ${cfg.flatTracePct} %`);
     return empty(0, null);
   }
-  const motionWindow = ranges.map((r) => r > cfg.motionRangeFactor * medianRange || r * 100 > cfg.motionMaxPulsatilePct);
+  const motionWindow = ranges.map(
+    (r) => r > cfg.motionRangeFactor * medianRange || r * 100 > cfg.motionMaxPulsatilePct,
+  );
   const motionFraction = motionWindow.filter(Boolean).length / windowCount;
   const windowOf = (i: number): number => Math.min(windowCount - 1, Math.floor(i / win));
 
@@ -254,10 +262,13 @@ export function analysePlethStrip(
   const skewness = skewnessOf(cleanSamples);
 
   if (motionFraction > cfg.motionUnusableFraction) {
-    reasons.push(`motion in ${(motionFraction * 100).toFixed(0)} % of the strip (limit ${(cfg.motionUnusableFraction * 100).toFixed(0)} %)`);
+    reasons.push(
+      `motion in ${(motionFraction * 100).toFixed(0)} % of the strip (limit ${(cfg.motionUnusableFraction * 100).toFixed(0)} %)`,
+    );
     return empty(motionFraction, skewness);
   }
-  if (motionFraction > 0) reasons.push(`motion in ${(motionFraction * 100).toFixed(0)} % of the strip; those beats left out`);
+  if (motionFraction > 0)
+    reasons.push(`motion in ${(motionFraction * 100).toFixed(0)} % of the strip; those beats left out`);
 
   // 3. Beats: local maxima of the pulse, kept by prominence, strongest first, one per refractory time.
   const maxBeatSamples = Math.ceil((60 / cfg.minHeartRate) * fs);
@@ -268,9 +279,11 @@ export function analysePlethStrip(
     const v = pulse[i]!;
     if (!(v > pulse[i - 1]! && v >= pulse[i + 1]!)) continue;
     let leftMin = v;
-    for (let j = i - 1; j >= Math.max(0, i - maxBeatSamples) && pulse[j]! <= v; j--) leftMin = Math.min(leftMin, pulse[j]!);
+    for (let j = i - 1; j >= Math.max(0, i - maxBeatSamples) && pulse[j]! <= v; j--)
+      leftMin = Math.min(leftMin, pulse[j]!);
     let rightMin = v;
-    for (let j = i + 1; j < Math.min(n, i + maxBeatSamples) && pulse[j]! <= v; j++) rightMin = Math.min(rightMin, pulse[j]!);
+    for (let j = i + 1; j < Math.min(n, i + maxBeatSamples) && pulse[j]! <= v; j++)
+      rightMin = Math.min(rightMin, pulse[j]!);
     const prominence = v - Math.max(leftMin, rightMin);
     if (prominence >= minProminence) candidates.push({ i, prominence });
   }
@@ -347,7 +360,9 @@ export function analysePlethStrip(
   if (spo2 > 100 + OVER_100_TOLERANCE_PCT) {
     // R below the lowest the curve allows (its value at 100 %): the saturation cannot be read from
     // this strip. Clamping it to 100 % and calling it trustworthy would hide a probe problem.
-    reasons.push(`R ${rMedian.toFixed(3)} is below the lowest the curve covers (${lowestR(curve).toFixed(3)} at 100 %): SpO₂ cannot be read from this strip; reported as 100 % at most`);
+    reasons.push(
+      `R ${rMedian.toFixed(3)} is below the lowest the curve covers (${lowestR(curve).toFixed(3)} at 100 %): SpO₂ cannot be read from this strip; reported as 100 % at most`,
+    );
     spo2 = 100;
   } else if (spo2 > 100) {
     // Within measurement noise of 100 %: oximeters show 100.
@@ -359,7 +374,9 @@ export function analysePlethStrip(
     spo2 = null;
     unusable = true;
   } else if (spo2 < OXIMETER_CALIBRATED_RANGE_PCT.low) {
-    reasons.push(`SpO₂ under ${OXIMETER_CALIBRATED_RANGE_PCT.low} %: outside the range oximeters are calibrated for (ISO 80601-2-61)`);
+    reasons.push(
+      `SpO₂ under ${OXIMETER_CALIBRATED_RANGE_PCT.low} %: outside the range oximeters are calibrated for (ISO 80601-2-61)`,
+    );
   }
   if (perfusionIndex < cfg.minPerfusionIndexPct) {
     reasons.push(`perfusion index ${perfusionIndex.toFixed(2)} % under ${cfg.minPerfusionIndexPct} %`);
@@ -368,7 +385,9 @@ export function analysePlethStrip(
     reasons.push(`skewness ${skewness.toFixed(2)} under ${cfg.skewnessDoubtfulBelow} (signal quality)`);
   }
   if (spread > cfg.maxRSpread) {
-    reasons.push(`R varies between beats (spread ${(spread * 100).toFixed(0)} %, limit ${(cfg.maxRSpread * 100).toFixed(0)} %)`);
+    reasons.push(
+      `R varies between beats (spread ${(spread * 100).toFixed(0)} %, limit ${(cfg.maxRSpread * 100).toFixed(0)} %)`,
+    );
   }
   const verdict: PlethVerdict = unusable ? 'unusable' : reasons.length > 0 ? 'doubtful' : 'trustworthy';
   return {
@@ -386,4 +405,3 @@ export function analysePlethStrip(
     notes,
   };
 }
-

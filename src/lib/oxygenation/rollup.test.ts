@@ -1,7 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import { bandCompliance } from './compliance';
 import { seededRandom } from '~/lib/random';
-import { complianceFromMinutes, decodeTrustedMs, encodeTrustedMs, envelopeLines, floorMinute, minuteRollup, MINUTE_MS } from './rollup';
+import {
+  complianceFromMinutes,
+  decodeTrustedMs,
+  encodeTrustedMs,
+  envelopeLines,
+  floorMinute,
+  minuteRollup,
+  MINUTE_MS,
+} from './rollup';
 import type { BandOrder, Reading } from './types';
 
 const T0 = Date.UTC(2025, 0, 1);
@@ -14,7 +22,13 @@ function hovering(hours: number, seed = 7): Reading[] {
   for (let t = T0; t < T0 + hours * HOUR; t += 1000) {
     if (t % (17 * 60_000) < 4 * 60_000 && t > T0 + HOUR) continue; // a gap every 17 min
     const noisy = rand() < 0.05;
-    out.push({ at: t, spo2: 90 + Math.floor(rand() * 5), heartRate: 70 + Math.floor(rand() * 20), trace: noisy ? 'noisy' : 'clean', source: 'device' });
+    out.push({
+      at: t,
+      spo2: 90 + Math.floor(rand() * 5),
+      heartRate: 70 + Math.floor(rand() * 20),
+      trace: noisy ? 'noisy' : 'clean',
+      source: 'device',
+    });
     if (t % (60 * 60_000) === 30 * 60_000) out.push({ at: t + 1, spo2: 93, trace: 'clean', source: 'charted' });
   }
   return out;
@@ -29,15 +43,30 @@ describe('minute rollup', () => {
       { at: T0 + 61_000, spo2: 96, trace: 'clean', source: 'charted' },
     ];
     const rows = minuteRollup(r, T0, T0 + 10 * MINUTE_MS);
-    expect(rows[0]).toMatchObject({ minute: T0, trustedN: 2, untrustedN: 1, spo2Min: 91, spo2Max: 95, spo2Sum: 186, uSpo2Min: 70, hrMin: 80, hrMax: 90 });
+    expect(rows[0]).toMatchObject({
+      minute: T0,
+      trustedN: 2,
+      untrustedN: 1,
+      spo2Min: 91,
+      spo2Max: 95,
+      spo2Sum: 186,
+      uSpo2Min: 70,
+      hrMin: 80,
+      hrMax: 90,
+    });
     // 95 stands 1 s, 91 stands 1 s, the noisy reading from 0:03 to the end of the minute (57 s).
-    expect(rows[0]!.trustedMs).toEqual(new Map([[91, 1000], [95, 1000]]));
+    expect(rows[0]!.trustedMs).toEqual(
+      new Map([
+        [91, 1000],
+        [95, 1000],
+      ]),
+    );
     expect(rows[0]!.untrustedMs).toBe(57_000);
     expect(rows[1]).toMatchObject({ chartedN: 1, trustedN: 1 });
     expect(decodeTrustedMs(encodeTrustedMs(rows[1]!.trustedMs))).toEqual(rows[1]!.trustedMs);
   });
 
-  it('gives the raw computation\'s band compliance within 1 min over 24 h of one reading a second', () => {
+  it("gives the raw computation's band compliance within 1 min over 24 h of one reading a second", () => {
     const readings = hovering(24);
     const orders: BandOrder[] = [
       { from: T0 + 30 * 60_000 + 17_000, low: 92, high: 96 }, // mid-minute on purpose

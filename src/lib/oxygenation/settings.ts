@@ -104,8 +104,13 @@ export const DEFAULT_ESCALATION_SETTINGS: Readonly<EscalationSettings> = Object.
 /** Only the keys the escalation checks know, from any larger settings object: they refuse unknown settings rather than ignore them. */
 export function escalationSettingsOf(s: EscalationSettings): EscalationSettings {
   return {
-    minPerfusionIndexPct: s.minPerfusionIndexPct, consecutiveCharted: s.consecutiveCharted, deviceDwellMin: s.deviceDwellMin,
-    urgentMarginPoints: s.urgentMarginPoints, urgentFloorPct: s.urgentFloorPct, cannotVerifyMin: s.cannotVerifyMin, aboveOnOxygenMin: s.aboveOnOxygenMin,
+    minPerfusionIndexPct: s.minPerfusionIndexPct,
+    consecutiveCharted: s.consecutiveCharted,
+    deviceDwellMin: s.deviceDwellMin,
+    urgentMarginPoints: s.urgentMarginPoints,
+    urgentFloorPct: s.urgentFloorPct,
+    cannotVerifyMin: s.cannotVerifyMin,
+    aboveOnOxygenMin: s.aboveOnOxygenMin,
   };
 }
 
@@ -149,7 +154,11 @@ export const INPUT_LIMITS = Object.freeze({
 });
 
 /** Merges overrides onto defaults, refusing anything that is not a positive finite number. */
-export function resolveSettings<T extends object>(defaults: Readonly<T>, overrides: Partial<T> | undefined, name: string): T {
+export function resolveSettings<T extends object>(
+  defaults: Readonly<T>,
+  overrides: Partial<T> | undefined,
+  name: string,
+): T {
   const merged = { ...defaults } as T;
   // An override left undefined keeps the default, so callers can spread partial unit settings.
   for (const [key, value] of Object.entries((overrides ?? {}) as Record<string, unknown>)) {

@@ -62,7 +62,7 @@ export function synthesiseStrip(o: StripOptions): PlethStrip {
   const offset = o.darkOffset ?? 800;
   const shape = o.shape ?? pulseShape;
   const rnd = seededRandom(o.seed ?? 1);
-  const noise = (): number => ((rnd() + rnd() + rnd() - 1.5) * 2 * (o.noiseCounts ?? 0));
+  const noise = (): number => (rnd() + rnd() + rnd() - 1.5) * 2 * (o.noiseCounts ?? 0);
   const red: number[] = [];
   const infrared: number[] = [];
   const dark: number[] = [];

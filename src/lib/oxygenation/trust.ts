@@ -8,7 +8,10 @@ import type { Reading, TraceQuality } from './types';
  * value at all — a row without a saturation cannot vouch for the patient.
  */
 export function isTrusted(r: Reading, s?: Partial<TrustSettings>): boolean {
-  const minPi = s === undefined ? DEFAULT_TRUST_SETTINGS.minPerfusionIndexPct : resolveSettings(DEFAULT_TRUST_SETTINGS, s, 'trust').minPerfusionIndexPct;
+  const minPi =
+    s === undefined
+      ? DEFAULT_TRUST_SETTINGS.minPerfusionIndexPct
+      : resolveSettings(DEFAULT_TRUST_SETTINGS, s, 'trust').minPerfusionIndexPct;
   return trustedWith(r, minPi, -1);
 }
 

@@ -17,7 +17,8 @@ export function validateMoment(band: Band | null, now: number): void {
 export function validateBand(band: Band, fieldName = 'band'): Band {
   const { low, high } = band;
   if (!(low >= 0 && low <= 100)) throw new ComputationInputError(`${fieldName}.low`, 'must be between 0 and 100', low);
-  if (!(high >= 0 && high <= 100)) throw new ComputationInputError(`${fieldName}.high`, 'must be between 0 and 100', high);
+  if (!(high >= 0 && high <= 100))
+    throw new ComputationInputError(`${fieldName}.high`, 'must be between 0 and 100', high);
   if (low > high) throw new ComputationInputError(`${fieldName}.low`, 'must not exceed high', low);
   return band;
 }
@@ -42,9 +43,11 @@ export function orderColumns(orders: readonly BandOrder[]): OrderColumns {
 }
 
 export function validateWindow(window: TimeWindow): TimeWindow {
-  if (!Number.isFinite(window.from)) throw new ComputationInputError('window.from', 'must be a finite time', window.from);
+  if (!Number.isFinite(window.from))
+    throw new ComputationInputError('window.from', 'must be a finite time', window.from);
   if (!Number.isFinite(window.to)) throw new ComputationInputError('window.to', 'must be a finite time', window.to);
-  if (window.to < window.from) throw new ComputationInputError('window.to', 'must not be before window.from', window.to);
+  if (window.to < window.from)
+    throw new ComputationInputError('window.to', 'must not be before window.from', window.to);
   return window;
 }
 

@@ -8,9 +8,16 @@ export const searchQuerySchema = z.object({
 });
 
 export interface SearchResult {
-  id: number; mrn: string; givenName: string; familyName: string; label: string;
+  id: number;
+  mrn: string;
+  givenName: string;
+  familyName: string;
+  label: string;
   /** The current bed, or the last one for a discharged patient. */
-  bedLabel: string; unitCode: string; unitName: string; discharged: boolean;
+  bedLabel: string;
+  unitCode: string;
+  unitName: string;
+  discharged: boolean;
 }
 
 /** Words of the query, at most five (every one must match). */

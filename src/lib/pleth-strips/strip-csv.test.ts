@@ -16,13 +16,22 @@ describe('pleth strip files', () => {
 
   it('reads a sample index when given the rate, and asks for the rate otherwise', () => {
     const csv = 'sample;IR;Red;Dark\n0;200;100;5\n1;201;101;5\n';
-    expect(parseStripCsv(csv, 250).strip).toEqual({ sampleRateHz: 250, red: [100, 101], infrared: [200, 201], dark: [5, 5] });
+    expect(parseStripCsv(csv, 250).strip).toEqual({
+      sampleRateHz: 250,
+      red: [100, 101],
+      infrared: [200, 201],
+      dark: [5, 5],
+    });
     expect(() => parseStripCsv(csv)).toThrow(/sample rate/);
   });
 
   it('refuses uneven spacing, non-numbers and missing channels with the line', () => {
-    expect(() => parseStripCsv('time,red,infrared,dark\n0,1,1,0\n0.01,1,1,0\n0.02,1,1,0\n0.06,1,1,0\n')).toThrow('line 5: sample spacing');
-    expect(() => parseStripCsv('time,red,infrared,dark\n0,1,1,0\n0.01,x,1,0\n')).toThrow('line 3: red "x" is not a number');
+    expect(() => parseStripCsv('time,red,infrared,dark\n0,1,1,0\n0.01,1,1,0\n0.02,1,1,0\n0.06,1,1,0\n')).toThrow(
+      'line 5: sample spacing',
+    );
+    expect(() => parseStripCsv('time,red,infrared,dark\n0,1,1,0\n0.01,x,1,0\n')).toThrow(
+      'line 3: red "x" is not a number',
+    );
     expect(() => parseStripCsv('time,red,dark\n0,1,0\n')).toThrow(StripFileError);
   });
 
@@ -38,6 +47,8 @@ describe('pleth strip files', () => {
       expect(Math.abs(a.heartRate! - spec.heartRate), spec.name).toBeLessThan(3);
     }
     expect(analysePlethStrip(parseStripCsv(shipped('motion')).strip).reasons.join(' ')).toMatch(/motion/);
-    expect(analysePlethStrip(parseStripCsv(shipped('low-perfusion')).strip).reasons.join(' ')).toMatch(/perfusion index/);
+    expect(analysePlethStrip(parseStripCsv(shipped('low-perfusion')).strip).reasons.join(' ')).toMatch(
+      /perfusion index/,
+    );
   });
 });

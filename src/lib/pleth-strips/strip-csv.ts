@@ -14,7 +14,10 @@ export const MAX_SAMPLE_RATE_HZ = 10_000;
 const SPACING_TOLERANCE = 0.05;
 
 export class StripFileError extends Error {
-  constructor(message: string, readonly line: number | null = null) {
+  constructor(
+    message: string,
+    readonly line: number | null = null,
+  ) {
     super(line === null ? message : `line ${line}: ${message}`);
   }
 }
@@ -31,16 +34,28 @@ function find(headers: string[], names: string[]): number {
   return headers.findIndex((h) => names.includes(h.trim().toLowerCase()));
 }
 
-export interface StripParse { strip: PlethStrip; timeColumn: 'time' | 'index'; samples: number; durationSec: number }
+export interface StripParse {
+  strip: PlethStrip;
+  timeColumn: 'time' | 'index';
+  samples: number;
+  durationSec: number;
+}
 
 /** `sampleRateHz` is needed only when the strip has a sample-index column instead of times. */
 export function parseStripCsv(text: string, sampleRateHz?: number): StripParse {
   const body = text.replace(/^\uFEFF/, '');
   const firstLine = body.slice(0, body.search(/\r?\n|$/));
-  if (firstLine.trim() === '') throw new StripFileError('The strip is empty: a header row is needed (time or sample, red, infrared, dark).');
+  if (firstLine.trim() === '')
+    throw new StripFileError('The strip is empty: a header row is needed (time or sample, red, infrared, dark).');
   let records: string[][];
   try {
-    records = parse(body, { delimiter: detectDelimiter(firstLine), skip_empty_lines: true, relax_column_count: true, trim: true, to: MAX_STRIP_SAMPLES + 2 });
+    records = parse(body, {
+      delimiter: detectDelimiter(firstLine),
+      skip_empty_lines: true,
+      relax_column_count: true,
+      trim: true,
+      to: MAX_STRIP_SAMPLES + 2,
+    });
   } catch (err) {
     throw new StripFileError(`The strip is not readable as CSV: ${(err as Error).message}`);
   }
@@ -50,8 +65,14 @@ export function parseStripCsv(text: string, sampleRateHz?: number): StripParse {
   const ri = find(headers, NAMES.red);
   const ir = find(headers, NAMES.infrared);
   const di = find(headers, NAMES.dark);
-  const missing = [ti < 0 && ii < 0 ? 'time or sample' : null, ri < 0 ? 'red' : null, ir < 0 ? 'infrared' : null, di < 0 ? 'dark' : null].filter(Boolean);
-  if (missing.length) throw new StripFileError(`The header needs columns: ${missing.join(', ')} (found: ${headers.join(', ')}).`);
+  const missing = [
+    ti < 0 && ii < 0 ? 'time or sample' : null,
+    ri < 0 ? 'red' : null,
+    ir < 0 ? 'infrared' : null,
+    di < 0 ? 'dark' : null,
+  ].filter(Boolean);
+  if (missing.length)
+    throw new StripFileError(`The header needs columns: ${missing.join(', ')} (found: ${headers.join(', ')}).`);
   const n = records.length - 1;
   if (n > MAX_STRIP_SAMPLES) throw new StripFileError(`More than ${MAX_STRIP_SAMPLES} samples: cut the strip shorter.`);
   if (n < 2) throw new StripFileError('The strip has no samples.');
@@ -65,7 +86,8 @@ export function parseStripCsv(text: string, sampleRateHz?: number): StripParse {
     const rec = records[k]!;
     const num = (i: number, label: string) => {
       const v = Number(rec[i]);
-      if (rec[i] === undefined || rec[i] === '' || !Number.isFinite(v)) throw new StripFileError(`${label} "${rec[i] ?? ''}" is not a number`, k + 1);
+      if (rec[i] === undefined || rec[i] === '' || !Number.isFinite(v))
+        throw new StripFileError(`${label} "${rec[i] ?? ''}" is not a number`, k + 1);
       return v;
     };
     times[k - 1] = num(ti >= 0 ? ti : ii, ti >= 0 ? 'time' : 'sample');
@@ -81,15 +103,26 @@ export function parseStripCsv(text: string, sampleRateHz?: number): StripParse {
     const step = sorted[sorted.length >> 1]!;
     if (!(step > 0)) throw new StripFileError('Sample times do not increase.');
     const bad = gaps.findIndex((g) => Math.abs(g - step) > step * SPACING_TOLERANCE);
-    if (bad >= 0) throw new StripFileError(`sample spacing ${gaps[bad]!.toFixed(4)} s differs from the strip's ${step.toFixed(4)} s: samples must be evenly spaced`, bad + 3);
+    if (bad >= 0)
+      throw new StripFileError(
+        `sample spacing ${gaps[bad]!.toFixed(4)} s differs from the strip's ${step.toFixed(4)} s: samples must be evenly spaced`,
+        bad + 3,
+      );
     // Rounded to the millihertz so float steps such as 0.01 give 100 Hz, not 100.000000000002.
     fs = Math.round(((n - 1) / (times[n - 1]! - times[0]!)) * 1000) / 1000;
   } else {
-    if (!(sampleRateHz && sampleRateHz > 0)) throw new StripFileError('This strip counts samples instead of times: give its sample rate in Hz.');
+    if (!(sampleRateHz && sampleRateHz > 0))
+      throw new StripFileError('This strip counts samples instead of times: give its sample rate in Hz.');
     const bad = times.findIndex((t, i) => i > 0 && t !== times[i - 1]! + 1);
     if (bad >= 0) throw new StripFileError(`sample ${times[bad]} does not follow ${times[bad - 1]}`, bad + 2);
     fs = sampleRateHz;
   }
-  if (fs > MAX_SAMPLE_RATE_HZ) throw new StripFileError(`The strip is sampled at ${fs} Hz; at most ${MAX_SAMPLE_RATE_HZ} Hz is accepted.`);
-  return { strip: { sampleRateHz: fs, red, infrared, dark }, timeColumn: ti >= 0 ? 'time' : 'index', samples: n, durationSec: n / fs };
+  if (fs > MAX_SAMPLE_RATE_HZ)
+    throw new StripFileError(`The strip is sampled at ${fs} Hz; at most ${MAX_SAMPLE_RATE_HZ} Hz is accepted.`);
+  return {
+    strip: { sampleRateHz: fs, red, infrared, dark },
+    timeColumn: ti >= 0 ? 'time' : 'index',
+    samples: n,
+    durationSec: n / fs,
+  };
 }

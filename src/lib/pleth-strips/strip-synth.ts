@@ -20,9 +20,36 @@ export interface ExampleStripSpec {
 }
 
 export const EXAMPLE_STRIPS: ExampleStripSpec[] = [
-  { name: 'clean', title: 'Clean trace, warm finger', spo2: 97, heartRate: 74, perfusionPct: 3.2, noise: 6, movement: [] },
-  { name: 'motion', title: 'Hand moving during the strip', spo2: 95, heartRate: 92, perfusionPct: 2.4, noise: 8, movement: [[3.2, 4.5], [9.1, 9.9]] },
-  { name: 'low-perfusion', title: 'Cold hands, weak pulse', spo2: 93, heartRate: 66, perfusionPct: 0.28, noise: 3, movement: [] },
+  {
+    name: 'clean',
+    title: 'Clean trace, warm finger',
+    spo2: 97,
+    heartRate: 74,
+    perfusionPct: 3.2,
+    noise: 6,
+    movement: [],
+  },
+  {
+    name: 'motion',
+    title: 'Hand moving during the strip',
+    spo2: 95,
+    heartRate: 92,
+    perfusionPct: 2.4,
+    noise: 8,
+    movement: [
+      [3.2, 4.5],
+      [9.1, 9.9],
+    ],
+  },
+  {
+    name: 'low-perfusion',
+    title: 'Cold hands, weak pulse',
+    spo2: 93,
+    heartRate: 66,
+    perfusionPct: 0.28,
+    noise: 3,
+    movement: [],
+  },
 ];
 
 export const EXAMPLE_RATE_HZ = 100;
@@ -32,9 +59,11 @@ function rng(seed: number): () => number {
   let s = seed >>> 0;
   return () => {
     // xorshift32: enough for invented noise.
-    s ^= s << 13; s >>>= 0;
+    s ^= s << 13;
+    s >>>= 0;
     s ^= s >>> 17;
-    s ^= s << 5; s >>>= 0;
+    s ^= s << 5;
+    s >>>= 0;
     return s / 4294967296;
   };
 }
@@ -66,7 +95,7 @@ export function exampleStripCsv(spec: ExampleStripSpec, seed = 7): string {
     const ambient = offset + 900 + 400 * Math.sin(2 * Math.PI * 0.13 * t);
     let move = 0;
     for (const [a, b] of spec.movement) {
-      if (t >= a && t <= b) move += 9000 * Math.sin(Math.PI * (t - a) / (b - a)) * Math.sin(2 * Math.PI * 2.7 * t);
+      if (t >= a && t <= b) move += 9000 * Math.sin((Math.PI * (t - a)) / (b - a)) * Math.sin(2 * Math.PI * 2.7 * t);
     }
     const red = red0 * Math.exp(-kRed * v) + ambient + move + gauss();
     const ir = ir0 * Math.exp(-kIr * v) + ambient + move * 1.3 + gauss();

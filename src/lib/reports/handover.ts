@@ -3,13 +3,24 @@
  * (band compliance, trust, NEWS2). Pure: rows come in already shaped, the clock is passed in.
  */
 import {
-  bandCompliance, isTrusted, news2, type BandOrder, type OxygenDevice, type Reading,
+  bandCompliance,
+  isTrusted,
+  news2,
+  type BandOrder,
+  type OxygenDevice,
+  type Reading,
 } from '~/lib/oxygenation/index.ts';
 import { news2InputOf, type ChartedObs } from '~/lib/charting/charted-obs.ts';
 
 export type ChartedSet = ChartedObs;
 
-export interface News2Figure { total: number | null; complete: boolean; missing: string[]; response: string | null; at: number }
+export interface News2Figure {
+  total: number | null;
+  complete: boolean;
+  missing: string[];
+  response: string | null;
+  at: number;
+}
 
 /** NEWS2 of the newest charted set at or before `at`, or null when none was charted before it. */
 export function news2At(charted: readonly ChartedSet[], at: number, scale: 1 | 2): News2Figure | null {
@@ -21,7 +32,11 @@ export function news2At(charted: readonly ChartedSet[], at: number, scale: 1 | 2
 }
 
 /** The lowest trusted SpO₂ timed inside [from, to), the earliest when tied. */
-export function lowestTrusted(readings: readonly Reading[], from: number, to: number): { spo2: number; at: number } | null {
+export function lowestTrusted(
+  readings: readonly Reading[],
+  from: number,
+  to: number,
+): { spo2: number; at: number } | null {
   let low: { spo2: number; at: number } | null = null;
   for (const r of readings) {
     if (r.at < from || r.at >= to || r.spo2 === null || !isTrusted(r)) continue;
@@ -30,21 +45,38 @@ export function lowestTrusted(readings: readonly Reading[], from: number, to: nu
   return low;
 }
 
-export interface OxygenState { device: OxygenDevice | null; fio2: number | null; fio2Estimated: boolean; at: number }
+export interface OxygenState {
+  device: OxygenDevice | null;
+  fio2: number | null;
+  fio2Estimated: boolean;
+  at: number;
+}
 
 /**
  * Oxygen device and FiO₂ in force at the shift start, now, and each change between (readings that
  * carry a device or an FiO₂ only).
  */
-export function oxygenCourse(readings: readonly Reading[], from: number, to: number): { atStart: OxygenState | null; now: OxygenState | null; changes: OxygenState[] } {
+export function oxygenCourse(
+  readings: readonly Reading[],
+  from: number,
+  to: number,
+): { atStart: OxygenState | null; now: OxygenState | null; changes: OxygenState[] } {
   let current: OxygenState | null = null;
   let atStart: OxygenState | null = null;
   const changes: OxygenState[] = [];
   for (const r of readings) {
     if (r.at >= to) break;
     if ((r.device ?? null) === null && (r.fio2 ?? null) === null) continue;
-    const next: OxygenState = { device: r.device ?? current?.device ?? null, fio2: r.fio2 ?? current?.fio2 ?? null, fio2Estimated: Boolean(r.fio2Estimated), at: r.at };
-    if (r.at < from) { current = next; continue; }
+    const next: OxygenState = {
+      device: r.device ?? current?.device ?? null,
+      fio2: r.fio2 ?? current?.fio2 ?? null,
+      fio2Estimated: Boolean(r.fio2Estimated),
+      at: r.at,
+    };
+    if (r.at < from) {
+      current = next;
+      continue;
+    }
     if (atStart === null && current !== null) atStart = current;
     if (!current || current.device !== next.device || current.fio2 !== next.fio2) changes.push(next);
     current = next;
@@ -55,11 +87,28 @@ export function oxygenCourse(readings: readonly Reading[], from: number, to: num
   return { atStart, now: current, changes };
 }
 
-export interface ShiftCompliance { inBandMin: number; belowMin: number; untrustedMin: number; timeInBandPct: number | null; windowMin: number }
+export interface ShiftCompliance {
+  inBandMin: number;
+  belowMin: number;
+  untrustedMin: number;
+  timeInBandPct: number | null;
+  windowMin: number;
+}
 
-export function shiftCompliance(readings: readonly Reading[], orders: readonly BandOrder[], from: number, to: number): ShiftCompliance {
+export function shiftCompliance(
+  readings: readonly Reading[],
+  orders: readonly BandOrder[],
+  from: number,
+  to: number,
+): ShiftCompliance {
   const c = bandCompliance(readings, orders, { from, to });
-  return { inBandMin: c.inBandMin, belowMin: c.belowMin, untrustedMin: c.untrustedMin, timeInBandPct: c.timeInBandPct, windowMin: c.windowMin };
+  return {
+    inBandMin: c.inBandMin,
+    belowMin: c.belowMin,
+    untrustedMin: c.untrustedMin,
+    timeInBandPct: c.timeInBandPct,
+    windowMin: c.windowMin,
+  };
 }
 
 /** Whole minutes between two times, or null when the second has not happened. */

@@ -34,13 +34,22 @@ export function addDays(date: string, days: number): string {
 }
 
 /** The shift that contains `now`: the one a handover at `now` hands over. */
-export function currentShift(now: number, timeZone: string, start: string = DEFAULT_SHIFT.start, end: string = DEFAULT_SHIFT.end): ShiftWindow {
-  if (!CLOCK_PATTERN.test(start) || !CLOCK_PATTERN.test(end) || start === end) throw new RangeError(`bad shift times ${start}–${end}`);
+export function currentShift(
+  now: number,
+  timeZone: string,
+  start: string = DEFAULT_SHIFT.start,
+  end: string = DEFAULT_SHIFT.end,
+): ShiftWindow {
+  if (!CLOCK_PATTERN.test(start) || !CLOCK_PATTERN.test(end) || start === end)
+    throw new RangeError(`bad shift times ${start}–${end}`);
   const today = localDate(now, timeZone);
   const bounds: { at: number; kind: 'day' | 'night' }[] = [];
   for (let d = -2; d <= 2; d++) {
     const date = addDays(today, d);
-    bounds.push({ at: wallTime(date, start, timeZone), kind: 'day' }, { at: wallTime(date, end, timeZone), kind: 'night' });
+    bounds.push(
+      { at: wallTime(date, start, timeZone), kind: 'day' },
+      { at: wallTime(date, end, timeZone), kind: 'night' },
+    );
   }
   bounds.sort((a, b) => a.at - b.at);
   let i = bounds.length - 1;
@@ -49,7 +58,11 @@ export function currentShift(now: number, timeZone: string, start: string = DEFA
   return { from: from.at, to: bounds[i + 1]!.at, kind: from.kind };
 }
 
-export interface LocalDay { date: string; from: number; to: number }
+export interface LocalDay {
+  date: string;
+  from: number;
+  to: number;
+}
 
 /** The `count` whole local days before the local day of `now` (today excluded), oldest first. */
 export function lastWholeDays(now: number, timeZone: string, count: number): LocalDay[] {

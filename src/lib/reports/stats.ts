@@ -12,7 +12,11 @@ export function quantile(values: readonly number[], p: number): number | null {
   return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
 }
 
-export interface Spread { n: number; median: number | null; p90: number | null }
+export interface Spread {
+  n: number;
+  median: number | null;
+  p90: number | null;
+}
 
 export function spread(values: readonly number[]): Spread {
   return { n: values.length, median: quantile(values, 0.5), p90: quantile(values, 0.9) };

@@ -6,14 +6,27 @@ import { overdueStarts, unitReportFigures } from './unit-report.ts';
 // A hand-computed day (the arithmetic is written out beside each expectation; no outside source).
 const day = { date: '2026-11-30', from: Date.UTC(2026, 10, 30, 0, 0), to: Date.UTC(2026, 11, 1, 0, 0) };
 const at = (h: number, m = 0) => day.from + (h * 60 + m) * 60_000;
-const charted = (t: number, spo2: number, trace: Reading['trace'] = 'clean'): Reading => ({ at: t, spo2, trace, source: 'charted' });
+const charted = (t: number, spo2: number, trace: Reading['trace'] = 'clean'): Reading => ({
+  at: t,
+  spo2,
+  trace,
+  source: 'charted',
+});
 
 describe('unitReportFigures (hand-computed case)', () => {
   const readings = [charted(at(0), 95), charted(at(1), 90), charted(at(2), 94, 'noisy'), charted(at(3), 95)];
   const result = unitReportFigures({
     days: [day],
     overdueMin: 75,
-    patients: [{ patientId: 1, stays: [{ from: day.from - 3_600_000, to: null }], readings, orders: [{ from: day.from - 3_600_000, low: 92, high: 96 }], chartedTimes: readings.map((r) => r.at) }],
+    patients: [
+      {
+        patientId: 1,
+        stays: [{ from: day.from - 3_600_000, to: null }],
+        readings,
+        orders: [{ from: day.from - 3_600_000, low: 92, high: 96 }],
+        chartedTimes: readings.map((r) => r.at),
+      },
+    ],
     escalations: [
       { kind: 'below_band', severity: 'standard', raisedAt: at(1, 10), claimedAt: at(1, 20), closedAt: at(1, 50) },
       { kind: 'below_band', severity: 'urgent', raisedAt: at(5), claimedAt: at(5, 30), closedAt: at(7) },
@@ -66,7 +79,12 @@ describe('unitReportFigures (hand-computed case)', () => {
   });
 
   it('counts a patient admitted half the day as half a patient-day', () => {
-    const half = unitReportFigures({ days: [day], overdueMin: 75, escalations: [], patients: [{ patientId: 2, stays: [{ from: at(12), to: null }], readings: [], orders: [], chartedTimes: [] }] });
+    const half = unitReportFigures({
+      days: [day],
+      overdueMin: 75,
+      escalations: [],
+      patients: [{ patientId: 2, stays: [{ from: at(12), to: null }], readings: [], orders: [], chartedTimes: [] }],
+    });
     expect(half.days[0]!.patientDays).toBe(0.5);
     expect(half.days[0]!.timeInBandPct).toBeNull();
     // No obs from 12:00: due 13:15, overdue once.

@@ -7,7 +7,14 @@ export async function unlockAccount(actorId: number, userId: number): Promise<bo
   return withTransactionRetry(async (trx) => {
     const before = await unlockUser(userId, trx);
     if (!before) return false;
-    await writeAudit(trx, { actorId, action: 'user.unlock', entity: 'user', entityId: userId, before, after: { failed_signins: 0, locked_until: null } });
+    await writeAudit(trx, {
+      actorId,
+      action: 'user.unlock',
+      entity: 'user',
+      entityId: userId,
+      before,
+      after: { failed_signins: 0, locked_until: null },
+    });
     return true;
   });
 }

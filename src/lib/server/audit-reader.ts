@@ -3,11 +3,19 @@ import { fromZonedTime } from 'date-fns-tz';
 import { CSV_LIMIT, type AuditQuery, type AuditRowView } from '~/lib/audit/reader.ts';
 import { formatDateTimeSeconds } from '~/lib/time/format.ts';
 import { ApiError } from './http.ts';
-import { countAudit, distinctActions, patientIdByMrn, readAudit, zoneOfUnit, type AuditFilter } from './queries/audit-reader.ts';
+import {
+  countAudit,
+  distinctActions,
+  patientIdByMrn,
+  readAudit,
+  zoneOfUnit,
+  type AuditFilter,
+} from './queries/audit-reader.ts';
 
 async function filterFrom(q: AuditQuery) {
   const unit = await zoneOfUnit(q.unit);
-  if (q.unit && !unit) throw new ApiError(400, 'invalid_input', `unit: there is no unit ${q.unit}.`, { unit: 'No such unit' });
+  if (q.unit && !unit)
+    throw new ApiError(400, 'invalid_input', `unit: there is no unit ${q.unit}.`, { unit: 'No such unit' });
   const timeZone = unit?.time_zone ?? 'UTC';
   const filter: AuditFilter = { actorId: q.actorId, action: q.action };
   if (q.patient) {
@@ -30,15 +38,36 @@ function nextDay(ymd: string): string {
 function view(r: Awaited<ReturnType<typeof readAudit>>[number], timeZone: string): AuditRowView {
   const at = new Date(r.at).toISOString();
   return {
-    id: Number(r.id), at, atLocal: formatDateTimeSeconds(at, timeZone), actorId: r.actor_id, actorName: r.actor_name, actorEmail: r.actor_email,
-    action: r.action, entity: r.entity, entityId: r.entity_id, before: r.before, after: r.after,
+    id: Number(r.id),
+    at,
+    atLocal: formatDateTimeSeconds(at, timeZone),
+    actorId: r.actor_id,
+    actorName: r.actor_name,
+    actorEmail: r.actor_email,
+    action: r.action,
+    entity: r.entity,
+    entityId: r.entity_id,
+    before: r.before,
+    after: r.after,
   };
 }
 
 export async function auditPage(q: AuditQuery) {
   const { filter, timeZone, unitCode } = await filterFrom(q);
-  const [total, rows, actions] = await Promise.all([countAudit(filter), readAudit(filter, (q.page - 1) * q.pageSize, q.pageSize), distinctActions()]);
-  return { rows: rows.map((r) => view(r, timeZone)), total, page: q.page, pageSize: q.pageSize, timeZone, unitCode, actions };
+  const [total, rows, actions] = await Promise.all([
+    countAudit(filter),
+    readAudit(filter, (q.page - 1) * q.pageSize, q.pageSize),
+    distinctActions(),
+  ]);
+  return {
+    rows: rows.map((r) => view(r, timeZone)),
+    total,
+    page: q.page,
+    pageSize: q.pageSize,
+    timeZone,
+    unitCode,
+    actions,
+  };
 }
 
 export async function auditRowsForCsv(q: AuditQuery) {

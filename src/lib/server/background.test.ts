@@ -11,14 +11,17 @@ describe('background loop kick (issue 10 point 12)', () => {
       running += 1;
       if (running > 1) overlapped = true;
       runs += 1;
-      await new Promise<void>((r) => { release = r; });
+      await new Promise<void>((r) => {
+        release = r;
+      });
       running -= 1;
     });
     const kick = loop('test', 3_600_000, work); // the poll never fires within the test
     kick();
     await Promise.resolve();
     expect(runs).toBe(1);
-    kick(); kick(); // during the run: coalesced into one more run
+    kick();
+    kick(); // during the run: coalesced into one more run
     release();
     await new Promise((r) => setTimeout(r, 10));
     expect(runs).toBe(2);

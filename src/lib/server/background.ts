@@ -14,7 +14,10 @@ export function loop(name: string, intervalMs: number, work: () => Promise<unkno
   let running = false;
   let again = false;
   const run = async () => {
-    if (running) { again = true; return; } // never overlap with ourselves
+    if (running) {
+      again = true;
+      return;
+    } // never overlap with ourselves
     running = true;
     try {
       do {

@@ -14,15 +14,33 @@ export interface CredentialKind {
   /** "key": in "This key was already revoked." */
   shortNoun: string;
   lock: (trx: Knex.Transaction, id: number) => Promise<{ revoked_at: Date | null } | undefined>;
-  revoke: (trx: Knex.Transaction, id: number, fields: { revoked_at: Date; revoked_by: number | null; revoke_reason: string }) => Promise<void>;
+  revoke: (
+    trx: Knex.Transaction,
+    id: number,
+    fields: { revoked_at: Date; revoked_by: number | null; revoke_reason: string },
+  ) => Promise<void>;
 }
 
-export async function revokeCredential(kind: CredentialKind, actorId: number | null, id: number, reason: string, now: Date): Promise<void> {
+export async function revokeCredential(
+  kind: CredentialKind,
+  actorId: number | null,
+  id: number,
+  reason: string,
+  now: Date,
+): Promise<void> {
   await withTransactionRetry(async (trx) => {
     const row = await kind.lock(trx, id);
     if (!row) throw new ApiError(404, 'not_found', `No ${kind.noun} with that id.`);
     if (row.revoked_at) throw new ApiError(409, 'already_revoked', `This ${kind.shortNoun} was already revoked.`);
     await kind.revoke(trx, id, { revoked_at: now, revoked_by: actorId, revoke_reason: reason });
-    await writeAudit(trx, { actorId, action: `${kind.entity}.revoke`, entity: kind.entity, entityId: id, before: { revokedAt: null }, after: { revokedAt: now.toISOString(), reason }, at: now });
+    await writeAudit(trx, {
+      actorId,
+      action: `${kind.entity}.revoke`,
+      entity: kind.entity,
+      entityId: id,
+      before: { revokedAt: null },
+      after: { revokedAt: now.toISOString(), reason },
+      at: now,
+    });
   });
 }

@@ -6,7 +6,8 @@ import { isDatabaseUnavailable, isDuplicateKey, isRetryableTransactionError } fr
 import { strictJsonSchema, strictTextSchema } from './strict-input.ts';
 import { bodyLimitFor, DEFAULT_BODY_LIMIT } from './body-limits.ts';
 
-export const DATABASE_UNAVAILABLE_MESSAGE = 'The database is not answering; readings cannot be charted or shown until it is back.';
+export const DATABASE_UNAVAILABLE_MESSAGE =
+  'The database is not answering; readings cannot be charted or shown until it is back.';
 
 /** The one error type endpoints throw; `errorResponse` turns it into the one JSON error shape. */
 export class ApiError extends Error {
@@ -20,7 +21,9 @@ export class ApiError extends Error {
   }
 }
 
-export interface ErrorBody { error: { code: string; message: string; fields?: Record<string, string> } }
+export interface ErrorBody {
+  error: { code: string; message: string; fields?: Record<string, string> };
+}
 
 export function json(data: unknown, status = 200, headers: Record<string, string> = {}): Response {
   return new Response(JSON.stringify(data), {
@@ -57,13 +60,19 @@ export function errorResponse(err: unknown): Response {
   }
   if (err instanceof ZodError) {
     const fields = zodFields(err);
-    const summary = Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; ');
+    const summary = Object.entries(fields)
+      .map(([k, v]) => `${k}: ${v}`)
+      .join('; ');
     return errorJson(400, 'invalid_input', `Some fields need attention — ${summary}`, fields);
   }
   if (isDatabaseUnavailable(err)) return errorJson(503, 'database_unavailable', DATABASE_UNAVAILABLE_MESSAGE);
   if (isRetryableTransactionError(err)) {
     // Lost to other writers on every re-run: busy, not broken. Nothing was saved; send again.
-    const res = errorJson(503, 'database_busy', 'The database was too busy to save this; nothing was saved. Send it again.');
+    const res = errorJson(
+      503,
+      'database_busy',
+      'The database was too busy to save this; nothing was saved. Send it again.',
+    );
     res.headers.set('retry-after', '1');
     return res;
   }
@@ -75,14 +84,19 @@ export function errorResponse(err: unknown): Response {
 export function requireRole(locals: App.Locals, roles: readonly Role[]): SessionUser {
   const user = locals.user;
   if (!user) throw new ApiError(401, 'unauthenticated', 'Sign in first.');
-  if (!hasRole(user.role, roles)) throw new ApiError(403, 'forbidden', `This needs one of these roles: ${roles.join(', ')}.`);
+  if (!hasRole(user.role, roles))
+    throw new ApiError(403, 'forbidden', `This needs one of these roles: ${roles.join(', ')}.`);
   return user;
 }
 
 type Schema<T> = ZodType<T, ZodTypeDef, unknown>;
 
 /** The body's bytes, throwing `tooLarge()` as soon as they pass `maxBytes` (the JSON routes and the uploads share it). */
-export async function readBodyBytes(body: ReadableStream<Uint8Array>, maxBytes: number, tooLarge: () => ApiError): Promise<Buffer> {
+export async function readBodyBytes(
+  body: ReadableStream<Uint8Array>,
+  maxBytes: number,
+  tooLarge: () => ApiError,
+): Promise<Buffer> {
   const reader = body.getReader();
   const chunks: Uint8Array[] = [];
   let size = 0;
@@ -102,8 +116,16 @@ export async function readBodyBytes(body: ReadableStream<Uint8Array>, maxBytes: 
 /** The body as text, stopping with 413 past `maxBytes` (the middleware has already checked Content-Length). */
 export async function readBodyText(request: Request, maxBytes = DEFAULT_BODY_LIMIT): Promise<string> {
   if (!request.body) return '';
-  const bytes = await readBodyBytes(request.body, maxBytes,
-    () => new ApiError(413, 'body_too_large', `The body is larger than this route takes (${Math.round(maxBytes / 1024)} KB).`));
+  const bytes = await readBodyBytes(
+    request.body,
+    maxBytes,
+    () =>
+      new ApiError(
+        413,
+        'body_too_large',
+        `The body is larger than this route takes (${Math.round(maxBytes / 1024)} KB).`,
+      ),
+  );
   return new TextDecoder('utf-8').decode(bytes);
 }
 
@@ -113,9 +135,14 @@ export async function readBodyText(request: Request, maxBytes = DEFAULT_BODY_LIM
  * text in Unicode NFC. Shared schemas stay lenient for the browser forms; the strictness is added
  * here, once, for every JSON route (see strict-input.ts).
  */
-export async function parseBody<T>(request: Request, schema: Schema<T>, maxBytes = bodyLimitFor(new URL(request.url).pathname)): Promise<T> {
+export async function parseBody<T>(
+  request: Request,
+  schema: Schema<T>,
+  maxBytes = bodyLimitFor(new URL(request.url).pathname),
+): Promise<T> {
   const type = request.headers.get('content-type') ?? '';
-  if (!type.includes('application/json')) throw new ApiError(415, 'unsupported_media_type', 'Send the body as application/json.');
+  if (!type.includes('application/json'))
+    throw new ApiError(415, 'unsupported_media_type', 'Send the body as application/json.');
   const text = await readBodyText(request, maxBytes);
   let raw: unknown;
   try {
@@ -151,7 +178,12 @@ export function endpoint(handler: (ctx: APIContext) => Promise<Response>): APIRo
  * Runs `work`; a duplicate key from the database (a unique index settling a race or a repeat)
  * becomes the given 409 with its own code, words and fields.
  */
-export async function conflictOnDuplicate<T>(work: () => Promise<T>, code: string, message: string, fields?: Record<string, string>): Promise<T> {
+export async function conflictOnDuplicate<T>(
+  work: () => Promise<T>,
+  code: string,
+  message: string,
+  fields?: Record<string, string>,
+): Promise<T> {
   try {
     return await work();
   } catch (err) {

@@ -4,7 +4,9 @@
  */
 import { AsyncLocalStorage } from 'node:async_hooks';
 
-export interface RequestFacts { address: string | null }
+export interface RequestFacts {
+  address: string | null;
+}
 const storage = new AsyncLocalStorage<RequestFacts>();
 
 export function runWithRequestFacts<T>(facts: RequestFacts, fn: () => T): T {
@@ -21,7 +23,10 @@ export function requestAddress(): string | null {
  */
 export function clientAddress(headers: Headers, socketAddress: string | null, env = process.env): string | null {
   if (env.EBB_TRUST_PROXY === '1') {
-    const hops = (headers.get('x-forwarded-for') ?? '').split(',').map((h) => h.trim()).filter(Boolean);
+    const hops = (headers.get('x-forwarded-for') ?? '')
+      .split(',')
+      .map((h) => h.trim())
+      .filter(Boolean);
     if (hops.length) return hops[hops.length - 1].slice(0, 64);
   }
   return socketAddress;

@@ -28,7 +28,11 @@ function withPageAdditions(astroCsp: string): string {
   return csp;
 }
 
-export function securityHeadersFor(path: string, contentType: string | null, astroCsp: string | null = null): Record<string, string> {
+export function securityHeadersFor(
+  path: string,
+  contentType: string | null,
+  astroCsp: string | null = null,
+): Record<string, string> {
   const html = (contentType ?? '').includes('text/html');
   // Astro sends its policy (with the hashes) as a header on server-rendered pages: keep it, add framing.
   const csp = astroCsp ? withPageAdditions(astroCsp) : html ? PAGE_CSP : NON_PAGE_CSP;
@@ -47,7 +51,8 @@ export function withHeaders(res: Response, headers: Record<string, string>): Res
     const copy = new Response(res.body, { status: res.status, statusText: res.statusText, headers: res.headers });
     for (const [k, v] of Object.entries(headers)) copy.headers.set(k, v);
     // Astro keeps the cookies set through Astro.cookies on the response object itself: carry them over.
-    for (const sym of Object.getOwnPropertySymbols(res)) (copy as unknown as Record<symbol, unknown>)[sym] = (res as unknown as Record<symbol, unknown>)[sym];
+    for (const sym of Object.getOwnPropertySymbols(res))
+      (copy as unknown as Record<symbol, unknown>)[sym] = (res as unknown as Record<symbol, unknown>)[sym];
     return copy;
   }
 }

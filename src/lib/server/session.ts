@@ -13,7 +13,10 @@ const MAX_CACHE_MS = 5 * 60_000;
 const cache = new Map<string, SessionRef & { until: number }>();
 
 /** What the cookie names: the user, and the server-side session record (checked per request). */
-export interface SessionRef { uid: number; sid: string }
+export interface SessionRef {
+  uid: number;
+  sid: string;
+}
 
 export async function readSessionCookie(cookie: (name: string) => string | undefined): Promise<SessionRef | null> {
   for (const name of SESSION_COOKIES) {

@@ -13,7 +13,15 @@ export async function startSession(userId: number, address: string | null, now =
 export async function endSession(sid: string, address: string | null, now = new Date()): Promise<void> {
   await withTransactionRetry(async (trx) => {
     const userId = await revokeSession(trx, sid, 'signout', now);
-    if (userId !== null) await writeAudit(trx, { actorId: userId, action: 'signout', entity: 'user', entityId: userId, after: { address }, at: now });
+    if (userId !== null)
+      await writeAudit(trx, {
+        actorId: userId,
+        action: 'signout',
+        entity: 'user',
+        entityId: userId,
+        after: { address },
+        at: now,
+      });
   });
 }
 

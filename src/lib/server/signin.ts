@@ -13,11 +13,23 @@ const DUMMY_HASH = '$2b$10$CwTycUXWue0Thq9StjUM0uJ8.2yTq2J4JzQ3e2l0y9D4S1n0nYx2e
  * Checks a password and keeps the failure count and lock in the database (holds across instances).
  * Every attempt is audited with the caller's address; failures also feed the throttling counters.
  */
-export async function verifyCredentials(email: string, password: string, now: Date, address: string | null = null): Promise<SigninOutcome> {
+export async function verifyCredentials(
+  email: string,
+  password: string,
+  now: Date,
+  address: string | null = null,
+): Promise<SigninOutcome> {
   const outcome = await withLockedUser(email, async (user, trx): Promise<SigninOutcome> => {
     const audit = (action: string, after: Record<string, unknown> = {}) =>
-      writeAudit(trx, { actorId: action === 'signin.ok' ? user!.id : null, action, entity: 'user', entityId: user?.id ?? email.slice(0, 64), after: { email, address, ...after }, at: now });
-    if (!user || !user.active) {
+      writeAudit(trx, {
+        actorId: action === 'signin.ok' ? user!.id : null,
+        action,
+        entity: 'user',
+        entityId: user?.id ?? email.slice(0, 64),
+        after: { email, address, ...after },
+        at: now,
+      });
+    if (!user?.active) {
       await bcrypt.compare(password, DUMMY_HASH);
       await audit('signin.failed', { reason: user ? 'inactive' : 'unknown_email' });
       return { kind: 'wrong' };

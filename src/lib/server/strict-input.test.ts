@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { ZodError } from 'zod';
+import type { ZodError } from 'zod';
 import { obsInputSchema } from '~/lib/charting/obs-input.ts';
 import { admitSchema, idParam } from '~/lib/charting/patient-input.ts';
 import { strictJsonSchema, strictTextSchema } from './strict-input.ts';
@@ -27,7 +27,9 @@ describe('strict JSON input', () => {
     expect(obsInputSchema(now).parse({ ...obs, spo2: '95' }).spo2).toBe(95);
   });
   it('names an unknown field', () => {
-    expect(fieldsOf(() => strict.parse({ ...obs, heartrate: 80 }))).toEqual({ heartrate: 'is not a field this route takes' });
+    expect(fieldsOf(() => strict.parse({ ...obs, heartrate: 80 }))).toEqual({
+      heartrate: 'is not a field this route takes',
+    });
   });
   it('refuses impossible dates and times without a zone', () => {
     expect(Object.keys(fieldsOf(() => strict.parse({ ...obs, takenAt: '2026-11-31T09:30:00Z' })))).toEqual(['takenAt']);
@@ -35,7 +37,13 @@ describe('strict JSON input', () => {
   });
   it('normalises text to NFC', () => {
     const decomposed = 'Zoe\u0301';
-    const out = strictJsonSchema(admitSchema).parse({ givenName: decomposed, familyName: 'Ng', mrn: 'X123', dateOfBirth: '1960-01-02', bedId: 1 });
+    const out = strictJsonSchema(admitSchema).parse({
+      givenName: decomposed,
+      familyName: 'Ng',
+      mrn: 'X123',
+      dateOfBirth: '1960-01-02',
+      bedId: 1,
+    });
     expect(out.givenName).toBe('Zoé');
     expect(out.givenName).toBe('Zoé'.normalize('NFC'));
   });

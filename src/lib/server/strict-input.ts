@@ -8,8 +8,27 @@
  * Schemas are rebuilt from their zod definitions, so messages, limits and refinements stay as written.
  */
 import {
-  z, ZodArray, ZodBoolean, ZodBranded, ZodCatch, ZodDate, ZodDefault, ZodDiscriminatedUnion, ZodEffects, ZodIntersection,
-  ZodLazy, ZodNullable, ZodNumber, ZodObject, ZodOptional, ZodPipeline, ZodReadonly, ZodRecord, ZodString, ZodTuple, ZodUnion,
+  z,
+  ZodArray,
+  ZodBoolean,
+  ZodBranded,
+  ZodCatch,
+  ZodDate,
+  ZodDefault,
+  ZodDiscriminatedUnion,
+  ZodEffects,
+  ZodIntersection,
+  ZodLazy,
+  ZodNullable,
+  ZodNumber,
+  ZodObject,
+  ZodOptional,
+  ZodPipeline,
+  ZodReadonly,
+  ZodRecord,
+  ZodString,
+  ZodTuple,
+  ZodUnion,
   type ZodTypeAny,
 } from 'zod';
 import { isRealIsoDate, isRealIsoDateTime } from '~/lib/time/iso.ts';
@@ -20,7 +39,18 @@ const DECIMAL = /^-?\d+(\.\d+)?$/;
 
 function messageOf(def: { errorMap?: z.ZodErrorMap }, fallback: string): string {
   try {
-    return def.errorMap?.({ code: 'invalid_type', expected: 'date', received: 'string', path: [], message: undefined } as z.ZodIssueOptionalMessage, { defaultError: fallback, data: undefined })?.message ?? fallback;
+    return (
+      def.errorMap?.(
+        {
+          code: 'invalid_type',
+          expected: 'date',
+          received: 'string',
+          path: [],
+          message: undefined,
+        } as z.ZodIssueOptionalMessage,
+        { defaultError: fallback, data: undefined },
+      )?.message ?? fallback
+    );
   } catch {
     return fallback;
   }
@@ -35,12 +65,16 @@ function walk(schema: ZodTypeAny, mode: Mode): ZodTypeAny {
 }
 
 function rebuild(s: ZodTypeAny, mode: Mode): ZodTypeAny {
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  // biome-ignore lint/suspicious/noExplicitAny: zod 3's internal _def has no public type
   const def = (s as any)._def;
   const w = (x: ZodTypeAny) => walk(x, mode);
   if (s instanceof ZodObject) {
     const shape = Object.fromEntries(Object.entries(s.shape as Record<string, ZodTypeAny>).map(([k, v]) => [k, w(v)]));
-    return new ZodObject({ ...def, shape: () => shape, unknownKeys: mode === 'json' && def.unknownKeys !== 'passthrough' ? 'strict' : def.unknownKeys });
+    return new ZodObject({
+      ...def,
+      shape: () => shape,
+      unknownKeys: mode === 'json' && def.unknownKeys !== 'passthrough' ? 'strict' : def.unknownKeys,
+    });
   }
   if (s instanceof ZodNumber) {
     const strict = new ZodNumber({ ...def, coerce: false });
@@ -52,7 +86,9 @@ function rebuild(s: ZodTypeAny, mode: Mode): ZodTypeAny {
     const plain = new ZodDate({ ...def, coerce: false });
     const message = messageOf(def, 'must be a date and time');
     return z
-      .custom<string>((v) => typeof v === 'string' && isRealIsoDateTime(v), { message: `${message} (ISO 8601 with Z or an offset, on a real calendar day)` })
+      .custom<string>((v) => typeof v === 'string' && isRealIsoDateTime(v), {
+        message: `${message} (ISO 8601 with Z or an offset, on a real calendar day)`,
+      })
       .transform((v) => new Date(v))
       .pipe(plain);
   }
@@ -60,7 +96,8 @@ function rebuild(s: ZodTypeAny, mode: Mode): ZodTypeAny {
     const strict = new ZodString({ ...def, coerce: false });
     const checks: { kind: string }[] = def.checks ?? [];
     let out: ZodTypeAny = strict;
-    if (checks.some((c) => c.kind === 'datetime')) out = strict.refine((v) => isRealIsoDateTime(v), 'is not a real date and time');
+    if (checks.some((c) => c.kind === 'datetime'))
+      out = strict.refine((v) => isRealIsoDateTime(v), 'is not a real date and time');
     else if (checks.some((c) => c.kind === 'date')) out = strict.refine((v) => isRealIsoDate(v), 'is not a real date');
     if (mode === 'json') return z.preprocess((v) => (typeof v === 'string' ? v.normalize('NFC') : v), out);
     return out;
@@ -77,17 +114,21 @@ function rebuild(s: ZodTypeAny, mode: Mode): ZodTypeAny {
   if (s instanceof ZodUnion) return new ZodUnion({ ...def, options: def.options.map(w) });
   if (s instanceof ZodDiscriminatedUnion) {
     const options = [...s.options].map(w) as ZodObject<z.ZodRawShape>[];
-    return z.discriminatedUnion(def.discriminator, options as [ZodObject<z.ZodRawShape>, ...ZodObject<z.ZodRawShape>[]]);
+    return z.discriminatedUnion(
+      def.discriminator,
+      options as [ZodObject<z.ZodRawShape>, ...ZodObject<z.ZodRawShape>[]],
+    );
   }
   if (s instanceof ZodIntersection) return new ZodIntersection({ ...def, left: w(def.left), right: w(def.right) });
   if (s instanceof ZodPipeline) return new ZodPipeline({ ...def, in: w(def.in), out: def.out });
   if (s instanceof ZodRecord) return new ZodRecord({ ...def, valueType: w(def.valueType) });
-  if (s instanceof ZodTuple) return new ZodTuple({ ...def, items: def.items.map(w), rest: def.rest ? w(def.rest) : null });
+  if (s instanceof ZodTuple)
+    return new ZodTuple({ ...def, items: def.items.map(w), rest: def.rest ? w(def.rest) : null });
   if (s instanceof ZodLazy) return z.lazy(() => w(def.getter()));
   return s;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
+// biome-ignore lint/suspicious/noExplicitAny: zod's input type parameter is any for every schema
 type Any<T> = z.ZodType<T, z.ZodTypeDef, any>;
 export const strictJsonSchema = <T>(schema: Any<T>): Any<T> => walk(schema as ZodTypeAny, 'json') as Any<T>;
 export const strictTextSchema = <T>(schema: Any<T>): Any<T> => walk(schema as ZodTypeAny, 'text') as Any<T>;

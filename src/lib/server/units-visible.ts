@@ -17,9 +17,19 @@ export async function unitsVisibleTo(user: SessionUser): Promise<UnitRow[]> {
  * The unit a one-unit screen (board, handover sheet) shows: the one asked for, else the person's own,
  * else the first they may see. 403 for a unit they may not see, 404 when they may see none.
  */
-export async function unitToShow(user: SessionUser, unitCode: string | undefined): Promise<{ unit: UnitRow; units: UnitRow[] }> {
+export async function unitToShow(
+  user: SessionUser,
+  unitCode: string | undefined,
+): Promise<{ unit: UnitRow; units: UnitRow[] }> {
   const units = await unitsVisibleTo(user);
-  const unit = unitCode ? units.find((u) => u.code === unitCode) : units.find((u) => u.id === user.unitId) ?? units[0];
-  if (!unit) throw new ApiError(unitCode ? 403 : 404, unitCode ? 'forbidden' : 'not_found', unitCode ? `Unit ${unitCode} is not one you can see.` : 'No unit to show.');
+  const unit = unitCode
+    ? units.find((u) => u.code === unitCode)
+    : (units.find((u) => u.id === user.unitId) ?? units[0]);
+  if (!unit)
+    throw new ApiError(
+      unitCode ? 403 : 404,
+      unitCode ? 'forbidden' : 'not_found',
+      unitCode ? `Unit ${unitCode} is not one you can see.` : 'No unit to show.',
+    );
   return { unit, units };
 }

@@ -1,7 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import {
-  formatAge, formatClock, formatClockSeconds, formatCount, formatDate, formatDateTime, formatDayTime,
-  formatDayTimeSeconds, formatMinutes, formatWhen,
+  formatAge,
+  formatClock,
+  formatClockSeconds,
+  formatCount,
+  formatDate,
+  formatDateTime,
+  formatDayTime,
+  formatDayTimeSeconds,
+  formatMinutes,
+  formatWhen,
 } from './format.ts';
 
 // 2 Dec 2026 06:14:05 in London is 06:14:05 UTC (GMT in winter); in New York it is 01:14:05.

@@ -19,37 +19,83 @@ function toDate(at: Instant): Date {
 // ticks, and a fresh formatter per call cost ~0.25 ms each); the words are ours.
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
 const formatters = new Map<string, Intl.DateTimeFormat>();
-interface Parts { y: number; mo: number; d: number; h: string; mi: string; s: string }
+interface Parts {
+  y: number;
+  mo: number;
+  d: number;
+  h: string;
+  mi: string;
+  s: string;
+}
 function partsOf(at: Instant, timeZone: string): Parts {
   let f = formatters.get(timeZone);
   if (!f) {
     f = new Intl.DateTimeFormat('en-US', {
-      timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', numberingSystem: 'latn',
+      timeZone,
+      hourCycle: 'h23',
+      year: 'numeric',
+      month: 'numeric',
+      day: 'numeric',
+      hour: '2-digit',
+      minute: '2-digit',
+      second: '2-digit',
+      numberingSystem: 'latn',
     });
     formatters.set(timeZone, f);
   }
   const p: Record<string, string> = {};
   for (const part of f.formatToParts(toDate(at))) if (part.type !== 'literal') p[part.type] = part.value;
   const two = (v: string | undefined) => (v ?? '00').padStart(2, '0');
-  return { y: Number(p.year), mo: Number(p.month), d: Number(p.day), h: two(p.hour === '24' ? '00' : p.hour), mi: two(p.minute), s: two(p.second) };
+  return {
+    y: Number(p.year),
+    mo: Number(p.month),
+    d: Number(p.day),
+    h: two(p.hour === '24' ? '00' : p.hour),
+    mi: two(p.minute),
+    s: two(p.second),
+  };
 }
 
 /** "06:14" */
-export const formatClock = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.h}:${p.mi}`; };
+export const formatClock = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.h}:${p.mi}`;
+};
 /** "06:14:05" */
-export const formatClockSeconds = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.h}:${p.mi}:${p.s}`; };
+export const formatClockSeconds = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.h}:${p.mi}:${p.s}`;
+};
 /** "2 Dec 06:14" */
-export const formatDayTime = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.d} ${MONTHS[p.mo - 1]} ${p.h}:${p.mi}`; };
+export const formatDayTime = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.d} ${MONTHS[p.mo - 1]} ${p.h}:${p.mi}`;
+};
 /** "2 Dec 06:14:05" */
-export const formatDayTimeSeconds = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.d} ${MONTHS[p.mo - 1]} ${p.h}:${p.mi}:${p.s}`; };
+export const formatDayTimeSeconds = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.d} ${MONTHS[p.mo - 1]} ${p.h}:${p.mi}:${p.s}`;
+};
 /** "2 Dec 2026" */
-export const formatDate = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.d} ${MONTHS[p.mo - 1]} ${p.y}`; };
+export const formatDate = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.d} ${MONTHS[p.mo - 1]} ${p.y}`;
+};
 /** "2 Dec 2026 06:14" — where the year matters (records, audit, printouts, CSV). */
-export const formatDateTime = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.d} ${MONTHS[p.mo - 1]} ${p.y} ${p.h}:${p.mi}`; };
+export const formatDateTime = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.d} ${MONTHS[p.mo - 1]} ${p.y} ${p.h}:${p.mi}`;
+};
 /** "2 Dec 2026 06:14:05" */
-export const formatDateTimeSeconds = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return `${p.d} ${MONTHS[p.mo - 1]} ${p.y} ${p.h}:${p.mi}:${p.s}`; };
+export const formatDateTimeSeconds = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return `${p.d} ${MONTHS[p.mo - 1]} ${p.y} ${p.h}:${p.mi}:${p.s}`;
+};
 
-const dayKey = (at: Instant, timeZone: string) => { const p = partsOf(at, timeZone); return p.y * 10_000 + p.mo * 100 + p.d; };
+const dayKey = (at: Instant, timeZone: string) => {
+  const p = partsOf(at, timeZone);
+  return p.y * 10_000 + p.mo * 100 + p.d;
+};
 
 /** The clock alone when `at` falls on the same local day as `now`, else the day and clock. */
 export function formatWhen(at: Instant, timeZone: string, now: Instant = Date.now()): string {

@@ -5,7 +5,10 @@
 import { formatInTimeZone } from 'date-fns-tz';
 import { zoneResolver } from '~/lib/imports/local-time.ts';
 
-export interface WallEntry { date: string; time: string }
+export interface WallEntry {
+  date: string;
+  time: string;
+}
 
 /** The unit-zone date ("2026-12-02") and 24-hour time ("06:14") of an instant, for the form's fields. */
 export function toWallEntry(at: Date | number, timeZone: string): WallEntry {
@@ -28,6 +31,9 @@ export function parseWallEntry(entry: WallEntry, timeZone: string): { at: Date }
   const days = new Date(Date.UTC(w.y, w.mo, 0)).getUTCDate();
   if (w.mo < 1 || w.mo > 12 || w.d < 1 || w.d > days) return { error: 'Date taken is not a day of the calendar' };
   const r = zoneResolver(timeZone)(w);
-  if (r.kind === 'gap') return { error: `${t[1]!.padStart(2, '0')}:${t[2]} did not happen that day in ${timeZone} (the clocks went forward)` };
+  if (r.kind === 'gap')
+    return {
+      error: `${t[1]!.padStart(2, '0')}:${t[2]} did not happen that day in ${timeZone} (the clocks went forward)`,
+    };
   return { at: new Date(r.kind === 'unique' ? r.at : r.earlier) };
 }

@@ -38,23 +38,41 @@ export const DEFAULT_UNIT_SETTINGS: UnitSettings = {
 };
 
 export interface UnitSettingsColumns {
-  consecutive_charted: number; device_dwell_min: number; urgent_margin_points: number; urgent_floor_pct: number;
-  cannot_verify_min: number; above_on_oxygen_min: number; renotify_min: number; overdue_min: number; outreach_emails: string;
-  shift_start?: string; shift_end?: string;
-  gas_unit?: GasUnit; barometric_mmhg?: number;
-  unit_phone?: string | null; monitor_silent_min?: number | null; silent_below_probe_min?: number | null;
+  consecutive_charted: number;
+  device_dwell_min: number;
+  urgent_margin_points: number;
+  urgent_floor_pct: number;
+  cannot_verify_min: number;
+  above_on_oxygen_min: number;
+  renotify_min: number;
+  overdue_min: number;
+  outreach_emails: string;
+  shift_start?: string;
+  shift_end?: string;
+  gas_unit?: GasUnit;
+  barometric_mmhg?: number;
+  unit_phone?: string | null;
+  monitor_silent_min?: number | null;
+  silent_below_probe_min?: number | null;
 }
 
 export function settingsFromRow(row: UnitSettingsColumns | undefined): UnitSettings {
   if (!row) return DEFAULT_UNIT_SETTINGS;
   return {
     ...DEFAULT_UNIT_SETTINGS,
-    consecutiveCharted: row.consecutive_charted, deviceDwellMin: row.device_dwell_min, urgentMarginPoints: row.urgent_margin_points,
-    urgentFloorPct: row.urgent_floor_pct, cannotVerifyMin: row.cannot_verify_min, aboveOnOxygenMin: row.above_on_oxygen_min,
-    renotifyMin: row.renotify_min, overdueMin: row.overdue_min,
-    shiftStart: row.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart, shiftEnd: row.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,
+    consecutiveCharted: row.consecutive_charted,
+    deviceDwellMin: row.device_dwell_min,
+    urgentMarginPoints: row.urgent_margin_points,
+    urgentFloorPct: row.urgent_floor_pct,
+    cannotVerifyMin: row.cannot_verify_min,
+    aboveOnOxygenMin: row.above_on_oxygen_min,
+    renotifyMin: row.renotify_min,
+    overdueMin: row.overdue_min,
+    shiftStart: row.shift_start ?? DEFAULT_UNIT_SETTINGS.shiftStart,
+    shiftEnd: row.shift_end ?? DEFAULT_UNIT_SETTINGS.shiftEnd,
     outreachEmails: row.outreach_emails.split(/[\s,;]+/).filter(Boolean),
-    gasUnit: row.gas_unit ?? DEFAULT_UNIT_SETTINGS.gasUnit, barometricMmHg: row.barometric_mmhg ?? DEFAULT_UNIT_SETTINGS.barometricMmHg,
+    gasUnit: row.gas_unit ?? DEFAULT_UNIT_SETTINGS.gasUnit,
+    barometricMmHg: row.barometric_mmhg ?? DEFAULT_UNIT_SETTINGS.barometricMmHg,
     unitPhone: row.unit_phone ?? null,
     monitorSilentMin: row.monitor_silent_min ?? DEFAULT_UNIT_SETTINGS.monitorSilentMin,
     silentBelowProbeMin: row.silent_below_probe_min ?? DEFAULT_UNIT_SETTINGS.silentBelowProbeMin,

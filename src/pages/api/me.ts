@@ -3,5 +3,10 @@ import { ROLES } from '~/lib/auth/roles.ts';
 
 export const GET = endpoint(async ({ locals }) => {
   const user = requireRole(locals, ROLES);
-  return json({ email: user.email, name: user.name, role: user.role, unit: user.unitCode ? { code: user.unitCode, name: user.unitName } : null });
+  return json({
+    email: user.email,
+    name: user.name,
+    role: user.role,
+    unit: user.unitCode ? { code: user.unitCode, name: user.unitName } : null,
+  });
 });

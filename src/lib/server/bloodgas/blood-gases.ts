@@ -15,8 +15,18 @@ import { db } from '~/lib/server/queries/db.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import {
-  bloodGasesOf, currentGasesBetween, findBloodGas, inStayAt, insertBloodGas, lockBloodGas, markBloodGas, spo2ReadingsNear, unitGasSettings,
-  type BloodGasListRow, type BloodGasRow, type NewBloodGas,
+  bloodGasesOf,
+  currentGasesBetween,
+  findBloodGas,
+  inStayAt,
+  insertBloodGas,
+  lockBloodGas,
+  markBloodGas,
+  spo2ReadingsNear,
+  unitGasSettings,
+  type BloodGasListRow,
+  type BloodGasRow,
+  type NewBloodGas,
 } from '~/lib/server/queries/blood-gases.ts';
 import { lockPatient } from '~/lib/server/queries/patients.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
@@ -40,20 +50,45 @@ async function gasSettings(patientId: number, conn: Knex | Knex.Transaction = db
 
 function forDerivation(r: BloodGasRow) {
   return {
-    sampleType: r.sample_type, pao2MmHg: Number(r.pao2_mmhg), paco2MmHg: Number(r.paco2_mmhg), sao2: Number(r.sao2), fio2: Number(r.fio2),
-    hbGdl: num(r.hb_gdl), spo2AtSample: r.spo2_at_sample,
+    sampleType: r.sample_type,
+    pao2MmHg: Number(r.pao2_mmhg),
+    paco2MmHg: Number(r.paco2_mmhg),
+    sao2: Number(r.sao2),
+    fio2: Number(r.fio2),
+    hbGdl: num(r.hb_gdl),
+    spo2AtSample: r.spo2_at_sample,
   };
 }
 
 export function gasView(r: BloodGasListRow, barometricMmHg: number): BloodGasView {
   const g = forDerivation(r);
   return {
-    id: Number(r.id), sampledAt: toIso(r.sampled_at)!, sampleType: r.sample_type, ph: Number(r.ph), pao2MmHg: g.pao2MmHg, paco2MmHg: g.paco2MmHg,
-    enteredUnit: r.entered_unit, sao2: g.sao2, hco3: num(r.hco3), baseExcess: num(r.base_excess), lactate: num(r.lactate), hbGdl: g.hbGdl, fio2: g.fio2,
-    spo2AtSample: r.spo2_at_sample, spo2Source: r.spo2_source, note: r.note, status: r.status,
-    replacesId: r.replaces_id === null ? null : Number(r.replaces_id), replacedById: r.replaced_by_id === null ? null : Number(r.replaced_by_id),
-    statusReason: r.status_reason, statusBy: r.status_by_name, statusAt: toIso(r.status_at), recordedBy: r.recorded_by_name, recordedAt: toIso(r.recorded_at)!,
-    derived: deriveGas(g, barometricMmHg), flags: gasFlags(g),
+    id: Number(r.id),
+    sampledAt: toIso(r.sampled_at)!,
+    sampleType: r.sample_type,
+    ph: Number(r.ph),
+    pao2MmHg: g.pao2MmHg,
+    paco2MmHg: g.paco2MmHg,
+    enteredUnit: r.entered_unit,
+    sao2: g.sao2,
+    hco3: num(r.hco3),
+    baseExcess: num(r.base_excess),
+    lactate: num(r.lactate),
+    hbGdl: g.hbGdl,
+    fio2: g.fio2,
+    spo2AtSample: r.spo2_at_sample,
+    spo2Source: r.spo2_source,
+    note: r.note,
+    status: r.status,
+    replacesId: r.replaces_id === null ? null : Number(r.replaces_id),
+    replacedById: r.replaced_by_id === null ? null : Number(r.replaced_by_id),
+    statusReason: r.status_reason,
+    statusBy: r.status_by_name,
+    statusAt: toIso(r.status_at),
+    recordedBy: r.recorded_by_name,
+    recordedAt: toIso(r.recorded_at)!,
+    derived: deriveGas(g, barometricMmHg),
+    flags: gasFlags(g),
   };
 }
 
@@ -65,36 +100,87 @@ async function authoriseGasCharting(user: SessionUser, patientId: number) {
   return { patient, stay };
 }
 
-async function nearestTrustedSpo2(patientId: number, at: Date, conn: Knex | Knex.Transaction = db()): Promise<NearestSpo2 | null> {
+async function nearestTrustedSpo2(
+  patientId: number,
+  at: Date,
+  conn: Knex | Knex.Transaction = db(),
+): Promise<NearestSpo2 | null> {
   for (const r of await spo2ReadingsNear(patientId, at, PAIR_WINDOW_MS, conn)) {
-    const reading = { at: new Date(r.taken_at).getTime(), spo2: Number(r.spo2), trace: r.trace, perfusionIndex: num(r.perfusion_index), source: r.source };
+    const reading = {
+      at: new Date(r.taken_at).getTime(),
+      spo2: Number(r.spo2),
+      trace: r.trace,
+      perfusionIndex: num(r.perfusion_index),
+      source: r.source,
+    };
     if (isTrusted(reading)) return { spo2: Number(r.spo2), at: toIso(r.taken_at)!, source: r.source };
   }
   return null;
 }
 
-async function rowFromInput(trx: Knex.Transaction, input: BloodGasInput, patientId: number, userId: number, now: Date): Promise<NewBloodGas> {
+async function rowFromInput(
+  trx: Knex.Transaction,
+  input: BloodGasInput,
+  patientId: number,
+  userId: number,
+  now: Date,
+): Promise<NewBloodGas> {
   const stay = await inStayAt(patientId, input.sampledAt, trx);
-  if (!stay) throw new ApiError(400, 'invalid_input', 'The sample time is before admission (or while the patient was not in a bed).', { sampledAt: 'Sample time is before admission' });
+  if (!stay)
+    throw new ApiError(
+      400,
+      'invalid_input',
+      'The sample time is before admission (or while the patient was not in a bed).',
+      { sampledAt: 'Sample time is before admission' },
+    );
   let spo2 = input.spo2AtSample ?? null;
   let spo2Source: NewBloodGas['spo2_source'] = spo2 === null ? null : 'entered';
   if (spo2 === null) {
     const near = await nearestTrustedSpo2(patientId, input.sampledAt, trx);
-    if (near) { spo2 = near.spo2; spo2Source = 'nearest_reading'; }
+    if (near) {
+      spo2 = near.spo2;
+      spo2Source = 'nearest_reading';
+    }
   }
   const r1 = (v: number) => Math.round(v * 10) / 10;
   return {
-    patient_id: patientId, bed_id: stay.bed_id, sampled_at: input.sampledAt, sample_type: input.sampleType, ph: input.ph,
-    pao2_mmhg: r1(toMmHg(input.pao2, input.gasUnit)), paco2_mmhg: r1(toMmHg(input.paco2, input.gasUnit)), entered_unit: input.gasUnit,
-    sao2: input.sao2, hco3: input.hco3 ?? null, base_excess: input.baseExcess ?? null, lactate: input.lactate ?? null, hb_gdl: input.hb ?? null,
-    fio2: input.fio2!, spo2_at_sample: spo2, spo2_source: spo2Source, note: input.note ?? null, replaces_id: null, recorded_by: userId, recorded_at: now,
+    patient_id: patientId,
+    bed_id: stay.bed_id,
+    sampled_at: input.sampledAt,
+    sample_type: input.sampleType,
+    ph: input.ph,
+    pao2_mmhg: r1(toMmHg(input.pao2, input.gasUnit)),
+    paco2_mmhg: r1(toMmHg(input.paco2, input.gasUnit)),
+    entered_unit: input.gasUnit,
+    sao2: input.sao2,
+    hco3: input.hco3 ?? null,
+    base_excess: input.baseExcess ?? null,
+    lactate: input.lactate ?? null,
+    hb_gdl: input.hb ?? null,
+    fio2: input.fio2!,
+    spo2_at_sample: spo2,
+    spo2_source: spo2Source,
+    note: input.note ?? null,
+    replaces_id: null,
+    recorded_by: userId,
+    recorded_at: now,
   };
 }
 
 async function raiseIfOccult(trx: Knex.Transaction, patientId: number, id: number, row: NewBloodGas, now: Date) {
   const flags = gasFlags({ sampleType: row.sample_type, sao2: Number(row.sao2), spo2AtSample: row.spo2_at_sample });
   if (flags.includes('occult_hypoxaemia')) {
-    await raiseOccultHypoxaemia(trx, patientId, { bloodGasId: id, sampledAt: row.sampled_at.getTime(), sao2: Number(row.sao2), spo2AtSample: row.spo2_at_sample! }, now);
+    await raiseOccultHypoxaemia(
+      trx,
+      patientId,
+      {
+        bloodGasId: id,
+        sampledAt: row.sampled_at.getTime(),
+        sao2: Number(row.sao2),
+        spo2AtSample: row.spo2_at_sample!,
+      },
+      now,
+    );
   }
 }
 
@@ -104,13 +190,25 @@ async function created(id: number, patientId: number): Promise<BloodGasCreated> 
   return { bloodGas: view, derived: view.derived, flags: view.flags };
 }
 
-export async function chartBloodGas(user: SessionUser, patientId: number, input: BloodGasInput, now = new Date()): Promise<BloodGasCreated> {
+export async function chartBloodGas(
+  user: SessionUser,
+  patientId: number,
+  input: BloodGasInput,
+  now = new Date(),
+): Promise<BloodGasCreated> {
   await authoriseGasCharting(user, patientId);
   const id = await withTransactionRetry(async (trx) => {
     await lockPatient(trx, patientId); // same lock order as every obs writer
     const row = await rowFromInput(trx, input, patientId, user.id, now);
     const gasId = await insertBloodGas(trx, row);
-    await writeAudit(trx, { actorId: user.id, action: 'blood_gas.create', entity: 'blood_gas', entityId: gasId, after: row, at: now });
+    await writeAudit(trx, {
+      actorId: user.id,
+      action: 'blood_gas.create',
+      entity: 'blood_gas',
+      entityId: gasId,
+      after: row,
+      at: now,
+    });
     await raiseIfOccult(trx, patientId, gasId, row, now);
     return gasId;
   });
@@ -123,35 +221,89 @@ async function lockForChange(trx: Knex.Transaction, user: SessionUser, gasId: nu
   await authoriseGasCharting(user, unlocked.patient_id);
   await lockPatient(trx, unlocked.patient_id);
   const original = (await lockBloodGas(trx, gasId))!;
-  assertChangeable(user, original, { what: 'blood gas', notOwn: 'You correct your own entries; ask the charge nurse to correct this one.' });
+  assertChangeable(user, original, {
+    what: 'blood gas',
+    notOwn: 'You correct your own entries; ask the charge nurse to correct this one.',
+  });
   return original;
 }
 
-export async function correctBloodGas(user: SessionUser, gasId: number, reason: string, input: BloodGasInput, now = new Date()): Promise<BloodGasCreated> {
+export async function correctBloodGas(
+  user: SessionUser,
+  gasId: number,
+  reason: string,
+  input: BloodGasInput,
+  now = new Date(),
+): Promise<BloodGasCreated> {
   let patientId = 0;
   const id = await withTransactionRetry(async (trx) => {
     const original = await lockForChange(trx, user, gasId);
     patientId = original.patient_id;
     const row = { ...(await rowFromInput(trx, input, original.patient_id, user.id, now)), replaces_id: original.id };
     const newId = await insertBloodGas(trx, row);
-    await markBloodGas(trx, original.id, { status: 'superseded', status_reason: reason, status_by: user.id, status_at: now });
-    await writeAudit(trx, { actorId: user.id, action: 'blood_gas.correct', entity: 'blood_gas', entityId: original.id, before: original, after: { ...row, id: newId, reason }, at: now });
-    const stillOccult = gasFlags({ sampleType: row.sample_type, sao2: Number(row.sao2), spo2AtSample: row.spo2_at_sample }).length > 0;
-    if (!stillOccult) await clearOccultHypoxaemia(trx, original.patient_id, original.id, 'The blood gas that raised it was corrected', now);
+    await markBloodGas(trx, original.id, {
+      status: 'superseded',
+      status_reason: reason,
+      status_by: user.id,
+      status_at: now,
+    });
+    await writeAudit(trx, {
+      actorId: user.id,
+      action: 'blood_gas.correct',
+      entity: 'blood_gas',
+      entityId: original.id,
+      before: original,
+      after: { ...row, id: newId, reason },
+      at: now,
+    });
+    const stillOccult =
+      gasFlags({ sampleType: row.sample_type, sao2: Number(row.sao2), spo2AtSample: row.spo2_at_sample }).length > 0;
+    if (!stillOccult)
+      await clearOccultHypoxaemia(
+        trx,
+        original.patient_id,
+        original.id,
+        'The blood gas that raised it was corrected',
+        now,
+      );
     await raiseIfOccult(trx, original.patient_id, newId, row, now);
     return newId;
   });
   return created(id, patientId);
 }
 
-export async function markGasEnteredInError(user: SessionUser, gasId: number, reason: string, now = new Date()): Promise<BloodGasView> {
+export async function markGasEnteredInError(
+  user: SessionUser,
+  gasId: number,
+  reason: string,
+  now = new Date(),
+): Promise<BloodGasView> {
   let patientId = 0;
   await withTransactionRetry(async (trx) => {
     const original = await lockForChange(trx, user, gasId);
     patientId = original.patient_id;
-    await markBloodGas(trx, original.id, { status: 'entered_in_error', status_reason: reason, status_by: user.id, status_at: now });
-    await writeAudit(trx, { actorId: user.id, action: 'blood_gas.entered_in_error', entity: 'blood_gas', entityId: original.id, before: { status: original.status }, after: { status: 'entered_in_error', reason }, at: now });
-    await clearOccultHypoxaemia(trx, original.patient_id, original.id, 'The blood gas that raised it was marked entered in error', now);
+    await markBloodGas(trx, original.id, {
+      status: 'entered_in_error',
+      status_reason: reason,
+      status_by: user.id,
+      status_at: now,
+    });
+    await writeAudit(trx, {
+      actorId: user.id,
+      action: 'blood_gas.entered_in_error',
+      entity: 'blood_gas',
+      entityId: original.id,
+      before: { status: original.status },
+      after: { status: 'entered_in_error', reason },
+      at: now,
+    });
+    await clearOccultHypoxaemia(
+      trx,
+      original.patient_id,
+      original.id,
+      'The blood gas that raised it was marked entered in error',
+      now,
+    );
   });
   return (await created(gasId, patientId)).bloodGas;
 }
@@ -162,7 +314,10 @@ export async function listBloodGases(user: SessionUser, patientId: number): Prom
   const views = rows.map((r) => gasView(r, s.barometricMmHg));
   const pairs = views.filter((v) => v.status === 'current' && v.sampleType === 'arterial' && v.spo2AtSample !== null);
   return {
-    bloodGases: views, gasUnit: s.gasUnit, barometricMmHg: s.barometricMmHg, timeZone: s.timeZone,
+    bloodGases: views,
+    gasUnit: s.gasUnit,
+    barometricMmHg: s.barometricMmHg,
+    timeZone: s.timeZone,
     bias: runningBias(pairs.map((p) => ({ spo2: p.spo2AtSample!, sao2: p.sao2 }))),
     occultCount: pairs.filter((p) => p.flags.includes('occult_hypoxaemia')).length,
   };
@@ -176,7 +331,11 @@ export async function nearestSpo2For(user: SessionUser, patientId: number, at: D
 /** SaO₂ marks for the chart window (the series API). */
 export async function gasMarks(patientId: number, from: Date, to: Date): Promise<GasMark[]> {
   return (await currentGasesBetween(patientId, from, to)).map((r) => ({
-    id: Number(r.id), t: new Date(r.sampled_at).getTime(), sao2: Number(r.sao2), spo2AtSample: r.spo2_at_sample, sampleType: r.sample_type,
+    id: Number(r.id),
+    t: new Date(r.sampled_at).getTime(),
+    sao2: Number(r.sao2),
+    spo2AtSample: r.spo2_at_sample,
+    sampleType: r.sample_type,
     occult: gasFlags({ sampleType: r.sample_type, sao2: Number(r.sao2), spo2AtSample: r.spo2_at_sample }).length > 0,
   }));
 }

@@ -23,7 +23,11 @@ function claimableFromTile(user: SessionUser, tile: BoardTile): boolean {
   return hasRole(user.role, BED_MANAGING_ROLES) || (tile.nurse !== null && tile.nurse.id === user.id);
 }
 
-export async function unitBoard(user: SessionUser, unitCode: string | undefined, now = new Date()): Promise<BoardResponse> {
+export async function unitBoard(
+  user: SessionUser,
+  unitCode: string | undefined,
+  now = new Date(),
+): Promise<BoardResponse> {
   const { unit, units } = await unitToShow(user, unitCode);
   const nowMs = now.getTime();
 
@@ -42,14 +46,30 @@ export async function unitBoard(user: SessionUser, unitCode: string | undefined,
   const tiles = beds.map((b) => {
     const last = b.patient_id === null ? undefined : lastBy.get(b.patient_id);
     const input: BedInput = {
-      bedId: b.bed_id, bedLabel: b.bed_label,
-      patient: b.patient_id === null ? null : { id: b.patient_id, label: patientLabel(b.given_name!, b.family_name!, b.mrn!), co2RetentionRisk: Boolean(b.co2_retention_risk) },
-      band: b.band_low === null ? null : { low: b.band_low, high: b.band_high!, news2Scale: Number(b.news2_scale) as 1 | 2, orderedAt: new Date(b.ordered_at!).getTime() },
-      readings: b.patient_id === null ? [] : readingsBy.get(b.patient_id) ?? [],
+      bedId: b.bed_id,
+      bedLabel: b.bed_label,
+      patient:
+        b.patient_id === null
+          ? null
+          : {
+              id: b.patient_id,
+              label: patientLabel(b.given_name!, b.family_name!, b.mrn!),
+              co2RetentionRisk: Boolean(b.co2_retention_risk),
+            },
+      band:
+        b.band_low === null
+          ? null
+          : {
+              low: b.band_low,
+              high: b.band_high!,
+              news2Scale: Number(b.news2_scale) as 1 | 2,
+              orderedAt: new Date(b.ordered_at!).getTime(),
+            },
+      readings: b.patient_id === null ? [] : (readingsBy.get(b.patient_id) ?? []),
       lastCharted: last ? toChartedObs(last) : null,
-      escalation: b.patient_id === null ? null : escalations.get(b.patient_id) ?? null,
+      escalation: b.patient_id === null ? null : (escalations.get(b.patient_id) ?? null),
       nurse: b.nurse_id === null ? null : { id: b.nurse_id, name: b.nurse_name! },
-      occultHypoxaemia: b.patient_id === null ? null : escalations.occult.get(b.patient_id) ?? null,
+      occultHypoxaemia: b.patient_id === null ? null : (escalations.occult.get(b.patient_id) ?? null),
     };
     return buildTile(input, nowMs, settings, unit.time_zone);
   });

@@ -2,7 +2,15 @@
  * Who may do what to which patient, decided on the server from the patient's bed now (or, once
  * discharged, the unit of their last stay).
  */
-import { BED_MANAGING_ROLES, CHARTING_ROLES, CORRECTING_OTHERS_ROLES, hasRole, ORDERING_ROLES, seesUnit, spansUnits } from '~/lib/auth/roles.ts';
+import {
+  BED_MANAGING_ROLES,
+  CHARTING_ROLES,
+  CORRECTING_OTHERS_ROLES,
+  hasRole,
+  ORDERING_ROLES,
+  seesUnit,
+  spansUnits,
+} from '~/lib/auth/roles.ts';
 import { ApiError } from '~/lib/server/http.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import type { StayRow } from '~/lib/server/queries/patients.ts';
@@ -25,10 +33,12 @@ export function patientPermissions(user: SessionUser, latestStay: StayRow | unde
 /** Throws 403 when the role or unit does not allow the action, 409 when the patient is discharged. */
 export function assertPatientAction(user: SessionUser, latestStay: StayRow | undefined, action: PatientAction): void {
   const can = patientPermissions(user, latestStay);
-  if (!can.read) throw new ApiError(403, 'forbidden', 'This patient is not in your unit, or your role does not read charts.');
+  if (!can.read)
+    throw new ApiError(403, 'forbidden', 'This patient is not in your unit, or your role does not read charts.');
   if (can[action]) return;
   const admitted = latestStay !== undefined && latestStay.ended_at === null;
-  if (!admitted && action !== 'read') throw new ApiError(409, 'not_admitted', 'This patient has been discharged; their record is read-only.');
+  if (!admitted && action !== 'read')
+    throw new ApiError(409, 'not_admitted', 'This patient has been discharged; their record is read-only.');
   throw new ApiError(403, 'forbidden', `Your role (${user.role}) cannot do this for this patient.`);
 }
 
@@ -37,9 +47,20 @@ export function assertPatientAction(user: SessionUser, latestStay: StayRow | und
  * alike): only its current version changes, and only the caller's own entry unless their role
  * corrects others'. `what` names the row in the 409; `notOwn` is the whole 403 sentence.
  */
-export function assertChangeable(user: SessionUser, row: { status: string; recorded_by: number | null }, words: { what: string; notOwn: string }): void {
+export function assertChangeable(
+  user: SessionUser,
+  row: { status: string; recorded_by: number | null },
+  words: { what: string; notOwn: string },
+): void {
   if (row.status !== 'current') {
-    throw new ApiError(409, 'not_current', row.status === 'superseded' ? `This ${words.what} was already corrected; correct the newer version.` : `This ${words.what} is already marked entered in error.`);
+    throw new ApiError(
+      409,
+      'not_current',
+      row.status === 'superseded'
+        ? `This ${words.what} was already corrected; correct the newer version.`
+        : `This ${words.what} is already marked entered in error.`,
+    );
   }
-  if (!hasRole(user.role, CORRECTING_OTHERS_ROLES) && row.recorded_by !== user.id) throw new ApiError(403, 'forbidden', words.notOwn);
+  if (!hasRole(user.role, CORRECTING_OTHERS_ROLES) && row.recorded_by !== user.id)
+    throw new ApiError(403, 'forbidden', words.notOwn);
 }

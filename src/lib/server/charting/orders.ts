@@ -16,7 +16,12 @@ export async function listOrders(user: SessionUser, patientId: number): Promise<
   return (await ordersOf(patientId)).map(orderView);
 }
 
-export async function orderTarget(user: SessionUser, patientId: number, input: TargetOrderInput, now = new Date()): Promise<OrderView> {
+export async function orderTarget(
+  user: SessionUser,
+  patientId: number,
+  input: TargetOrderInput,
+  now = new Date(),
+): Promise<OrderView> {
   const { stay } = await authorisePatient(user, patientId, 'order');
   const id = await withTransactionRetry(async (trx) => {
     // The patient row lock serialises concurrent orders, so the stale check below cannot race.
@@ -24,20 +29,45 @@ export async function orderTarget(user: SessionUser, patientId: number, input: T
     const [newest] = await ordersOf(patientId, trx);
     const newestId = newest?.id ?? null;
     if (newestId !== input.basedOnOrderId) {
-      throw new ApiError(409, 'stale_order', newest
-        ? `A newer band (${newest.low}–${newest.high} %, by ${newest.ordered_by_name}) was ordered after the one you saw. Check the history and order again.`
-        : 'The order history changed while you were editing. Check it and order again.');
+      throw new ApiError(
+        409,
+        'stale_order',
+        newest
+          ? `A newer band (${newest.low}–${newest.high} %, by ${newest.ordered_by_name}) was ordered after the one you saw. Check the history and order again.`
+          : 'The order history changed while you were editing. Check it and order again.',
+      );
     }
     const basis = input.news2Scale === 2 ? await scale2Basis(patientId, stay.time_zone, now, trx) : null;
     const orderId = await insertOrder(trx, {
-      patient_id: patientId, low: input.low, high: input.high, news2_scale: input.news2Scale, preset: input.preset ?? null,
-      reason: input.reason, scale_reason: input.scaleReason ?? null, supersedes_id: newestId, ordered_by: user.id, ordered_at: now,
+      patient_id: patientId,
+      low: input.low,
+      high: input.high,
+      news2_scale: input.news2Scale,
+      preset: input.preset ?? null,
+      reason: input.reason,
+      scale_reason: input.scaleReason ?? null,
+      supersedes_id: newestId,
+      ordered_by: user.id,
+      ordered_at: now,
       ...(basis ? { scale2_basis: basis } : {}),
     });
     await writeAudit(trx, {
-      actorId: user.id, action: 'target.order', entity: 'patient', entityId: patientId,
-      before: newest ? { orderId: newest.id, low: newest.low, high: newest.high, news2Scale: newest.news2_scale } : null,
-      after: { orderId, low: input.low, high: input.high, news2Scale: input.news2Scale, reason: input.reason, ...(basis ? { scale2Basis: basis } : {}) }, at: now,
+      actorId: user.id,
+      action: 'target.order',
+      entity: 'patient',
+      entityId: patientId,
+      before: newest
+        ? { orderId: newest.id, low: newest.low, high: newest.high, news2Scale: newest.news2_scale }
+        : null,
+      after: {
+        orderId,
+        low: input.low,
+        high: input.high,
+        news2Scale: input.news2Scale,
+        reason: input.reason,
+        ...(basis ? { scale2Basis: basis } : {}),
+      },
+      at: now,
     });
     return orderId;
   });

@@ -12,7 +12,10 @@ export const CHARTED_LOOKBACK_MIN = 6 * 60;
 
 /** The "recent readings" window the board, the escalation engine and the sweep all judge from. */
 export function recentWindow(nowMs: number): { device: Date; charted: Date } {
-  return { device: new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000), charted: new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000) };
+  return {
+    device: new Date(nowMs - DEVICE_LOOKBACK_MIN * 60_000),
+    charted: new Date(nowMs - CHARTED_LOOKBACK_MIN * 60_000),
+  };
 }
 
 /** Rows of many patients (ordered by patient, then time) → each patient's readings. */
@@ -20,7 +23,10 @@ export function readingsByPatient(rows: (ReadingRow & { patient_id: number })[])
   const out = new Map<number, Reading[]>();
   for (const row of rows) {
     let list = out.get(row.patient_id);
-    if (!list) out.set(row.patient_id, (list = []));
+    if (!list) {
+      list = [];
+      out.set(row.patient_id, list);
+    }
     list.push(toReading(row));
   }
   return out;
@@ -28,18 +34,31 @@ export function readingsByPatient(rows: (ReadingRow & { patient_id: number })[])
 
 export function toReading(r: ReadingRow): Reading {
   return {
-    at: new Date(r.taken_at).getTime(), spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate,
-    fio2: r.fio2 === null ? null : Number(r.fio2), fio2Estimated: Boolean(r.fio2_estimated), device: (r.device as OxygenDevice | null) ?? null,
-    trace: r.trace, perfusionIndex: r.perfusion_index === null ? null : Number(r.perfusion_index), source: r.source,
+    at: new Date(r.taken_at).getTime(),
+    spo2: r.spo2 === null ? null : Number(r.spo2),
+    heartRate: r.heart_rate,
+    fio2: r.fio2 === null ? null : Number(r.fio2),
+    fio2Estimated: Boolean(r.fio2_estimated),
+    device: (r.device as OxygenDevice | null) ?? null,
+    trace: r.trace,
+    perfusionIndex: r.perfusion_index === null ? null : Number(r.perfusion_index),
+    source: r.source,
   };
 }
 
 /** The newest charted obs row → the one shape the board, bed chart and mail compute NEWS2 from. */
 export function toChartedObs(r: ChartedObsRow): ChartedObs {
   return {
-    at: new Date(r.taken_at).getTime(), spo2: r.spo2 === null ? null : Number(r.spo2), heartRate: r.heart_rate, respRate: r.resp_rate,
-    fio2: r.fio2 === null ? null : Number(r.fio2), fio2Estimated: Boolean(r.fio2_estimated), device: (r.device as OxygenDevice | null) ?? null,
-    systolic: r.systolic, temperature: r.temperature === null ? null : Number(r.temperature), consciousness: asConsciousness(r.consciousness),
+    at: new Date(r.taken_at).getTime(),
+    spo2: r.spo2 === null ? null : Number(r.spo2),
+    heartRate: r.heart_rate,
+    respRate: r.resp_rate,
+    fio2: r.fio2 === null ? null : Number(r.fio2),
+    fio2Estimated: Boolean(r.fio2_estimated),
+    device: (r.device as OxygenDevice | null) ?? null,
+    systolic: r.systolic,
+    temperature: r.temperature === null ? null : Number(r.temperature),
+    consciousness: asConsciousness(r.consciousness),
   };
 }
 

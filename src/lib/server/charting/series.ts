@@ -2,10 +2,37 @@
 import { firstIndexAtOrAfter } from '~/lib/sorted.ts';
 import type { DerivedFigures, Fio2Step, SeriesResponse, Spo2Point, SeriesPoint } from '~/lib/charting/api-types.ts';
 import {
-  bandCompliance, DEFAULT_COMPLIANCE_SETTINGS, imputedPf, keepBelowBandRunEdges, isTrusted, lttb, news2, roxIndex, sfRatio, type BandComplianceResult, type OxygenDevice, type Reading,
+  bandCompliance,
+  DEFAULT_COMPLIANCE_SETTINGS,
+  imputedPf,
+  keepBelowBandRunEdges,
+  isTrusted,
+  lttb,
+  news2,
+  roxIndex,
+  sfRatio,
+  type BandComplianceResult,
+  type OxygenDevice,
+  type Reading,
 } from '~/lib/oxygenation/index.ts';
-import { addCompliance, complianceFromMinutes, envelopeLines, floorMinute, minuteRollup, MINUTE_MS, type EnvelopePoint, type MinuteRollup } from '~/lib/oxygenation/rollup.ts';
-import { chartedReadingsBetween, currentReadingsBetween, lastChartedObservation, latestSpo2Readings, type ObservationListRow, type ReadingRow } from '~/lib/server/queries/observations.ts';
+import {
+  addCompliance,
+  complianceFromMinutes,
+  envelopeLines,
+  floorMinute,
+  minuteRollup,
+  MINUTE_MS,
+  type EnvelopePoint,
+  type MinuteRollup,
+} from '~/lib/oxygenation/rollup.ts';
+import {
+  chartedReadingsBetween,
+  currentReadingsBetween,
+  lastChartedObservation,
+  latestSpo2Readings,
+  type ObservationListRow,
+  type ReadingRow,
+} from '~/lib/server/queries/observations.ts';
 import { minutesBetween, readingsWithCarryIn } from '~/lib/server/queries/rollup.ts';
 import { ordersOf } from '~/lib/server/queries/orders.ts';
 import { escalationsInWindow } from '~/lib/server/queries/escalations.ts';
@@ -22,19 +49,27 @@ export const RAW_WINDOW_MAX_HOURS = 6;
 
 const round = (v: number, dp = 0) => Math.round(v * 10 ** dp) / 10 ** dp;
 
-export async function patientSeries(user: SessionUser, patientId: number, hours: number, now = new Date()): Promise<SeriesResponse> {
+export async function patientSeries(
+  user: SessionUser,
+  patientId: number,
+  hours: number,
+  now = new Date(),
+): Promise<SeriesResponse> {
   await authorisePatient(user, patientId, 'read');
   const to = now.getTime();
   const from = to - hours * 3_600_000;
   // Start early by the longest carry-forward so the window's first minutes are counted correctly.
   const lookBackMs = DEFAULT_COMPLIANCE_SETTINGS.chartedMaxGapMin * 60_000;
   const [orderRows, escalationRows, newestCharted, bloodGases] = await Promise.all([
-    ordersOf(patientId), escalationsInWindow(patientId, new Date(from)), lastChartedObservation(patientId),
+    ordersOf(patientId),
+    escalationsInWindow(patientId, new Date(from)),
+    lastChartedObservation(patientId),
     gasMarks(patientId, new Date(from), new Date(to)),
   ]);
   const orders = toBandOrders(orderRows);
   // NEWS2 and ROX need a full charted set: the newest charted obs, when it falls in the window.
-  const chartedInWindow = newestCharted && new Date(newestCharted.taken_at).getTime() >= from ? newestCharted : undefined;
+  const chartedInWindow =
+    newestCharted && new Date(newestCharted.taken_at).getTime() >= from ? newestCharted : undefined;
 
   let lines: Pick<SeriesResponse, 'spo2' | 'heartRate' | 'rawCounts' | 'bucketMs'>;
   let compliance: BandComplianceResult;
@@ -63,13 +98,21 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
     ]);
     chartedRows = charted;
     compliance = addCompliance(
-      addCompliance(bandCompliance(head.map(toReading), orders, { from, to: headEnd }), complianceFromMinutes(minutes, orders, { from: headEnd, to: tailStart })),
+      addCompliance(
+        bandCompliance(head.map(toReading), orders, { from, to: headEnd }),
+        complianceFromMinutes(minutes, orders, { from: headEnd, to: tailStart }),
+      ),
       bandCompliance(tail.map(toReading), orders, { from: tailStart, to }),
     );
     const latestReadings = latestRows.map(toReading).reverse();
     latest = latestTrusted(latestReadings);
     newest = newestWithSpo2(latestReadings);
-    lines = minuteLines(minutes, charted.map(toReading).filter((r) => r.at >= from), from, to);
+    lines = minuteLines(
+      minutes,
+      charted.map(toReading).filter((r) => r.at >= from),
+      from,
+      to,
+    );
     // Readings counted once: the head's raw rows, then whole minutes from the rollup.
     const headIn = head.filter((r) => new Date(r.taken_at).getTime() >= from);
     lines.rawCounts = {
@@ -79,14 +122,26 @@ export async function patientSeries(user: SessionUser, patientId: number, hours:
   }
 
   return {
-    patientId, hours, from, to, generatedAt: now.toISOString(), ...lines,
+    patientId,
+    hours,
+    from,
+    to,
+    generatedAt: now.toISOString(),
+    ...lines,
     fio2: fio2Steps(chartedRows, from),
     bands: bandSegments(orders, from, to),
     escalations: escalationRows.map((e) => ({
-      id: e.id, raisedAt: new Date(e.raised_at).getTime(), closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null, kind: e.kind, severity: e.severity,
+      id: e.id,
+      raisedAt: new Date(e.raised_at).getTime(),
+      closedAt: e.closed_at ? new Date(e.closed_at).getTime() : null,
+      kind: e.kind,
+      severity: e.severity,
     })),
     bloodGases,
-    newestReading: newest && newest.at >= from ? { t: newest.at, v: newest.spo2!, trusted: isTrusted(newest), source: newest.source } : null,
+    newestReading:
+      newest && newest.at >= from
+        ? { t: newest.at, v: newest.spo2!, trusted: isTrusted(newest), source: newest.source }
+        : null,
     derived: derivedFigures(compliance, latest, chartedRows, chartedInWindow, orderRows, from, to, hours),
   };
 }
@@ -97,7 +152,8 @@ function newestWithSpo2(readings: Reading[]): Reading | undefined {
 }
 
 function latestTrusted(readings: Reading[]): Reading | undefined {
-  for (let i = readings.length - 1; i >= 0; i--) if (readings[i]!.spo2 !== null && isTrusted(readings[i]!)) return readings[i];
+  for (let i = readings.length - 1; i >= 0; i--)
+    if (readings[i]!.spo2 !== null && isTrusted(readings[i]!)) return readings[i];
   return undefined;
 }
 
@@ -106,7 +162,13 @@ function latestTrusted(readings: Reading[]): Reading | undefined {
  * unless the signal hovers at the limit and the edges alone would fill the line; then one min–max
  * envelope point a minute, like long windows, so no line passes the budget whatever its shape.
  */
-function rawLines(readings: Reading[], windowReadings: Reading[], orders: ReturnType<typeof toBandOrders>, from: number, to: number) {
+function rawLines(
+  readings: Reading[],
+  windowReadings: Reading[],
+  orders: ReturnType<typeof toBandOrders>,
+  from: number,
+  to: number,
+) {
   const withSpo2 = windowReadings.filter((r) => r.spo2 !== null);
   const withHr = windowReadings.filter((r) => r.heartRate !== null && r.heartRate !== undefined);
   const rawCounts = { spo2: withSpo2.length, heartRate: withHr.length };
@@ -115,23 +177,60 @@ function rawLines(readings: Reading[], windowReadings: Reading[], orders: Return
   for (let i = 1; i < withSpo2.length - 1 && edges <= MAX_POINTS_PER_LINE / 2; i++) if (keep(withSpo2[i]!, i)) edges++;
   if (edges > MAX_POINTS_PER_LINE / 2) {
     const minutes = minuteRollup(readings, floorMinute(from), to);
-    return { ...minuteLines(minutes, windowReadings.filter((r) => r.source === 'charted'), from, to), rawCounts };
+    return {
+      ...minuteLines(
+        minutes,
+        windowReadings.filter((r) => r.source === 'charted'),
+        from,
+        to,
+      ),
+      rawCounts,
+    };
   }
-  const spo2: Spo2Point[] = lttb(withSpo2, MAX_POINTS_PER_LINE, (r) => r.at, (r) => r.spo2!, keep).map((r) => ({
-    t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source,
+  const spo2: Spo2Point[] = lttb(
+    withSpo2,
+    MAX_POINTS_PER_LINE,
+    (r) => r.at,
+    (r) => r.spo2!,
+    keep,
+  ).map((r) => ({
+    t: r.at,
+    v: r.spo2!,
+    trusted: isTrusted(r),
+    source: r.source,
   }));
-  const heartRate = lttb(withHr, MAX_POINTS_PER_LINE, (r) => r.at, (r) => r.heartRate!).map((r) => ({ t: r.at, v: r.heartRate! }));
+  const heartRate = lttb(
+    withHr,
+    MAX_POINTS_PER_LINE,
+    (r) => r.at,
+    (r) => r.heartRate!,
+  ).map((r) => ({ t: r.at, v: r.heartRate! }));
   return { spo2, heartRate, rawCounts, bucketMs: 0 };
 }
 
 /** Enveloped lines from minute rows, with each charted obs as its own point (drawn as charted). */
-function minuteLines(minutes: MinuteRollup[], charted: Reading[], from: number, to: number, countFrom = Math.ceil(from / MINUTE_MS) * MINUTE_MS) {
+function minuteLines(
+  minutes: MinuteRollup[],
+  charted: Reading[],
+  from: number,
+  to: number,
+  countFrom = Math.ceil(from / MINUTE_MS) * MINUTE_MS,
+) {
   const chartedSpo2 = charted.filter((r) => r.spo2 !== null).slice(-200);
   // Half the line budget is plenty when each point carries its min–max envelope, and keeps the answer small.
   const env = envelopeLines(minutes, from, to, Math.floor(MAX_POINTS_PER_LINE / 2) - chartedSpo2.length);
-  const toPoint = (p: EnvelopePoint): Spo2Point => ({ t: p.t, v: p.v, lo: p.lo, hi: p.hi, trusted: p.trusted, source: p.charted ? 'charted' : 'device' });
-  const spo2 = [...env.spo2.filter((p) => !p.charted).map(toPoint), ...chartedSpo2.map((r) => ({ t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source }))]
-    .sort((a, b) => a.t - b.t);
+  const toPoint = (p: EnvelopePoint): Spo2Point => ({
+    t: p.t,
+    v: p.v,
+    lo: p.lo,
+    hi: p.hi,
+    trusted: p.trusted,
+    source: p.charted ? 'charted' : 'device',
+  });
+  const spo2 = [
+    ...env.spo2.filter((p) => !p.charted).map(toPoint),
+    ...chartedSpo2.map((r) => ({ t: r.at, v: r.spo2!, trusted: isTrusted(r), source: r.source })),
+  ].sort((a, b) => a.t - b.t);
   const heartRate: SeriesPoint[] = env.heartRate.map((p) => ({ t: p.t, v: p.v, lo: p.lo, hi: p.hi }));
   let spo2N = 0;
   let hrN = 0;
@@ -171,14 +270,26 @@ function bandSegments(orders: { from: number; low: number; high: number }[], fro
   return segments;
 }
 
-function derivedFigures(c: BandComplianceResult, latest: Reading | undefined, chartedRows: ReadingRow[], lastCharted: ObservationListRow | undefined, orderRows: Awaited<ReturnType<typeof ordersOf>>, from: number, to: number, hours: number): DerivedFigures {
+function derivedFigures(
+  c: BandComplianceResult,
+  latest: Reading | undefined,
+  chartedRows: ReadingRow[],
+  lastCharted: ObservationListRow | undefined,
+  orderRows: Awaited<ReturnType<typeof ordersOf>>,
+  from: number,
+  to: number,
+  hours: number,
+): DerivedFigures {
   const currentOrder = orderRows[0];
   const scale = (currentOrder ? Number(currentOrder.news2_scale) : 1) as 1 | 2;
 
   // S/F and imputed P/F: the latest trusted SpO₂ with the latest charted FiO₂.
   let fio2Reading: Reading | undefined;
   for (let i = chartedRows.length - 1; i >= 0; i--) {
-    if (chartedRows[i]!.fio2 !== null) { fio2Reading = toReading(chartedRows[i]!); break; }
+    if (chartedRows[i]!.fio2 !== null) {
+      fio2Reading = toReading(chartedRows[i]!);
+      break;
+    }
   }
   const fio2 = fio2Reading?.fio2 ?? null;
   const sf = latest && fio2 ? round(sfRatio(latest.spo2!, fio2)) : null;
@@ -205,19 +316,43 @@ function derivedFigures(c: BandComplianceResult, latest: Reading | undefined, ch
       } else roxNote = 'Needs SpO₂, FiO₂ and respiratory rate charted together';
     }
     const result = news2(news2InputOf(toChartedObs(lastCharted)), scale);
-    news = { total: result.total, complete: result.complete, missing: result.missing, response: result.response, scale, takenAt: new Date(lastCharted.taken_at).toISOString() };
+    news = {
+      total: result.total,
+      complete: result.complete,
+      missing: result.missing,
+      response: result.response,
+      scale,
+      takenAt: new Date(lastCharted.taken_at).toISOString(),
+    };
   }
 
   return {
     window: { from: new Date(from).toISOString(), to: new Date(to).toISOString(), hours },
     compliance: {
-      inBandMin: round(c.inBandMin, 1), belowMin: round(c.belowMin, 1), aboveMin: round(c.aboveMin, 1), untrustedMin: round(c.untrustedMin, 1),
-      noReadingMin: round(c.noReadingMin, 1), noBandMin: round(c.noBandMin, 1), windowMin: round(c.windowMin, 1), burdenPctMin: round(c.burdenPctMin, 1),
-      inBandPct: c.timeInBandPct === null ? null : round(c.timeInBandPct, 1), trustedReadings: c.trustedReadings, untrustedReadings: c.untrustedReadings,
+      inBandMin: round(c.inBandMin, 1),
+      belowMin: round(c.belowMin, 1),
+      aboveMin: round(c.aboveMin, 1),
+      untrustedMin: round(c.untrustedMin, 1),
+      noReadingMin: round(c.noReadingMin, 1),
+      noBandMin: round(c.noBandMin, 1),
+      windowMin: round(c.windowMin, 1),
+      burdenPctMin: round(c.burdenPctMin, 1),
+      inBandPct: c.timeInBandPct === null ? null : round(c.timeInBandPct, 1),
+      trustedReadings: c.trustedReadings,
+      untrustedReadings: c.untrustedReadings,
     },
     latest: {
-      takenAt: latest ? new Date(latest.at).toISOString() : null, spo2: latest?.spo2 ?? null, fio2, fio2Estimated: Boolean(fio2Reading?.fio2Estimated),
-      device: fio2Reading?.device ?? latest?.device ?? null, sf, rox, roxNote, imputedPf: pf, imputedPfNote: pfNote, news2: news,
+      takenAt: latest ? new Date(latest.at).toISOString() : null,
+      spo2: latest?.spo2 ?? null,
+      fio2,
+      fio2Estimated: Boolean(fio2Reading?.fio2Estimated),
+      device: fio2Reading?.device ?? latest?.device ?? null,
+      sf,
+      rox,
+      roxNote,
+      imputedPf: pf,
+      imputedPfNote: pfNote,
+      news2: news,
     },
   };
 }

@@ -20,14 +20,19 @@ import { refreshMinuteRollup } from '~/lib/server/queries/rollup.ts';
 import { insertDeviceReadings, staysInBedBetween, type DeviceObservationRow } from '~/lib/server/queries/devices.ts';
 
 export interface IngestResult {
-  bed: string; received: number; stored: number; duplicates: number; withoutPatient: number;
+  bed: string;
+  received: number;
+  stored: number;
+  duplicates: number;
+  withoutPatient: number;
   /** Plain words for the gateway's log, e.g. why nothing was stored. */
   message: string;
 }
 
 /** Where a batch comes from: the bed it speaks for, and how to mark the sender as seen (in the batch's transaction). */
 export interface IngestSource {
-  bed_id: number; bed_label: string;
+  bed_id: number;
+  bed_label: string;
   touch: (trx: Conn, at: Date) => Promise<void>;
 }
 
@@ -35,7 +40,11 @@ type Batch = z.output<ReturnType<typeof ingestBatchSchema>>;
 
 /** A batch refused by validation: nothing was stored. `fields` name readings by index, e.g. `readings.12.spo2`. */
 export class BatchRefused extends Error {
-  constructor(readonly count: number, readonly fields: Record<string, string>, readonly issues: z.ZodIssue[]) {
+  constructor(
+    readonly count: number,
+    readonly fields: Record<string, string>,
+    readonly issues: z.ZodIssue[],
+  ) {
     const [firstField, firstReason] = Object.entries(fields)[0] ?? ['_', 'invalid'];
     const more = count > MAX_FIELDS ? ` (the first ${MAX_FIELDS} are listed)` : '';
     super(`${count} problem(s) in the batch${more}; nothing was stored. First: ${firstField}: ${firstReason}`);
@@ -71,12 +80,25 @@ async function ingestBatch(key: IngestSource, batch: Batch, now: Date): Promise<
     for (const r of readings) {
       const t = r.at.getTime();
       const stay = stayAt(stays, t);
-      if (!stay) { withoutPatient++; continue; }
+      if (!stay) {
+        withoutPatient++;
+        continue;
+      }
       let rows = byPatient.get(stay.patient_id);
-      if (!rows) byPatient.set(stay.patient_id, (rows = []));
+      if (!rows) {
+        rows = [];
+        byPatient.set(stay.patient_id, rows);
+      }
       rows.push({
-        patient_id: stay.patient_id, bed_id: key.bed_id, taken_at: r.at, source: 'device', spo2: r.spo2, heart_rate: r.heartRate,
-        perfusion_index: r.perfusionIndex, trace: r.trace, recorded_at: now,
+        patient_id: stay.patient_id,
+        bed_id: key.bed_id,
+        taken_at: r.at,
+        source: 'device',
+        spo2: r.spo2,
+        heart_rate: r.heartRate,
+        perfusion_index: r.perfusionIndex,
+        trace: r.trace,
+        recorded_at: now,
       });
     }
     let stored = 0;
@@ -97,7 +119,17 @@ async function ingestBatch(key: IngestSource, batch: Batch, now: Date): Promise<
     const duplicates = readings.length - withoutPatient - stored;
     const parts = [`${stored} stored`];
     if (duplicates > 0) parts.push(`${duplicates} already stored (ignored)`);
-    if (withoutPatient > 0) parts.push(`${withoutPatient} not stored: bed ${key.bed_label} had no patient at ${withoutPatient === readings.length ? 'those times' : 'some of those times'}`);
-    return { bed: key.bed_label, received: readings.length, stored, duplicates, withoutPatient, message: parts.join('; ') };
+    if (withoutPatient > 0)
+      parts.push(
+        `${withoutPatient} not stored: bed ${key.bed_label} had no patient at ${withoutPatient === readings.length ? 'those times' : 'some of those times'}`,
+      );
+    return {
+      bed: key.bed_label,
+      received: readings.length,
+      stored,
+      duplicates,
+      withoutPatient,
+      message: parts.join('; '),
+    };
   });
 }

@@ -12,16 +12,31 @@ import type { IngestSource } from './ingest.ts';
 import { writeAudit } from '~/lib/server/queries/audit.ts';
 import { findBed } from '~/lib/server/queries/patients.ts';
 import {
-  activeBeds, findDeviceKeyListRow, findKeyByHash, insertDeviceKey, listDeviceKeys, lockDeviceKey, revokeDeviceKey, touchDeviceKey, type DeviceKeyListRow,
+  activeBeds,
+  findDeviceKeyListRow,
+  findKeyByHash,
+  insertDeviceKey,
+  listDeviceKeys,
+  lockDeviceKey,
+  revokeDeviceKey,
+  touchDeviceKey,
+  type DeviceKeyListRow,
 } from '~/lib/server/queries/devices.ts';
 
 const KEY_PREFIX = 'ebw_';
 
 export function keyView(r: DeviceKeyListRow): DeviceKeyView {
   return {
-    id: r.id, label: r.label, prefix: r.key_prefix, bed: { id: r.bed_id, label: r.bed_label, unitCode: r.unit_code, unitName: r.unit_name },
-    createdAt: toIso(r.created_at)!, createdBy: r.created_by_name, lastUsedAt: toIso(r.last_used_at),
-    revokedAt: toIso(r.revoked_at), revokedBy: r.revoked_by_name, revokeReason: r.revoke_reason,
+    id: r.id,
+    label: r.label,
+    prefix: r.key_prefix,
+    bed: { id: r.bed_id, label: r.bed_label, unitCode: r.unit_code, unitName: r.unit_name },
+    createdAt: toIso(r.created_at)!,
+    createdBy: r.created_by_name,
+    lastUsedAt: toIso(r.last_used_at),
+    revokedAt: toIso(r.revoked_at),
+    revokedBy: r.revoked_by_name,
+    revokeReason: r.revoke_reason,
   };
 }
 
@@ -37,24 +52,56 @@ export function newDeviceKey(): { key: string; hash: string; prefix: string } {
 
 export async function listKeys() {
   const [keys, beds] = await Promise.all([listDeviceKeys(), activeBeds()]);
-  return { keys: keys.map(keyView), beds: beds.map((b) => ({ id: b.id, label: b.label, unitCode: b.unit_code, unitName: b.unit_name })) };
+  return {
+    keys: keys.map(keyView),
+    beds: beds.map((b) => ({ id: b.id, label: b.label, unitCode: b.unit_code, unitName: b.unit_name })),
+  };
 }
 
 /** Returns the key itself once; it cannot be read again. `actorId` is null for the demo feeder. */
-export async function createDeviceKey(actorId: number | null, input: { bedId: number; label: string }, now = new Date()): Promise<{ key: string; deviceKey: DeviceKeyView }> {
+export async function createDeviceKey(
+  actorId: number | null,
+  input: { bedId: number; label: string },
+  now = new Date(),
+): Promise<{ key: string; deviceKey: DeviceKeyView }> {
   const bed = await findBed(input.bedId);
-  if (!bed || !bed.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
+  if (!bed?.active) throw new ApiError(400, 'invalid_input', 'That bed does not exist.', { bedId: 'No such bed' });
   const { key, hash, prefix } = newDeviceKey();
   const id = await withTransactionRetry(async (trx) => {
-    const keyId = await insertDeviceKey(trx, { bed_id: bed.id, label: input.label, key_hash: hash, key_prefix: prefix, created_by: actorId, created_at: now });
-    await writeAudit(trx, { actorId, action: 'device_key.create', entity: 'device_key', entityId: keyId, after: { bedId: bed.id, bedLabel: bed.label, label: input.label, prefix }, at: now });
+    const keyId = await insertDeviceKey(trx, {
+      bed_id: bed.id,
+      label: input.label,
+      key_hash: hash,
+      key_prefix: prefix,
+      created_by: actorId,
+      created_at: now,
+    });
+    await writeAudit(trx, {
+      actorId,
+      action: 'device_key.create',
+      entity: 'device_key',
+      entityId: keyId,
+      after: { bedId: bed.id, bedLabel: bed.label, label: input.label, prefix },
+      at: now,
+    });
     return keyId;
   });
   return { key, deviceKey: keyView((await findDeviceKeyListRow(id))!) };
 }
 
-export async function revokeKey(actorId: number | null, id: number, reason: string, now = new Date()): Promise<DeviceKeyView> {
-  await revokeCredential({ entity: 'device_key', noun: 'device key', shortNoun: 'key', lock: lockDeviceKey, revoke: revokeDeviceKey }, actorId, id, reason, now);
+export async function revokeKey(
+  actorId: number | null,
+  id: number,
+  reason: string,
+  now = new Date(),
+): Promise<DeviceKeyView> {
+  await revokeCredential(
+    { entity: 'device_key', noun: 'device key', shortNoun: 'key', lock: lockDeviceKey, revoke: revokeDeviceKey },
+    actorId,
+    id,
+    reason,
+    now,
+  );
   return keyView((await findDeviceKeyListRow(id))!);
 }
 
@@ -64,7 +111,8 @@ export async function authenticateDeviceKey(authorization: string | null) {
   if (!m) throw new ApiError(401, 'device_key_required', 'Send the device key as "Authorization: Bearer <key>".');
   const key = await findKeyByHash(hashDeviceKey(m[1]!));
   if (!key) throw new ApiError(401, 'invalid_device_key', 'This device key is not known.');
-  if (key.revoked_at) throw new ApiError(401, 'device_key_revoked', 'This device key was revoked; ask an administrator for a new one.');
+  if (key.revoked_at)
+    throw new ApiError(401, 'device_key_revoked', 'This device key was revoked; ask an administrator for a new one.');
   if (!key.bed_active) throw new ApiError(403, 'bed_inactive', `Bed ${key.bed_label} is no longer in use.`);
   return key;
 }

@@ -7,7 +7,10 @@ import { CLAIMING_ROLES, CLOSING_ROLES, hasRole } from '~/lib/auth/roles.ts';
 import type { EscalationCan } from '~/lib/escalations/api-types.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 
-export function escalationPermissions(user: SessionUser, escalation: { state: 'raised' | 'claimed' | 'closed' }): EscalationCan {
+export function escalationPermissions(
+  user: SessionUser,
+  escalation: { state: 'raised' | 'claimed' | 'closed' },
+): EscalationCan {
   return {
     claim: hasRole(user.role, CLAIMING_ROLES) && escalation.state === 'raised',
     close: hasRole(user.role, CLOSING_ROLES) && escalation.state !== 'closed',

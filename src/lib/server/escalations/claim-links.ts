@@ -28,24 +28,42 @@ export function publicOrigin(): string {
 }
 
 /** Makes a token for an escalation inside the caller's transaction (with the mail that carries it). */
-export async function issueClaimLink(trx: Knex.Transaction, escalationId: number, now: Date): Promise<{ url: string; expiresAt: number }> {
+export async function issueClaimLink(
+  trx: Knex.Transaction,
+  escalationId: number,
+  now: Date,
+): Promise<{ url: string; expiresAt: number }> {
   const expiresAt = now.getTime() + CLAIM_LINK_TTL_MS;
   const payload = `${escalationId}.${Math.floor(expiresAt / 1000)}.${randomBytes(18).toString('base64url')}`;
   const token = `${payload}.${sign(payload)}`;
-  await insertClaimToken(trx, { escalation_id: escalationId, token_hash: hashClaimToken(token), created_at: now, expires_at: new Date(expiresAt) });
+  await insertClaimToken(trx, {
+    escalation_id: escalationId,
+    token_hash: hashClaimToken(token),
+    created_at: now,
+    expires_at: new Date(expiresAt),
+  });
   return { url: `${publicOrigin()}/escalations/claim?token=${encodeURIComponent(token)}`, expiresAt };
 }
 
 /** Checks the signature and expiry; the escalation id it names, or an ApiError in plain words. */
 export function verifyClaimToken(token: string, now: Date): number {
   const parts = token.split('.');
-  const bad = new ApiError(400, 'invalid_token', 'This claim link is not valid. Claim the escalation from the outreach queue instead.');
+  const bad = new ApiError(
+    400,
+    'invalid_token',
+    'This claim link is not valid. Claim the escalation from the outreach queue instead.',
+  );
   if (parts.length !== 4 || !/^\d+$/.test(parts[0]!) || !/^\d+$/.test(parts[1]!)) throw bad;
   const payload = parts.slice(0, 3).join('.');
   const given = Buffer.from(parts[3]!);
   const expected = Buffer.from(sign(payload));
   if (given.length !== expected.length || !timingSafeEqual(given, expected)) throw bad;
-  if (Number(parts[1]) * 1000 <= now.getTime()) throw new ApiError(410, 'expired', 'This claim link has expired. Claim the escalation from the outreach queue instead.');
+  if (Number(parts[1]) * 1000 <= now.getTime())
+    throw new ApiError(
+      410,
+      'expired',
+      'This claim link has expired. Claim the escalation from the outreach queue instead.',
+    );
   return Number(parts[0]);
 }
 
@@ -53,11 +71,17 @@ export function verifyClaimToken(token: string, now: Date): number {
 export async function redeemClaimLink(user: SessionUser, token: string, now = new Date()) {
   const escalationId = verifyClaimToken(token, now);
   const row = await findClaimToken(hashClaimToken(token));
-  if (!row || row.escalation_id !== escalationId) throw new ApiError(400, 'invalid_token', 'This claim link is not valid. Claim the escalation from the outreach queue instead.');
+  if (!row || row.escalation_id !== escalationId)
+    throw new ApiError(
+      400,
+      'invalid_token',
+      'This claim link is not valid. Claim the escalation from the outreach queue instead.',
+    );
   if (row.used_at) throw new ApiError(409, 'used', 'This claim link has already been used.');
   await withTransactionRetry(async (trx) => {
     await claimInTransaction(trx, user, escalationId, now, 'e-mail link');
-    if (!(await useClaimToken(trx, row.id, user.id, now))) throw new ApiError(409, 'used', 'This claim link has already been used.');
+    if (!(await useClaimToken(trx, row.id, user.id, now)))
+      throw new ApiError(409, 'used', 'This claim link has already been used.');
   });
   return escalationDetail(user, escalationId);
 }

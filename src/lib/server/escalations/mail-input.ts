@@ -21,15 +21,25 @@ const MAIL_WINDOW_MS = 10 * 60_000;
 
 export interface MailFor {
   esc: { id: number; kind: EscalationKind; severity: 'standard' | 'urgent' | null; run_start: Date; run_end: Date };
-  ctx: PatientContext; settings: UnitSettings; readings: Reading[];
-  renotify: number; previousNoticeAt: Date | null; nadir: number | null; rule: string | null; now: Date;
+  ctx: PatientContext;
+  settings: UnitSettings;
+  readings: Reading[];
+  renotify: number;
+  previousNoticeAt: Date | null;
+  nadir: number | null;
+  rule: string | null;
+  now: Date;
 }
 
-export async function escalationMail(trx: Knex.Transaction, f: MailFor): Promise<{ subject: string; text: string; html: string }> {
+export async function escalationMail(
+  trx: Knex.Transaction,
+  f: MailFor,
+): Promise<{ subject: string; text: string; html: string }> {
   const { ctx, readings } = f;
   const lastCharted = [...readings].reverse().find((r) => r.source === 'charted');
   const oxygenFrom = [...readings].reverse().find((r) => r.fio2 !== null && r.fio2 !== undefined);
-  let news: { total: number; scale: 1 | 2 } | { missing: NonNullable<ReturnType<typeof news2>['missing']> } | null = null;
+  let news: { total: number; scale: 1 | 2 } | { missing: NonNullable<ReturnType<typeof news2>['missing']> } | null =
+    null;
   if (ctx.lastCharted) {
     const scale = (ctx.band?.news2Scale ?? 1) as 1 | 2;
     const n = news2(news2InputOf(toChartedObs(ctx.lastCharted)), scale);
@@ -37,17 +47,44 @@ export async function escalationMail(trx: Knex.Transaction, f: MailFor): Promise
   }
   const newest = readings.length ? readings[readings.length - 1]!.at : 0;
   const recent = readings.filter((r) => r.at > newest - MAIL_WINDOW_MS);
-  const lastReadings: MailReading[] = recent.map((r) => ({ at: r.at, spo2: r.spo2, trace: r.trace, heartRate: r.heartRate ?? null, source: r.source }));
+  const lastReadings: MailReading[] = recent.map((r) => ({
+    at: r.at,
+    spo2: r.spo2,
+    trace: r.trace,
+    heartRate: r.heartRate ?? null,
+    source: r.source,
+  }));
   const claim = await issueClaimLink(trx, f.esc.id, f.now);
   return buildEscalationMail({
-    hospital: ctx.hospital, unitName: ctx.unitName, bedLabel: ctx.bedLabel, patientLabel: patientLabel(ctx.givenName, ctx.familyName, ctx.mrn), timeZone: ctx.timeZone,
-    kind: f.esc.kind, severity: f.esc.severity, renotify: f.renotify, band: ctx.band ?? { low: 0, high: 0 },
-    run: { start: new Date(f.esc.run_start).getTime(), end: new Date(f.esc.run_end).getTime(), nadir: f.nadir, rule: f.rule },
+    hospital: ctx.hospital,
+    unitName: ctx.unitName,
+    bedLabel: ctx.bedLabel,
+    patientLabel: patientLabel(ctx.givenName, ctx.familyName, ctx.mrn),
+    timeZone: ctx.timeZone,
+    kind: f.esc.kind,
+    severity: f.esc.severity,
+    renotify: f.renotify,
+    band: ctx.band ?? { low: 0, high: 0 },
+    run: {
+      start: new Date(f.esc.run_start).getTime(),
+      end: new Date(f.esc.run_end).getTime(),
+      nadir: f.nadir,
+      rule: f.rule,
+    },
     lastReadings,
-    oxygen: { fio2: oxygenFrom?.fio2 ?? null, fio2Estimated: Boolean(oxygenFrom?.fio2Estimated), device: oxygenFrom?.device ?? lastCharted?.device ?? null },
-    news2: news, link: `${publicOrigin()}/patients/${ctx.patientId}`,
-    now: f.now.getTime(), previousNoticeAt: f.previousNoticeAt ? f.previousNoticeAt.getTime() : null, monitorSilentMin: f.settings.monitorSilentMin,
-    bedsideNurse: await bedsideNurseName(trx, ctx.bedId), unitPhone: f.settings.unitPhone,
-    claimLink: claim.url, claimLinkExpiresAt: claim.expiresAt,
+    oxygen: {
+      fio2: oxygenFrom?.fio2 ?? null,
+      fio2Estimated: Boolean(oxygenFrom?.fio2Estimated),
+      device: oxygenFrom?.device ?? lastCharted?.device ?? null,
+    },
+    news2: news,
+    link: `${publicOrigin()}/patients/${ctx.patientId}`,
+    now: f.now.getTime(),
+    previousNoticeAt: f.previousNoticeAt ? f.previousNoticeAt.getTime() : null,
+    monitorSilentMin: f.settings.monitorSilentMin,
+    bedsideNurse: await bedsideNurseName(trx, ctx.bedId),
+    unitPhone: f.settings.unitPhone,
+    claimLink: claim.url,
+    claimLinkExpiresAt: claim.expiresAt,
   });
 }

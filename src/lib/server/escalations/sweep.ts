@@ -9,12 +9,24 @@ import { recentReadings } from '~/lib/server/queries/recent-readings.ts';
 import { settingsFromRow } from '~/lib/units/settings.ts';
 import { db } from '~/lib/server/queries/db.ts';
 import { withTransactionRetry } from '~/lib/server/queries/transaction.ts';
-import { insertEvent, lastClosedRunStartsFor, lockUnclaimedForRenotify, openForPatients, patientsToSweep, tryLockPatient } from '~/lib/server/queries/escalations.ts';
+import {
+  insertEvent,
+  lastClosedRunStartsFor,
+  lockUnclaimedForRenotify,
+  openForPatients,
+  patientsToSweep,
+  tryLockPatient,
+} from '~/lib/server/queries/escalations.ts';
 import { patientContext, sweepContexts } from '~/lib/server/queries/escalation-context.ts';
 import { readingsByPatient, recentWindow, toReading } from '~/lib/server/charting/readings.ts';
 import { checkPatientEscalations, notify } from './engine.ts';
 
-export interface SweepResult { patientsChecked: number; patientsSkipped: number; actions: number; renotified: number }
+export interface SweepResult {
+  patientsChecked: number;
+  patientsSkipped: number;
+  actions: number;
+  renotified: number;
+}
 
 export async function runSweep(now = new Date()): Promise<SweepResult> {
   const result: SweepResult = { patientsChecked: 0, patientsSkipped: 0, actions: 0, renotified: 0 };
@@ -38,7 +50,11 @@ export async function runSweep(now = new Date()): Promise<SweepResult> {
   return result;
 }
 
-async function patientsWithActions(ids: number[], nowMs: number, window: { device: Date; charted: Date }): Promise<number[]> {
+async function patientsWithActions(
+  ids: number[],
+  nowMs: number,
+  window: { device: Date; charted: Date },
+): Promise<number[]> {
   if (ids.length === 0) return [];
   const [contexts, readings, open, closed] = await Promise.all([
     sweepContexts(db(), ids),
@@ -70,16 +86,40 @@ export async function renotifyUnclaimed(now: Date, onlyUnitId?: number): Promise
     for (const esc of await lockUnclaimedForRenotify(trx, onlyUnitId, 50, new Date(now.getTime() - 5 * 60_000))) {
       const ctx = await patientContext(trx, esc.patient_id);
       const settings = settingsFromRow(ctx?.settings ?? undefined);
-      if (!renotifyDue(esc.last_notified_at ? new Date(esc.last_notified_at).getTime() : null, new Date(esc.raised_at).getTime(), settings.renotifyMin, now.getTime())) continue;
+      if (
+        !renotifyDue(
+          esc.last_notified_at ? new Date(esc.last_notified_at).getTime() : null,
+          new Date(esc.raised_at).getTime(),
+          settings.renotifyMin,
+          now.getTime(),
+        )
+      )
+        continue;
       if (!ctx) {
-        await insertEvent(trx, { escalation_id: esc.id, type: 'renotified', actor_id: null, at: now, detail: { mailed: false, reason: 'Patient no longer in a bed' } });
+        await insertEvent(trx, {
+          escalation_id: esc.id,
+          type: 'renotified',
+          actor_id: null,
+          at: now,
+          detail: { mailed: false, reason: 'Patient no longer in a bed' },
+        });
         continue;
       }
       const rows = await recentReadings([esc.patient_id], recentWindow(now.getTime()), trx);
-      const evidence = (typeof esc.evidence === 'string' ? JSON.parse(esc.evidence) : esc.evidence) as { nadir?: number | null; rule?: string | null };
+      const evidence = (typeof esc.evidence === 'string' ? JSON.parse(esc.evidence) : esc.evidence) as {
+        nadir?: number | null;
+        rule?: string | null;
+      };
       await notify(trx, {
-        esc, ctx, settings, readings: rows.map(toReading), key: `esc:${esc.id}:renotify:${esc.notify_count}`, eventType: 'renotified', now,
-        nadir: evidence.nadir ?? null, rule: evidence.rule ?? null,
+        esc,
+        ctx,
+        settings,
+        readings: rows.map(toReading),
+        key: `esc:${esc.id}:renotify:${esc.notify_count}`,
+        eventType: 'renotified',
+        now,
+        nadir: evidence.nadir ?? null,
+        rule: evidence.rule ?? null,
       });
       count += 1;
     }

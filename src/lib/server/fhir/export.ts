@@ -5,7 +5,14 @@
  * one string. Authorisation and the window are checked before the first byte.
  */
 import {
-  bloodGasResources, bundleEntry, bundleHead, encounterResource, goalResource, observationResources, patientResource, type Resource,
+  bloodGasResources,
+  bundleEntry,
+  bundleHead,
+  encounterResource,
+  goalResource,
+  observationResources,
+  patientResource,
+  type Resource,
 } from '~/lib/fhir/r4.ts';
 import type { SessionUser } from '~/lib/server/queries/users.ts';
 import { observationsForExport } from '~/lib/server/queries/fhir.ts';
@@ -16,17 +23,35 @@ import { authorisePatient } from '~/lib/server/charting/patients.ts';
 
 const PAGE = 2000;
 
-export async function fhirExportStream(user: SessionUser, patientId: number, from: Date, to: Date, base: string, now = new Date()): Promise<ReadableStream<Uint8Array>> {
+export async function fhirExportStream(
+  user: SessionUser,
+  patientId: number,
+  from: Date,
+  to: Date,
+  base: string,
+  now = new Date(),
+): Promise<ReadableStream<Uint8Array>> {
   const { patient } = await authorisePatient(user, patientId, 'read');
-  const [stays, orders, gases] = await Promise.all([staysOf(patientId), ordersOf(patientId), bloodGasesOf(patientId, 10_000)]);
+  const [stays, orders, gases] = await Promise.all([
+    staysOf(patientId),
+    ordersOf(patientId),
+    bloodGasesOf(patientId, 10_000),
+  ]);
   const encoder = new TextEncoder();
   const head: Resource[] = [
     patientResource(patient),
-    ...stays.filter((s) => new Date(s.started_at) <= to && (s.ended_at === null || new Date(s.ended_at) >= from)).map((s) => encounterResource(s, patientId)),
+    ...stays
+      .filter((s) => new Date(s.started_at) <= to && (s.ended_at === null || new Date(s.ended_at) >= from))
+      .map((s) => encounterResource(s, patientId)),
     // ordersOf is newest first: each order's replacement is the one before it in that list.
-    ...orders.filter((o) => new Date(o.ordered_at) <= to).map((o, i, list) => goalResource(o, patientId, i > 0 ? list[i - 1]! : null)),
+    ...orders
+      .filter((o) => new Date(o.ordered_at) <= to)
+      .map((o, i, list) => goalResource(o, patientId, i > 0 ? list[i - 1]! : null)),
     // Blood gases in the window (few a day), corrections and entries in error included with their status.
-    ...gases.filter((g) => new Date(g.sampled_at) >= from && new Date(g.sampled_at) <= to).reverse().flatMap((g) => bloodGasResources(g, patientId)),
+    ...gases
+      .filter((g) => new Date(g.sampled_at) >= from && new Date(g.sampled_at) <= to)
+      .reverse()
+      .flatMap((g) => bloodGasResources(g, patientId)),
   ];
   let first = true;
   let after: { at: Date; id: number } | null = null;

@@ -10,9 +10,16 @@ import { Hl7Message } from '@medplum/core';
 import { bareRejectAck } from '~/lib/hl7/oru.ts';
 import { receiveHl7 } from './receive.ts';
 
-export interface MllpListener { port: number; close: () => Promise<void> }
+export interface MllpListener {
+  port: number;
+  close: () => Promise<void>;
+}
 
-export async function startMllpListener(port: number, host = '127.0.0.1', log: (line: string) => void = () => {}): Promise<MllpListener> {
+export async function startMllpListener(
+  port: number,
+  host = '127.0.0.1',
+  log: (line: string) => void = () => {},
+): Promise<MllpListener> {
   const sockets = new Set<net.Socket>();
   let seq = 0;
   const server = net.createServer((socket) => {
@@ -24,11 +31,14 @@ export async function startMllpListener(port: number, host = '127.0.0.1', log: (
     conn.addEventListener('message', (e: Hl7MessageEvent) => {
       const msg = e.message;
       if (msg.getSegment('MSA')) return; // an ACK sent to us: nothing to answer
-      chain = chain.then(async () => {
-        const out = await receiveHl7(msg);
-        if (out.code !== 'AA') log(`${out.code} ${msg.header.getField(10)?.toString() ?? ''}: ${out.problem?.reason ?? ''}`);
-        if (!conn.isClosed()) conn.send(out.ack);
-      }).catch((err) => log(`failed: ${(err as Error).message}`));
+      chain = chain
+        .then(async () => {
+          const out = await receiveHl7(msg);
+          if (out.code !== 'AA')
+            log(`${out.code} ${msg.header.getField(10)?.toString() ?? ''}: ${out.problem?.reason ?? ''}`);
+          if (!conn.isClosed()) conn.send(out.ack);
+        })
+        .catch((err) => log(`failed: ${(err as Error).message}`));
     });
     conn.addEventListener('error', (e: Hl7ErrorEvent) => {
       // A framed block that is not an HL7 message (no MSH): refuse it; there is no control ID to echo.
@@ -41,14 +51,18 @@ export async function startMllpListener(port: number, host = '127.0.0.1', log: (
   });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
-    server.listen(port, host, () => { server.off('error', reject); resolve(); });
+    server.listen(port, host, () => {
+      server.off('error', reject);
+      resolve();
+    });
   });
   const bound = (server.address() as net.AddressInfo).port;
   return {
     port: bound,
-    close: () => new Promise<void>((resolve) => {
-      for (const s of sockets) s.destroy();
-      server.close(() => resolve());
-    }),
+    close: () =>
+      new Promise<void>((resolve) => {
+        for (const s of sockets) s.destroy();
+        server.close(() => resolve());
+      }),
   };
 }

@@ -4,12 +4,15 @@ import { recordSent } from './outbox-worker.ts';
 // The drill found this: a mail went out, then recording "sent" hit a pool timeout during a
 // failover, and the row went back to pending and out again. Once delivered, the row is recorded
 // patiently and never handed back for another send.
-const poolTimeout = () => Object.assign(new Error('Knex: Timeout acquiring a connection'), { name: 'KnexTimeoutError' });
-const lostConnection = () => Object.assign(new Error('Connection lost: The server closed the connection.'), { code: 'PROTOCOL_CONNECTION_LOST' });
+const poolTimeout = () =>
+  Object.assign(new Error('Knex: Timeout acquiring a connection'), { name: 'KnexTimeoutError' });
+const lostConnection = () =>
+  Object.assign(new Error('Connection lost: The server closed the connection.'), { code: 'PROTOCOL_CONNECTION_LOST' });
 
 describe('recording a delivered mail', () => {
   it('keeps trying through a failover until "sent" is recorded', async () => {
-    const mark = vi.fn()
+    const mark = vi
+      .fn()
       .mockRejectedValueOnce(poolTimeout())
       .mockRejectedValueOnce(lostConnection())
       .mockResolvedValueOnce(undefined);

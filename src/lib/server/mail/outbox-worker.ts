@@ -21,7 +21,10 @@ export function messageIdFor(key: string): string {
   return `<${key.replace(/[^A-Za-z0-9._-]/g, '.')}@ebbwatch.invalid>`;
 }
 
-export async function deliverDueMail(now = new Date(), opts: { transport?: Transporter; worker?: string; limit?: number } = {}): Promise<{ sent: number; failed: number }> {
+export async function deliverDueMail(
+  now = new Date(),
+  opts: { transport?: Transporter; worker?: string; limit?: number } = {},
+): Promise<{ sent: number; failed: number }> {
   const worker = opts.worker ?? WORKER_ID;
   const transport = opts.transport ?? mailTransport();
   const rows = await claimDueMail(worker, now, LEASE_MS, opts.limit ?? 20);
@@ -31,12 +34,22 @@ export async function deliverDueMail(now = new Date(), opts: { transport?: Trans
     const messageId = messageIdFor(row.idempotency_key);
     try {
       await transport.sendMail({
-        from: mailFrom(), to: row.to_addresses, subject: row.subject, text: row.text_body, html: row.html_body, messageId,
+        from: mailFrom(),
+        to: row.to_addresses,
+        subject: row.subject,
+        text: row.text_body,
+        html: row.html_body,
+        messageId,
         headers: { 'X-Ebbwatch-Key': row.idempotency_key },
       });
     } catch (err) {
       const base = Number(process.env.EBB_MAIL_RETRY_BASE_MS ?? 10_000);
-      await markRetry(row.id, worker, (err as Error).message ?? String(err), new Date(Date.now() + retryDelayMs(row.attempts + 1, base)));
+      await markRetry(
+        row.id,
+        worker,
+        (err as Error).message ?? String(err),
+        new Date(Date.now() + retryDelayMs(row.attempts + 1, base)),
+      );
       failed += 1;
       continue;
     }
@@ -53,7 +66,12 @@ export async function deliverDueMail(now = new Date(), opts: { transport?: Trans
  * Marks a delivered row sent, re-trying while the database is failing over or busy, for at most
  * half the lease (after that another worker could take the row again, so waiting longer is moot).
  */
-export async function recordSent(id: number, worker: string, messageId: string, opts: { mark?: typeof markSent; patienceMs?: number } = {}): Promise<boolean> {
+export async function recordSent(
+  id: number,
+  worker: string,
+  messageId: string,
+  opts: { mark?: typeof markSent; patienceMs?: number } = {},
+): Promise<boolean> {
   const mark = opts.mark ?? markSent;
   const until = Date.now() + (opts.patienceMs ?? LEASE_MS / 2);
   for (let attempt = 1; ; attempt++) {

@@ -7,7 +7,9 @@ let transport: Transporter | undefined;
 export function mailTransport(): Transporter {
   transport ??= nodemailer.createTransport(process.env.SMTP_URL ?? 'smtp://127.0.0.1:2525', {
     // Fail fast so an outage turns into a retry, not a stuck worker.
-    connectionTimeout: 5_000, greetingTimeout: 5_000, socketTimeout: 10_000,
+    connectionTimeout: 5_000,
+    greetingTimeout: 5_000,
+    socketTimeout: 10_000,
   } as never);
   return transport;
 }

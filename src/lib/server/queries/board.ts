@@ -1,9 +1,19 @@
 import { db } from './db.ts';
 
 export interface BoardBedRow {
-  bed_id: number; bed_label: string; patient_id: number | null; given_name: string | null; family_name: string | null; mrn: string | null;
-  co2_retention_risk: number | null; band_low: number | null; band_high: number | null; news2_scale: number | null; ordered_at: Date | null;
-  nurse_id: number | null; nurse_name: string | null;
+  bed_id: number;
+  bed_label: string;
+  patient_id: number | null;
+  given_name: string | null;
+  family_name: string | null;
+  mrn: string | null;
+  co2_retention_risk: number | null;
+  band_low: number | null;
+  band_high: number | null;
+  news2_scale: number | null;
+  ordered_at: Date | null;
+  nurse_id: number | null;
+  nurse_name: string | null;
 }
 
 /** Every active bed of a unit with its patient, current band and assigned nurse: one query. */
@@ -19,6 +29,19 @@ export async function boardBeds(unitId: number): Promise<BoardBedRow[]> {
     .leftJoin('users as n', 'n.id', 'a.nurse_id')
     .where({ 'b.unit_id': unitId, 'b.active': true })
     .orderBy('b.position')
-    .select('b.id as bed_id', 'b.label as bed_label', 'p.id as patient_id', 'p.given_name', 'p.family_name', 'p.mrn', 'p.co2_retention_risk',
-      'o.low as band_low', 'o.high as band_high', 'o.news2_scale', 'o.ordered_at', 'n.id as nurse_id', 'n.name as nurse_name');
+    .select(
+      'b.id as bed_id',
+      'b.label as bed_label',
+      'p.id as patient_id',
+      'p.given_name',
+      'p.family_name',
+      'p.mrn',
+      'p.co2_retention_risk',
+      'o.low as band_low',
+      'o.high as band_high',
+      'o.news2_scale',
+      'o.ordered_at',
+      'n.id as nurse_id',
+      'n.name as nurse_name',
+    );
 }

@@ -6,7 +6,12 @@
 import type { Knex } from 'knex';
 import type { Conn } from './patients.ts';
 
-export interface RecordMark { status: 'superseded' | 'entered_in_error'; status_reason: string; status_by: number; status_at: Date }
+export interface RecordMark {
+  status: 'superseded' | 'entered_in_error';
+  status_reason: string;
+  status_by: number;
+  status_at: Date;
+}
 
 export function correctedRecords<Row extends object>(table: 'observations' | 'blood_gases', alias: string) {
   return {

@@ -6,7 +6,9 @@ export async function databaseAnswers(timeoutMs = 2000): Promise<boolean> {
   try {
     await Promise.race([
       db().raw('select 1'),
-      new Promise((_, reject) => { timer = setTimeout(() => reject(new Error('timeout')), timeoutMs); }),
+      new Promise((_, reject) => {
+        timer = setTimeout(() => reject(new Error('timeout')), timeoutMs);
+      }),
     ]);
     return true;
   } catch {

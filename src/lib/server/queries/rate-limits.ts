@@ -16,8 +16,15 @@ export function failureCounter(prefix: string, points: number, durationSec: numb
   let limiter: RateLimiterMySQL | undefined;
   const get = () =>
     (limiter ??= new RateLimiterMySQL({
-      storeClient: db(), storeType: 'knex', dbName: process.env.DB_NAME ?? 'ebbwatch', tableName: 'rate_limits',
-      tableCreated: true, clearExpiredByTimeout: false, keyPrefix: prefix, points, duration: durationSec,
+      storeClient: db(),
+      storeType: 'knex',
+      dbName: process.env.DB_NAME ?? 'ebbwatch',
+      tableName: 'rate_limits',
+      tableCreated: true,
+      clearExpiredByTimeout: false,
+      keyPrefix: prefix,
+      points,
+      duration: durationSec,
     }));
   return {
     async blockedFor(key) {

@@ -11,14 +11,29 @@ export type RevokeReason = 'signout' | 'deactivated' | 'password_changed' | 'adm
 
 export const hashSessionId = (sid: string) => createHash('sha256').update(sid).digest('hex');
 
-export async function createSession(userId: number, address: string | null, expiresAt: Date, trx: Knex | Knex.Transaction = db()): Promise<string> {
+export async function createSession(
+  userId: number,
+  address: string | null,
+  expiresAt: Date,
+  trx: Knex | Knex.Transaction = db(),
+): Promise<string> {
   const sid = randomBytes(32).toString('base64url');
-  await trx('sessions').insert({ id: hashSessionId(sid), user_id: userId, expires_at: expiresAt, address: address?.slice(0, 64) ?? null });
+  await trx('sessions').insert({
+    id: hashSessionId(sid),
+    user_id: userId,
+    expires_at: expiresAt,
+    address: address?.slice(0, 64) ?? null,
+  });
   return sid;
 }
 
 /** Ends one session (sign-out). Returns the user it belonged to, when it was live. */
-export async function revokeSession(trx: Knex.Transaction, sid: string, reason: RevokeReason = 'signout', at = new Date()): Promise<number | null> {
+export async function revokeSession(
+  trx: Knex.Transaction,
+  sid: string,
+  reason: RevokeReason = 'signout',
+  at = new Date(),
+): Promise<number | null> {
   const id = hashSessionId(sid);
   const row = await trx('sessions').where({ id }).whereNull('revoked_at').forUpdate().first('user_id');
   if (!row) return null;
@@ -30,6 +45,14 @@ export async function revokeSession(trx: Knex.Transaction, sid: string, reason: 
  * Ends every live session of a user: call it on deactivation and password change (inside the
  * change's transaction when there is one, so both happen or neither). Returns how many ended.
  */
-export async function revokeSessionsOf(userId: number, reason: RevokeReason, trx: Knex | Knex.Transaction = db(), at = new Date()): Promise<number> {
-  return trx('sessions').where({ user_id: userId }).whereNull('revoked_at').update({ revoked_at: at, revoked_reason: reason });
+export async function revokeSessionsOf(
+  userId: number,
+  reason: RevokeReason,
+  trx: Knex | Knex.Transaction = db(),
+  at = new Date(),
+): Promise<number> {
+  return trx('sessions')
+    .where({ user_id: userId })
+    .whereNull('revoked_at')
+    .update({ revoked_at: at, revoked_reason: reason });
 }

@@ -7,14 +7,24 @@
 import type { Knex } from 'knex';
 import { db } from './db.ts';
 
-interface SqlError { errno?: number; code?: string; sqlMessage?: string; message?: string }
+interface SqlError {
+  errno?: number;
+  code?: string;
+  sqlMessage?: string;
+  message?: string;
+}
 
 // MariaDB / MySQL error numbers that mean "this transaction was rolled back, try it again".
 // 1213 ER_LOCK_DEADLOCK, 1205 ER_LOCK_WAIT_TIMEOUT. Galera: a certification conflict reaches the
 // client as 1213 too; 1180 ER_ERROR_DURING_COMMIT and 1047 ER_UNKNOWN_COM_ERROR ("WSREP has not yet
 // prepared node for application use") arrive while a node rejoins.
 const RETRYABLE_ERRNOS = new Set([1213, 1205, 1180, 1047]);
-const RETRYABLE_CODES = new Set(['ER_LOCK_DEADLOCK', 'ER_LOCK_WAIT_TIMEOUT', 'ER_ERROR_DURING_COMMIT', 'ER_UNKNOWN_COM_ERROR']);
+const RETRYABLE_CODES = new Set([
+  'ER_LOCK_DEADLOCK',
+  'ER_LOCK_WAIT_TIMEOUT',
+  'ER_ERROR_DURING_COMMIT',
+  'ER_UNKNOWN_COM_ERROR',
+]);
 
 /** The one test of "re-run this transaction" (a later Galera setup extends only this). */
 export function isRetryableTransactionError(err: unknown): boolean {
@@ -33,8 +43,16 @@ export function isDuplicateKey(err: unknown, key?: string): boolean {
 }
 
 const UNAVAILABLE_CODES = new Set([
-  'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENOTFOUND',
-  'PROTOCOL_CONNECTION_LOST', 'PROTOCOL_SEQUENCE_TIMEOUT', 'ER_CON_COUNT_ERROR', 'ER_SERVER_SHUTDOWN',
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  'EHOSTUNREACH',
+  'ENOTFOUND',
+  'PROTOCOL_CONNECTION_LOST',
+  'PROTOCOL_SEQUENCE_TIMEOUT',
+  'ER_CON_COUNT_ERROR',
+  'ER_SERVER_SHUTDOWN',
 ]);
 
 /** The database did not answer (stopped, restarting, unreachable, pool exhausted waiting for it). */
@@ -47,15 +65,29 @@ export function isDatabaseUnavailable(err: unknown): boolean {
   if ((e as { fatal?: boolean }).fatal === true) return true;
   if (/connection is in closed state/i.test(e.message ?? '')) return true;
   if (e.code !== undefined && UNAVAILABLE_CODES.has(e.code)) return true;
-  if (e.errno === 1053 /* server shutdown in progress */ || e.errno === 2002 || e.errno === 2003 || e.errno === 2006 || e.errno === 2013) return true;
+  if (
+    e.errno === 1053 /* server shutdown in progress */ ||
+    e.errno === 2002 ||
+    e.errno === 2003 ||
+    e.errno === 2006 ||
+    e.errno === 2013
+  )
+    return true;
   if (Array.isArray(e.errors) && e.errors.some(isDatabaseUnavailable)) return true; // AggregateError from a dual-stack connect
   return e.cause !== undefined && e.cause !== err && isDatabaseUnavailable(e.cause);
 }
 
-export interface RetryOptions { tries?: number; baseDelayMs?: number; onRetry?: (attempt: number, err: unknown) => void }
+export interface RetryOptions {
+  tries?: number;
+  baseDelayMs?: number;
+  onRetry?: (attempt: number, err: unknown) => void;
+}
 
 /** Runs `work` in a transaction, re-running it (up to `tries` attempts in all) when it lost to another. */
-export async function withTransactionRetry<T>(work: (trx: Knex.Transaction) => Promise<T>, opts: RetryOptions = {}): Promise<T> {
+export async function withTransactionRetry<T>(
+  work: (trx: Knex.Transaction) => Promise<T>,
+  opts: RetryOptions = {},
+): Promise<T> {
   const tries = opts.tries ?? 4;
   const base = opts.baseDelayMs ?? 15;
   for (let attempt = 1; ; attempt++) {

@@ -6,9 +6,16 @@ import { ApiError, parseQuery } from '~/lib/server/http.ts';
 import { readUpload } from '~/lib/server/upload-body.ts';
 
 const metaSchema = z.object({
-  fileName: z.string({ required_error: 'Give the file name' }).trim().min(1, 'Give the file name').max(255, 'File name: 255 characters at most')
+  fileName: z
+    .string({ required_error: 'Give the file name' })
+    .trim()
+    .min(1, 'Give the file name')
+    .max(255, 'File name: 255 characters at most')
     .transform((s) => s.split(/[\\/]/).pop()!),
-  expectHash: z.string().regex(/^[0-9a-f]{64}$/, 'Not a file hash').optional(),
+  expectHash: z
+    .string()
+    .regex(/^[0-9a-f]{64}$/, 'Not a file hash')
+    .optional(),
 });
 
 export async function readTrendUpload(request: Request, url: URL) {

@@ -8,7 +8,11 @@ export const GET = endpoint(async ({ locals, url }) => {
   if (q.format === 'csv') {
     const { rows, timeZone } = await auditRowsForCsv(q);
     return new Response(auditCsv(rows, timeZone), {
-      headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': 'attachment; filename="ebbwatch-audit.csv"', 'cache-control': 'no-store' },
+      headers: {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': 'attachment; filename="ebbwatch-audit.csv"',
+        'cache-control': 'no-store',
+      },
     });
   }
   return json(await auditPage(q));

@@ -6,7 +6,11 @@ import { analyseStripText } from '~/lib/server/pleth-strips/checks.ts';
 import { readUpload } from '~/lib/server/upload-body.ts';
 
 const query = z.object({
-  sampleRateHz: z.coerce.number({ invalid_type_error: 'Sample rate must be a number' }).positive('Sample rate must be above 0').max(10_000).optional(),
+  sampleRateHz: z.coerce
+    .number({ invalid_type_error: 'Sample rate must be a number' })
+    .positive('Sample rate must be above 0')
+    .max(10_000)
+    .optional(),
   fileName: z.string().trim().max(255).default('strip.csv'),
 });
 

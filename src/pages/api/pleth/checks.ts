@@ -10,7 +10,10 @@ const attachSchema = z.object({
   patientId: z.number({ required_error: 'Choose the patient' }).int().positive(),
   observationId: z.number().int().positive().nullable().default(null),
   fileName: z.string({ required_error: 'Give the file name' }).trim().min(1).max(255),
-  csv: z.string({ required_error: 'Send the strip' }).min(1, 'Send the strip').max(MAX_STRIP_BYTES, 'The strip is larger than 2 MB'),
+  csv: z
+    .string({ required_error: 'Send the strip' })
+    .min(1, 'Send the strip')
+    .max(MAX_STRIP_BYTES, 'The strip is larger than 2 MB'),
   sampleRateHz: z.number().positive().max(10_000).optional(),
   note: z.string().trim().max(500, '500 characters at most').optional(),
 });

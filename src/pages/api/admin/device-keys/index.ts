@@ -4,7 +4,11 @@ import { endpoint, json, parseBody, requireRole } from '~/lib/server/http.ts';
 
 const createSchema = z.object({
   bedId: z.number({ required_error: 'Choose a bed', invalid_type_error: 'Choose a bed' }).int().positive(),
-  label: z.string({ required_error: 'Name the gateway or monitor' }).trim().min(2, 'Name the gateway or monitor').max(80, '80 characters at most'),
+  label: z
+    .string({ required_error: 'Name the gateway or monitor' })
+    .trim()
+    .min(2, 'Name the gateway or monitor')
+    .max(80, '80 characters at most'),
 });
 
 export const GET = endpoint(async ({ locals }) => {

@@ -4,7 +4,9 @@ import { idParam } from '~/lib/charting/patient-input.ts';
 import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/server/http.ts';
 import { assignNurse } from '~/lib/server/board/assignments.ts';
 
-const body = z.object({ nurseId: z.number({ invalid_type_error: 'Choose a nurse, or null to clear' }).int().positive().nullable() });
+const body = z.object({
+  nurseId: z.number({ invalid_type_error: 'Choose a nurse, or null to clear' }).int().positive().nullable(),
+});
 
 export const PUT = endpoint(async ({ locals, params, request }) => {
   const charge = requireRole(locals, BED_MANAGING_ROLES);

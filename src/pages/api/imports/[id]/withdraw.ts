@@ -5,7 +5,11 @@ import { endpoint, json, parseBody, parseParams, requireRole } from '~/lib/serve
 import { withdrawImport } from '~/lib/server/trend-files/imports.ts';
 
 const withdrawSchema = z.object({
-  reason: z.string({ required_error: 'Give the reason for withdrawing' }).trim().min(3, 'Give the reason for withdrawing').max(400, '400 characters at most'),
+  reason: z
+    .string({ required_error: 'Give the reason for withdrawing' })
+    .trim()
+    .min(3, 'Give the reason for withdrawing')
+    .max(400, '400 characters at most'),
 });
 
 export const POST = endpoint(async ({ locals, params, request }) => {

@@ -6,7 +6,13 @@ import { patientSeries } from '~/lib/server/charting/series.ts';
 import { CHART_WINDOW_HOURS, DEFAULT_WINDOW_HOURS } from '~/lib/charting/api-types.ts';
 
 const seriesQuery = z.object({
-  hours: z.coerce.number().refine((h) => (CHART_WINDOW_HOURS as readonly number[]).includes(h), `hours must be one of ${CHART_WINDOW_HOURS.join(', ')}`).default(DEFAULT_WINDOW_HOURS),
+  hours: z.coerce
+    .number()
+    .refine(
+      (h) => (CHART_WINDOW_HOURS as readonly number[]).includes(h),
+      `hours must be one of ${CHART_WINDOW_HOURS.join(', ')}`,
+    )
+    .default(DEFAULT_WINDOW_HOURS),
 });
 
 export const GET = endpoint(async ({ locals, params, url }) => {

@@ -11,6 +11,10 @@ export const GET = endpoint(async ({ locals, params, url }) => {
   const { days } = parseQuery(url, reportQuery);
   const report = await unitReport(user, code, days as ReportDays);
   return new Response(reportCsv(report), {
-    headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${reportCsvFileName(report)}"`, 'cache-control': 'no-store' },
+    headers: {
+      'content-type': 'text/csv; charset=utf-8',
+      'content-disposition': `attachment; filename="${reportCsvFileName(report)}"`,
+      'cache-control': 'no-store',
+    },
   });
 });

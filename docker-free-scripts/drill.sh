@@ -108,6 +108,8 @@ npm run --silent migrate >/dev/null
 start_apps
 status=0
 DRILL_PHASE=cluster DRILL_FAULTS="$FAULTS" DRILL_RESULT="$CLUSTER_DIR/cluster.json" node --import tsx test/drill/cluster.ts || status=$?
+# DRILL_FIGURES: where a caller (the cluster test) wants the cluster phase's figures as JSON.
+if [ -n "${DRILL_FIGURES:-}" ] && [ -f "$CLUSTER_DIR/cluster.json" ]; then cp "$CLUSTER_DIR/cluster.json" "$DRILL_FIGURES"; fi
 
 if [ -f "$CLUSTER_DIR/single.json" ] && [ -f "$CLUSTER_DIR/cluster.json" ]; then
   node -e '

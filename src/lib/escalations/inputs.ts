@@ -32,7 +32,7 @@ export const unitSettingsSchema = z
     aboveOnOxygenMin: minutes('Above band on O₂ time (min)', 10, 240),
     renotifyMin: minutes('Re-notify after (min)', 5, 120),
     overdueMin: minutes('Obs overdue after (min)', 30, 240),
-    // Added with issue 10; optional so a client that does not know them keeps the defaults.
+    // Optional, so a client that does not know these settings keeps the defaults.
     unitPhone: z
       .string()
       .trim()
